@@ -1,0 +1,268 @@
+import Papa from 'papaparse';
+import { decodeBytes } from './decode.ts';
+import { delimiterName, detectDelimiter, detectQuote } from './detect-format.ts';
+import { DEFAULT_MAX_BYTES, MAX_LISTED_ROWS } from './limits.ts';
+import { TableError } from './table-error.ts';
+
+export { TableError } from './table-error.ts';
+
+/**
+ * A delimited file read into strings. Row numbers in every message are 1-based file records and count
+ * the header as row 1 (as a spreadsheet numbers them; blank lines before the header shift it down), so
+ * `rows[i]` is file row `rowNumbers[i]`: i + 2 unless blank rows were skipped.
+ */
+export interface ParsedTable {
+  header: string[];
+  rows: string[][];
+  delimiter: string;
+  encoding: string;
+  warnings: string[];
+  /** 1-based file row of each entry of `rows` (header = row 1). Absent means rows[i] is row i + 2. */
+  rowNumbers?: number[];
+  /** Quote character used; absent means the double quote. */
+  quoteChar?: string;
+}
+
+export interface ParseTableOptions {
+  /** Used in messages only. */
+  fileName?: string;
+  /** One character, or "tab"; overrides detection. */
+  delimiter?: string;
+  /** utf-8, utf-16le, utf-16be or windows-1252 (aliases accepted); overrides detection. */
+  encoding?: string;
+  /** Refuse larger files; default DEFAULT_MAX_BYTES (256 MiB). */
+  maxBytes?: number;
+}
+
+/** Checks a user-given delimiter and turns "tab" or "\t" into the tab character. */
+export function normalizeDelimiter(delimiter: string): string {
+  const named: Record<string, string> = { tab: '\t', '\\t': '\t', comma: ',', semicolon: ';', pipe: '|' };
+  const d = named[delimiter.toLowerCase()] ?? delimiter;
+  if (d.length !== 1 || d === '"' || d === '\n' || d === '\r') {
+    throw new TableError(
+      `delimiter "${delimiter}" cannot be used: give one character other than a quote or line break, or "tab"`,
+    );
+  }
+  return d;
+}
+
+/** "column 3 ('q2')" or "column 3" when the header is not known. */
+export function columnLabel(index: number, header?: readonly string[]): string {
+  const name = header?.[index];
+  return name ? `column ${index + 1} ('${name}')` : `column ${index + 1}`;
+}
+
+function listRows(rows: number[]): string {
+  const shown = rows.slice(0, MAX_LISTED_ROWS).join(', ');
+  return rows.length > MAX_LISTED_ROWS ? `${shown} and ${rows.length - MAX_LISTED_ROWS} more` : shown;
+}
+
+function lineAt(text: string, index: number): number {
+  let line = 1;
+  const end = Math.min(index, text.length);
+  for (let i = 0; i < end; i++) if (text.charCodeAt(i) === 10) line++;
+  return line;
+}
+
+function isBlankRecord(record: string[]): boolean {
+  return record.every((f) => f.trim() === '');
+}
+
+/** Shared checks of the header row; returns the cleaned header and how many trailing blank columns to drop. */
+export function checkHeader(
+  rawHeader: readonly string[],
+  columnIsBlank: (index: number) => boolean,
+  warnings: string[],
+  headerRow = 1,
+): string[] {
+  const header = rawHeader.map((h) => h.trim());
+  let keep = header.length;
+  while (keep > 1 && header[keep - 1] === '' && columnIsBlank(keep - 1)) keep--;
+  if (keep < header.length) {
+    warnings.push(
+      `dropped ${header.length - keep} empty column(s) at the end of every row (a delimiter at the end of each line)`,
+    );
+  }
+  const kept = header.slice(0, keep);
+  const seen = new Map<string, number>();
+  const seenFolded = new Map<string, number>();
+  kept.forEach((name, i) => {
+    if (name === '') {
+      throw new TableError(
+        `row ${headerRow}, ${columnLabel(i)}: the header is empty; every column needs a name`,
+        headerRow,
+        `column ${i + 1}`,
+      );
+    }
+    const earlier = seen.get(name);
+    if (earlier !== undefined) {
+      throw new TableError(
+        `row ${headerRow}, column ${i + 1}: the header '${name}' repeats column ${earlier + 1}; column names must be unique`,
+        headerRow,
+        name,
+      );
+    }
+    seen.set(name, i);
+    const folded = name.toLowerCase();
+    const earlierFolded = seenFolded.get(folded);
+    if (earlierFolded !== undefined) {
+      warnings.push(
+        `columns ${earlierFolded + 1} ('${kept[earlierFolded]}') and ${i + 1} ('${name}') differ only in letter case`,
+      );
+    } else {
+      seenFolded.set(folded, i);
+    }
+  });
+  return kept;
+}
+
+/**
+ * Reads a delimited text file (CSV, TSV, semicolon or pipe separated) into a header and string rows.
+ * Decoding: BOM, then UTF-16 by NUL pattern, then strict UTF-8, then Windows-1252 (see decodeBytes).
+ * Delimiter: detected from the header and the first records (see detectDelimiter) unless given.
+ * A header row is required. Blank rows are skipped (with a warning when inside the data); a delimiter
+ * at the end of every line is tolerated. Cost O(file size).
+ * Throws TableError, naming row and column, for: an empty or oversized file, binary content, an empty or
+ * repeated header, no data rows, an unterminated or malformed quoted field, and rows whose field count
+ * differs from the header's.
+ */
+export function parseTable(bytes: Uint8Array, options: ParseTableOptions = {}): ParsedTable {
+  const label = options.fileName ? `file "${options.fileName}"` : 'the file';
+  const maxBytes = options.maxBytes ?? DEFAULT_MAX_BYTES;
+  if (bytes.length === 0) throw new TableError(`${label} is empty (0 bytes)`);
+  if (bytes.length > maxBytes) {
+    throw new TableError(
+      `${label} is ${bytes.length} bytes, above the limit of ${maxBytes} bytes for one import`,
+    );
+  }
+  const decoded = decodeBytes(bytes, options.encoding, options.fileName);
+  const warnings = [...decoded.warnings];
+  const text = decoded.text;
+  if (text.trim() === '') throw new TableError(`${label} holds only blank space, no header row`);
+
+  let delimiter: string;
+  if (options.delimiter !== undefined) {
+    delimiter = normalizeDelimiter(options.delimiter);
+  } else {
+    const guess = detectDelimiter(text);
+    if (guess) {
+      delimiter = guess.delimiter;
+      if (guess.alsoPlausible.length > 0) {
+        warnings.push(
+          `the ${delimiterName(delimiter)} was taken as the delimiter; ${guess.alsoPlausible
+            .map(delimiterName)
+            .join(' and ')} would also fit: check the preview`,
+        );
+      }
+    } else {
+      delimiter = ',';
+      warnings.push(
+        'no comma, semicolon, tab or pipe splits the header row, so the file was read as a single column',
+      );
+    }
+  }
+  const quoteChar = detectQuote(text, delimiter);
+  if (quoteChar !== '"') warnings.push('fields are quoted with single quotes');
+
+  const result = Papa.parse<string[]>(text, { delimiter, quoteChar, header: false, skipEmptyLines: false });
+  const records = result.data;
+  for (const err of result.errors) {
+    if (err.type !== 'Quotes' || err.row === undefined) continue;
+    const row = err.row + 1;
+    const fieldIndex = Math.max(0, (records[err.row]?.length ?? 1) - 1);
+    const header = records[0]?.map((h) => h.trim());
+    const where = `row ${row}, ${columnLabel(fieldIndex, row === 1 ? undefined : header)} (line ${lineAt(text, err.index ?? 0)})`;
+    const what =
+      err.code === 'MissingQuotes'
+        ? 'a quoted field is opened and never closed'
+        : 'text follows the closing quote of a quoted field';
+    throw new TableError(`${where}: ${what}`, row, header?.[fieldIndex] ?? `column ${fieldIndex + 1}`);
+  }
+
+  let first = 0;
+  while (first < records.length && isBlankRecord(records[first])) first++;
+  if (first === records.length) throw new TableError(`${label} has no header row`);
+  if (first > 0) warnings.push(`skipped ${first} blank line(s) before the header`);
+  const rawHeader = records[first];
+  const headerRow = first + 1;
+
+  let last = records.length;
+  while (last > first + 1 && isBlankRecord(records[last - 1])) last--;
+  const blankInside: number[] = [];
+  const rows: string[][] = [];
+  const rowNumbers: number[] = [];
+  for (let r = first + 1; r < last; r++) {
+    if (isBlankRecord(records[r])) {
+      blankInside.push(r + 1);
+      continue;
+    }
+    rows.push(records[r]);
+    rowNumbers.push(r + 1);
+  }
+  if (rows.length === 0) {
+    throw new TableError(`${label} has a header row but no data rows`, headerRow + 1);
+  }
+  if (blankInside.length > 0) warnings.push(`skipped blank row(s) ${listRows(blankInside)}`);
+
+  const header = checkHeader(
+    rawHeader,
+    (c) => rows.every((row) => (row[c] ?? '').trim() === ''),
+    warnings,
+    headerRow,
+  );
+  const width = header.length;
+  const ragged: number[] = [];
+  let firstRagged: { row: number; fields: number; extra?: string; extraIndex?: number } | undefined;
+  let trimmed = 0;
+  for (let i = 0; i < rows.length; i++) {
+    const row = rows[i];
+    if (row.length === width) continue;
+    if (row.length > width) {
+      let extraIndex = -1;
+      for (let c = width; c < row.length; c++) {
+        if (row[c].trim() !== '') {
+          extraIndex = c;
+          break;
+        }
+      }
+      if (extraIndex < 0) {
+        rows[i] = row.slice(0, width);
+        if (row.length > rawHeader.length) trimmed++;
+        continue;
+      }
+      ragged.push(rowNumbers[i]);
+      firstRagged ??= { row: rowNumbers[i], fields: row.length, extra: row[extraIndex], extraIndex };
+    } else {
+      ragged.push(rowNumbers[i]);
+      firstRagged ??= { row: rowNumbers[i], fields: row.length };
+    }
+  }
+  if (firstRagged) {
+    const more = ragged.length > 1 ? `; rows ${listRows(ragged.slice(1))} also differ` : '';
+    const f = firstRagged;
+    if (f.extra !== undefined && f.extraIndex !== undefined) {
+      throw new TableError(
+        `row ${f.row}, column ${f.extraIndex + 1}: value '${f.extra}' lies beyond the last header column ` +
+          `(row has ${f.fields} fields, header has ${width})${more}`,
+        f.row,
+        `column ${f.extraIndex + 1}`,
+      );
+    }
+    throw new TableError(
+      `row ${f.row}: has ${f.fields} field(s) but the header has ${width}; ${columnLabel(f.fields, header)} ` +
+        `and after are missing${more}`,
+      f.row,
+      header[f.fields],
+    );
+  }
+  if (trimmed > 0) warnings.push(`ignored empty trailing fields in ${trimmed} row(s)`);
+  return {
+    header,
+    rows,
+    delimiter,
+    encoding: decoded.encoding,
+    warnings,
+    rowNumbers,
+    quoteChar,
+  };
+}
