@@ -1,0 +1,65 @@
+import path from 'node:path';
+import type { Actor } from '../../db/decision-log.ts';
+import { StudyFileError } from '../../db/errors.ts';
+import { Study } from '../../db/study.ts';
+
+/**
+ * The study a window (desktop) or a browser-mode server has open, and who is working on it.
+ * Commands reach the study only through here.
+ */
+export class Session {
+  private current: Study | undefined;
+
+  constructor(
+    public actor: Actor,
+    readonly app: string,
+    readonly nativeBinding?: string,
+  ) {}
+
+  get study(): Study {
+    if (!this.current) throw new StudyFileError('not-found', 'no study is open; open or create one first');
+    return this.current;
+  }
+
+  get hasStudy(): boolean {
+    return this.current !== undefined;
+  }
+
+  open(file: string): Study {
+    const next = Study.open(path.resolve(file), {
+      actor: this.actor,
+      app: this.app,
+      nativeBinding: this.nativeBinding,
+    });
+    this.close();
+    this.current = next;
+    return next;
+  }
+
+  create(file: string, title: string): Study {
+    const next = Study.create(
+      path.resolve(file),
+      { actor: this.actor, app: this.app, nativeBinding: this.nativeBinding },
+      { title },
+    );
+    this.close();
+    this.current = next;
+    return next;
+  }
+
+  /** Adopts a study opened elsewhere (the launcher opens the demo before serving). */
+  adopt(study: Study): void {
+    this.close();
+    this.current = study;
+  }
+
+  setDisplayName(name: string): void {
+    this.actor = { ...this.actor, name };
+    if (this.current) this.current.actor = this.actor;
+  }
+
+  close(): void {
+    this.current?.close();
+    this.current = undefined;
+  }
+}

@@ -1,0 +1,117 @@
+import path from 'node:path';
+import { type ParseArgsConfig, parseArgs } from 'node:util';
+import { StudyFileError } from '../../db/errors.ts';
+import { EngineError } from '../engine/errors.ts';
+import { RuleError } from '../phases/errors.ts';
+import { projectCommands } from './project.ts';
+import { STATS_ANALYSES } from './stats/index.ts';
+import { type CliContext, DataError, UsageError } from './types.ts';
+
+const USAGE = `usage: scalewright <command> [options]
+
+  stats <analysis> --data FILE [options]   analyses over a CSV or TSV file (${Object.keys(STATS_ANALYSES).join(', ')})
+  project new FILE [--demo]                create a study file
+  project status FILE [--json]             phases, states, counts, open gates
+  project verify FILE                      check the file and its decision log
+
+Run from the project root as: npm run -s cli -- <command> [options]`;
+
+/** Options every `stats` analysis takes; the analysis adds its own. */
+export const COMMON_STATS_OPTIONS: NonNullable<ParseArgsConfig['options']> = {
+  data: { type: 'string' },
+  items: { type: 'string' },
+  reverse: { type: 'string' },
+  min: { type: 'string' },
+  max: { type: 'string' },
+  missing: { type: 'string' },
+  'missing-codes': { type: 'string' },
+  seed: { type: 'string' },
+  json: { type: 'boolean' },
+};
+
+export async function runCli(argv: string[], ctx: CliContext): Promise<number> {
+  const [group, name, ...rest] = argv;
+  if (group === undefined || group === '--help' || group === 'help') {
+    process.stdout.write(`${USAGE}\n`);
+    return group === undefined ? 2 : 0;
+  }
+  try {
+    if (group === 'stats') {
+      const analysis = name === undefined ? undefined : STATS_ANALYSES[name];
+      if (!analysis)
+        throw new UsageError(
+          `unknown analysis "${name ?? ''}"; choose one of ${Object.keys(STATS_ANALYSES).join(', ')}`,
+        );
+      const values = parseStrict(rest, { ...COMMON_STATS_OPTIONS, ...analysis.options });
+      const result = await analysis.run(values, ctx);
+      if (values.json === true) {
+        process.stdout.write(`${JSON.stringify({ ...result.json, warnings: result.warnings })}\n`);
+      } else {
+        process.stdout.write(`${result.table}\n`);
+        for (const w of result.warnings) process.stderr.write(`warning: ${w}\n`);
+      }
+      return 0;
+    }
+    if (group === 'project') {
+      const cmd = name === undefined ? undefined : projectCommands[name];
+      if (!cmd)
+        throw new UsageError(
+          `unknown project command "${name ?? ''}"; choose one of ${Object.keys(projectCommands).join(', ')}`,
+        );
+      return await cmd(rest, ctx);
+    }
+    throw new UsageError(`unknown command "${group}"; run with --help to see the commands`);
+  } catch (error) {
+    return report(error);
+  }
+}
+
+/** Parses options strictly: an unknown or malformed option is a usage error (exit 2). */
+export function parseStrict(
+  args: string[],
+  options: NonNullable<ParseArgsConfig['options']>,
+  positionals = 0,
+): Record<string, string | boolean | undefined> & { _: string[] } {
+  let parsed: ReturnType<typeof parseArgs>;
+  try {
+    parsed = parseArgs({ args, options, strict: true, allowPositionals: positionals > 0 });
+  } catch (error) {
+    throw new UsageError(
+      (error as Error).message.split('\n')[0].replace(/^Unknown option/, 'unknown option'),
+    );
+  }
+  if (parsed.positionals.length > positionals) {
+    throw new UsageError(`unexpected argument "${parsed.positionals[positionals]}"`);
+  }
+  const values = parsed.values as Record<string, string | boolean | undefined>;
+  return Object.assign(values, { _: parsed.positionals });
+}
+
+/** One `error: ` line on stderr, never a stack trace; usage mistakes exit 2, everything else 1. */
+function report(error: unknown): number {
+  const message = error instanceof Error ? error.message : String(error);
+  const known =
+    error instanceof UsageError ||
+    error instanceof DataError ||
+    error instanceof EngineError ||
+    error instanceof StudyFileError ||
+    error instanceof RuleError;
+  const line = known ? message : `unexpected failure: ${message}`;
+  process.stderr.write(`error: ${line.replace(/\s*\n\s*/g, ' ')}\n`);
+  return error instanceof UsageError ? 2 : 1;
+}
+
+/** Resolves a path the user typed against the folder they ran npm from. */
+export function resolveUserPath(file: string, ctx: CliContext): string {
+  return path.resolve(ctx.cwd, file);
+}
+
+const isMain =
+  process.argv[1] !== undefined &&
+  path.resolve(process.argv[1]) === path.resolve(new URL(import.meta.url).pathname);
+if (isMain) {
+  const ctx: CliContext = { cwd: process.env.INIT_CWD ?? process.cwd() };
+  runCli(process.argv.slice(2), ctx).then((code) => {
+    process.exitCode = code;
+  });
+}

@@ -1,0 +1,18 @@
+import { signOffPhase } from '../phases/index.ts';
+import type { Study } from '../../db/study.ts';
+import { fillDemoConstruct } from './construct.ts';
+
+export const DEMO_TITLE = 'Everyday Cycling Confidence — development study (demo)';
+
+/**
+ * Fills a new study with the invented demo, every available phase worked. Deterministic: the
+ * same code always writes the same study content (timestamps aside).
+ */
+export function fillDemoStudy(study: Study): void {
+  fillDemoConstruct(study);
+  signOffPhase(
+    study,
+    'construct',
+    'Definition, facets and planned relations agreed by the project team (demo).',
+  );
+}

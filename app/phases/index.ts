@@ -1,0 +1,118 @@
+import {
+  PHASE_IDS,
+  type PhaseId,
+  getPhaseStatus,
+  setPhaseStatus,
+  type PhaseStatus,
+} from '../../db/repos/phase-state.ts';
+import type { Study } from '../../db/study.ts';
+import { constructRules } from './construct.ts';
+import { RuleError } from './errors.ts';
+import { phaseNotYetAvailable } from './later.ts';
+import { PHASE_TITLES } from './titles.ts';
+import type { ChecklistItem, PhaseRules } from './types.ts';
+
+/** Every phase's rules, in the order a scale is built. */
+export const PHASE_RULES: Record<PhaseId, PhaseRules> = {
+  construct: constructRules,
+  items: phaseNotYetAvailable(
+    'items',
+    'Draft the item pool, map each item to a facet, and check its wording.',
+  ),
+  review: phaseNotYetAvailable(
+    'review',
+    'Have experts rate each item; compute content-validity statistics and decide.',
+  ),
+  pilot: phaseNotYetAvailable(
+    'pilot',
+    'Import pilot responses, map columns, set missing codes, screen respondents.',
+  ),
+  purification: phaseNotYetAvailable(
+    'purification',
+    'Analyse items and reliability in rounds; keep or drop items with reasons.',
+  ),
+  validity: phaseNotYetAvailable('validity', 'Gather validity evidence on the retained items.'),
+  appendix: phaseNotYetAvailable('appendix', 'Render the methods appendix from the study file.'),
+};
+
+export interface PhaseOverview {
+  id: PhaseId;
+  title: string;
+  purpose: string;
+  status: PhaseStatus;
+  holds: string[];
+  checklist: ChecklistItem[];
+  /** Why sign-off is not possible now; empty when it is. */
+  blockers: string[];
+}
+
+function previousPhase(phase: PhaseId): PhaseId | undefined {
+  const index = PHASE_IDS.indexOf(phase);
+  return index > 0 ? PHASE_IDS[index - 1] : undefined;
+}
+
+export function phaseOverview(study: Study, phase: PhaseId): PhaseOverview {
+  const rules = PHASE_RULES[phase];
+  const checklist = rules.checklist(study);
+  const before = previousPhase(phase);
+  if (before) {
+    const beforeStatus = getPhaseStatus(study, before);
+    checklist.unshift({
+      id: 'previous-signed-off',
+      label: `The ${PHASE_TITLES[before]} phase is signed off`,
+      met: beforeStatus === 'signed-off',
+      detail: beforeStatus.replace('-', ' '),
+    });
+  }
+  const status = getPhaseStatus(study, phase);
+  const blockers = checklist.filter((c) => !c.met).map((c) => `${c.label}: ${c.detail}`);
+  if (status === 'signed-off') blockers.unshift('already signed off');
+  return {
+    id: phase,
+    title: PHASE_TITLES[phase],
+    purpose: rules.purpose,
+    status,
+    holds: rules.holds(study),
+    checklist,
+    blockers,
+  };
+}
+
+export function studyOverview(study: Study): PhaseOverview[] {
+  return PHASE_IDS.map((phase) => phaseOverview(study, phase));
+}
+
+/** Signs a phase off: every checklist item must be met; logged with the researcher's note. */
+export function signOffPhase(study: Study, phase: PhaseId, rationale: string): void {
+  const overview = phaseOverview(study, phase);
+  if (overview.status === 'signed-off')
+    throw new RuleError(`the ${overview.title} phase is already signed off`);
+  if (overview.blockers.length > 0) {
+    throw new RuleError(
+      `the ${overview.title} phase cannot be signed off yet: ${overview.blockers.join('; ')}`,
+      'gate',
+    );
+  }
+  study.change(
+    {
+      phase,
+      kind: 'signed-off',
+      target: `${overview.title} phase`,
+      rationale,
+      detail: { checklist: overview.checklist },
+    },
+    () => setPhaseStatus(study, phase, 'signed-off'),
+  );
+}
+
+/** Reopens a signed-off phase; the reason is required and logged. */
+export function reopenPhase(study: Study, phase: PhaseId, rationale: string): void {
+  const status = getPhaseStatus(study, phase);
+  const title = PHASE_TITLES[phase];
+  if (status !== 'signed-off')
+    throw new RuleError(`the ${title} phase is not signed off, so there is nothing to reopen`);
+  if (rationale.trim() === '') throw new RuleError(`say why the ${title} phase is reopened`);
+  study.change({ phase, kind: 'reopened', target: `${title} phase`, rationale }, () =>
+    setPhaseStatus(study, phase, 'reopened'),
+  );
+}

@@ -1,0 +1,21 @@
+/** Why a study file could not be opened or written. The message is shown to the user as is. */
+export type StudyFileProblem =
+  | 'not-found'
+  | 'exists'
+  | 'not-sqlite'
+  | 'not-a-study'
+  | 'corrupt'
+  | 'newer-version'
+  | 'older-version'
+  | 'locked'
+  | 'read-only';
+
+export class StudyFileError extends Error {
+  override name = 'StudyFileError';
+  constructor(
+    readonly problem: StudyFileProblem,
+    message: string,
+  ) {
+    super(message);
+  }
+}

@@ -1,0 +1,13 @@
+import { migration0001 } from './0001-core.ts';
+import type { Migration } from './types.ts';
+
+/** Every migration, in order. A new one is a new numbered file appended here (see DEVELOPERS.md). */
+export const MIGRATIONS: readonly Migration[] = [migration0001];
+
+for (let i = 0; i < MIGRATIONS.length; i++) {
+  if (MIGRATIONS[i].version !== i + 1) {
+    throw new Error(`migration list out of order: position ${i + 1} holds version ${MIGRATIONS[i].version}`);
+  }
+}
+
+export const LATEST_VERSION = MIGRATIONS.length;

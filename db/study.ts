@@ -1,0 +1,202 @@
+import crypto from 'node:crypto';
+import fs from 'node:fs';
+import path from 'node:path';
+import Database from 'better-sqlite3';
+import { DecisionLog, type Actor } from './decision-log.ts';
+import { StudyFileError } from './errors.ts';
+import { StudyLock } from './lock.ts';
+import { LATEST_VERSION, MIGRATIONS } from './migrations/index.ts';
+import { APPLICATION_ID, inspectStudyFile } from './study-file.ts';
+
+export const STUDY_EXTENSION = '.scalewright';
+
+export interface OpenOptions {
+  /** Who writes (for the lock and the log). */
+  actor: Actor;
+  /** Named in the lock so that a second writer is told who holds the study. */
+  app: string;
+  /** 'read' opens without a lock and never writes (status, verify). Default 'write'. */
+  mode?: 'read' | 'write';
+  /** Path of a better-sqlite3 addon built for another ABI (the Electron shell passes its own). */
+  nativeBinding?: string;
+}
+
+/**
+ * An open study file. Everything that changes the study goes through `change`, which runs the
+ * change and appends its decision-log row in one transaction.
+ */
+export class Study {
+  readonly log: DecisionLog;
+
+  private constructor(
+    readonly path: string,
+    readonly db: Database.Database,
+    /** Who is named in the log rows this study writes; the display name can change while open. */
+    public actor: Actor,
+    readonly mode: 'read' | 'write',
+    private readonly lock: StudyLock | undefined,
+  ) {
+    this.log = new DecisionLog(db);
+  }
+
+  /**
+   * Creates a new study at `file` and opens it; refuses to overwrite an existing file. The file is
+   * built and filled (`init`, e.g. the demo) under a temporary name and moved into place only when
+   * complete, so a failure never leaves a half-made study behind.
+   */
+  static create(
+    file: string,
+    options: OpenOptions,
+    setup: { title?: string; init?: (study: Study) => void } = {},
+  ): Study {
+    const target = path.resolve(file);
+    if (fs.existsSync(target))
+      throw new StudyFileError('exists', `${target} already exists; choose another name`);
+    fs.mkdirSync(path.dirname(target), { recursive: true });
+    const temp = `${target}.${process.pid}.creating`;
+    try {
+      const db = new Database(temp, { nativeBinding: options.nativeBinding });
+      try {
+        db.pragma(`application_id = ${APPLICATION_ID}`);
+        db.pragma('foreign_keys = ON');
+        migrate(db, 0);
+        const meta = db.prepare('INSERT INTO study_meta (key, value) VALUES (?, ?)');
+        meta.run('study_id', crypto.randomUUID());
+        meta.run('created_at', new Date().toISOString());
+        meta.run('title', setup.title ?? '');
+      } finally {
+        db.close();
+      }
+      if (setup.init) {
+        const draft = Study.open(temp, options);
+        try {
+          setup.init(draft);
+        } finally {
+          draft.close();
+        }
+      }
+      if (fs.existsSync(target))
+        throw new StudyFileError('exists', `${target} already exists; choose another name`);
+      fs.renameSync(temp, target);
+    } finally {
+      for (const leftover of [temp, `${temp}-wal`, `${temp}-shm`, `${temp}.lock`])
+        fs.rmSync(leftover, { force: true });
+    }
+    return Study.open(target, options);
+  }
+
+  /**
+   * Opens an existing study. The header is read first and the file checked read-only
+   * (`PRAGMA quick_check`); a file that is not a study, is damaged, or is from a newer version
+   * is refused without being modified. Pending migrations then run in one transaction.
+   */
+  static open(file: string, options: OpenOptions): Study {
+    const target = path.resolve(file);
+    const mode = options.mode ?? 'write';
+    const facts = inspectStudyFile(target);
+    if (mode === 'read' && facts.userVersion < LATEST_VERSION) {
+      throw new StudyFileError(
+        'older-version',
+        `${target} is study file version ${facts.userVersion}; open it once for writing (in the app, or any project command that writes) to upgrade it to version ${LATEST_VERSION}`,
+      );
+    }
+    checkReadOnly(target, options.nativeBinding);
+    if (mode === 'read') {
+      const db = new Database(target, {
+        readonly: true,
+        fileMustExist: true,
+        nativeBinding: options.nativeBinding,
+      });
+      return new Study(target, db, options.actor, 'read', undefined);
+    }
+    const lock = StudyLock.acquire(target, options.app);
+    try {
+      const db = new Database(target, { fileMustExist: true, nativeBinding: options.nativeBinding });
+      db.pragma('foreign_keys = ON');
+      db.pragma('journal_mode = WAL');
+      db.pragma('busy_timeout = 2000');
+      migrate(db, facts.userVersion);
+      return new Study(target, db, options.actor, 'write', lock);
+    } catch (error) {
+      lock.release();
+      throw error;
+    }
+  }
+
+  /**
+   * Runs `apply` and appends one decision-log row describing it, in one transaction: either both
+   * are stored or neither is.
+   */
+  change<T>(entry: ChangeEntry, apply: () => T): T {
+    this.assertWritable();
+    return this.db.transaction(() => {
+      const result = apply();
+      this.log.append(this.actor, entry);
+      return result;
+    })();
+  }
+
+  meta(key: string): string | undefined {
+    const row = this.db.prepare('SELECT value FROM study_meta WHERE key = ?').get(key) as
+      | { value: string }
+      | undefined;
+    return row?.value;
+  }
+
+  get version(): number {
+    return this.db.pragma('user_version', { simple: true }) as number;
+  }
+
+  assertWritable(): void {
+    if (this.mode !== 'write') throw new StudyFileError('read-only', `${this.path} is open read-only`);
+  }
+
+  close(): void {
+    if (this.db.open) {
+      // Back to a rollback journal, so the closed study is one self-contained file again
+      // (and a later read-only open does not need to create -wal and -shm files beside it).
+      if (this.mode === 'write') this.db.pragma('journal_mode = DELETE');
+      this.db.close();
+    }
+    this.lock?.release();
+  }
+}
+
+export interface ChangeEntry {
+  phase: string;
+  kind: string;
+  target: string;
+  rationale?: string;
+  detail?: Record<string, unknown>;
+  runId?: number | null;
+}
+
+function checkReadOnly(target: string, nativeBinding: string | undefined): void {
+  let db: Database.Database | undefined;
+  try {
+    db = new Database(target, { readonly: true, fileMustExist: true, nativeBinding });
+    const rows = db.pragma('quick_check') as { quick_check: string }[];
+    const problems = rows.map((r) => r.quick_check).filter((r) => r !== 'ok');
+    if (problems.length > 0) {
+      throw new StudyFileError('corrupt', `${target} is damaged: ${problems.slice(0, 3).join('; ')}`);
+    }
+  } catch (error) {
+    if (error instanceof StudyFileError) throw error;
+    throw new StudyFileError(
+      'corrupt',
+      `${target} is damaged and cannot be read: ${(error as Error).message}`,
+    );
+  } finally {
+    db?.close();
+  }
+}
+
+/** Runs the migrations after `from` up to `to`, all in one transaction, and records the version. */
+export function migrate(db: Database.Database, from: number, to: number = LATEST_VERSION): void {
+  const pending = MIGRATIONS.filter((m) => m.version > from && m.version <= to);
+  if (pending.length === 0) return;
+  db.transaction(() => {
+    for (const migration of pending) migration.up(db);
+    db.pragma(`user_version = ${to}`);
+  })();
+}
