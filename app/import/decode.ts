@@ -74,7 +74,7 @@ function looksLikeZip(bytes: Uint8Array): boolean {
  * Refuses text that is really binary content: any NUL character, or more than BINARY_CONTROL_SHARE
  * control characters (tab, CR and LF excepted) in the first SNIFF_BYTES characters.
  */
-function assertTextual(text: string, fileLabel: string): void {
+export function assertTextual(text: string, fileLabel: string): void {
   const n = Math.min(text.length, SNIFF_BYTES);
   let controls = 0;
   for (let i = 0; i < n; i++) {
@@ -93,13 +93,26 @@ function assertTextual(text: string, fileLabel: string): void {
   }
 }
 
+export interface EncodingChoice {
+  encoding: Encoding;
+  /** Bytes of byte-order mark to skip. */
+  bomLength: number;
+  warnings: string[];
+}
+
 /**
- * Decodes the bytes of a delimited text file. Order: a byte-order mark decides; otherwise the NUL
- * pattern of UTF-16; otherwise strict UTF-8; otherwise Windows-1252 (with a warning, because that
- * guess cannot be proven). A given `encoding` overrides detection (a matching BOM is still removed).
- * Throws TableError for a workbook passed as text, for binary content, and for undecodable UTF-16.
+ * Chooses the encoding of a file from its first bytes (or all of them when `complete`). Order: a given
+ * `encoding` wins (a matching BOM is still skipped); else a byte-order mark; else the NUL pattern of
+ * UTF-16; else UTF-8 when the bytes are valid UTF-8 (a sequence cut at the end of an incomplete prefix
+ * is allowed); else Windows-1252, with a warning because that guess cannot be proven.
+ * Throws TableError for a ZIP archive (an .xlsx workbook given as text) and an unknown encoding name.
  */
-export function decodeBytes(bytes: Uint8Array, encoding?: string, fileName?: string): DecodedText {
+export function chooseEncoding(
+  bytes: Uint8Array,
+  complete: boolean,
+  encoding?: string,
+  fileName?: string,
+): EncodingChoice {
   const label = fileName ? `file "${fileName}"` : 'the file';
   if (looksLikeZip(bytes)) {
     throw new TableError(
@@ -108,58 +121,56 @@ export function decodeBytes(bytes: Uint8Array, encoding?: string, fileName?: str
   }
   const warnings: string[] = [];
   const bom = detectBom(bytes);
-  let chosen: Encoding;
   if (encoding !== undefined) {
-    chosen = normalizeEncoding(encoding);
+    const chosen = normalizeEncoding(encoding);
     if (bom && bom.encoding !== chosen) {
       warnings.push(
         `the file starts with a ${bom.encoding} byte-order mark but was read as ${chosen} as requested`,
       );
     }
-  } else if (bom) {
-    chosen = bom.encoding;
-  } else {
-    const utf16 = detectUtf16ByNuls(bytes);
-    if (utf16) {
-      chosen = utf16;
-      warnings.push(`no byte-order mark; read as ${utf16} from the pattern of zero bytes`);
-    } else {
-      chosen = 'utf-8';
-    }
+    return { encoding: chosen, bomLength: bom && bom.encoding === chosen ? bom.length : 0, warnings };
   }
-  const skip = bom && bom.encoding === chosen ? bom.length : 0;
-  const body = bytes.subarray(skip);
+  if (bom) return { encoding: bom.encoding, bomLength: bom.length, warnings };
+  const utf16 = detectUtf16ByNuls(bytes);
+  if (utf16) {
+    warnings.push(`no byte-order mark; read as ${utf16} from the pattern of zero bytes`);
+    return { encoding: utf16, bomLength: 0, warnings };
+  }
+  try {
+    new TextDecoder('utf-8', { fatal: true, ignoreBOM: true }).decode(bytes, { stream: !complete });
+    return { encoding: 'utf-8', bomLength: 0, warnings };
+  } catch {
+    warnings.push(
+      'the file is not valid UTF-8; read as Windows-1252 (check accented characters in the preview)',
+    );
+    return { encoding: 'windows-1252', bomLength: 0, warnings };
+  }
+}
+
+/** Message for bytes that the chosen encoding cannot decode. */
+export function undecodableMessage(encoding: Encoding, fileName?: string): string {
+  const label = fileName ? `file "${fileName}"` : 'the file';
+  return encoding === 'utf-8'
+    ? `${label} is not valid UTF-8 throughout: read it again with the encoding set to windows-1252`
+    : `${label} is not valid ${encoding}: it has an odd number of bytes or an unpaired surrogate`;
+}
+
+/**
+ * Decodes the bytes of a delimited text file with the encoding chooseEncoding picks, and refuses
+ * binary content. Cost O(file size). Throws TableError for a workbook passed as text, binary content,
+ * and bytes the chosen encoding cannot decode.
+ */
+export function decodeBytes(bytes: Uint8Array, encoding?: string, fileName?: string): DecodedText {
+  const label = fileName ? `file "${fileName}"` : 'the file';
+  const choice = chooseEncoding(bytes, true, encoding, fileName);
+  const body = bytes.subarray(choice.bomLength);
+  const fatal = choice.encoding !== 'windows-1252';
   let text: string;
-  if (chosen === 'utf-8' && encoding === undefined) {
-    try {
-      text = new TextDecoder('utf-8', { fatal: true, ignoreBOM: true }).decode(body);
-    } catch {
-      chosen = 'windows-1252';
-      text = new TextDecoder('windows-1252').decode(body);
-      warnings.push(
-        'the file is not valid UTF-8; read as Windows-1252 (check accented characters in the preview)',
-      );
-    }
-  } else if (chosen === 'utf-8') {
-    try {
-      text = new TextDecoder('utf-8', { fatal: true, ignoreBOM: true }).decode(body);
-    } catch {
-      throw new TableError(
-        `${label} is not valid UTF-8 as requested: leave the encoding out to let the reader detect it`,
-      );
-    }
-  } else if (chosen === 'utf-16le' || chosen === 'utf-16be') {
-    if (body.length % 2 !== 0) {
-      throw new TableError(`${label} cannot be ${chosen}: it has an odd number of bytes (${bytes.length})`);
-    }
-    try {
-      text = new TextDecoder(chosen, { fatal: true, ignoreBOM: true }).decode(body);
-    } catch {
-      throw new TableError(`${label} is not valid ${chosen}: it contains an unpaired surrogate`);
-    }
-  } else {
-    text = new TextDecoder(chosen, { ignoreBOM: true }).decode(body);
+  try {
+    text = new TextDecoder(choice.encoding, { fatal, ignoreBOM: true }).decode(body);
+  } catch {
+    throw new TableError(undecodableMessage(choice.encoding, fileName));
   }
   assertTextual(text, label);
-  return { text, encoding: chosen, bom: skip > 0, warnings };
+  return { text, encoding: choice.encoding, bom: choice.bomLength > 0, warnings: choice.warnings };
 }

@@ -68,20 +68,18 @@ function isBlankRecord(record: string[]): boolean {
   return record.every((f) => f.trim() === '');
 }
 
-/** Shared checks of the header row; returns the cleaned header and how many trailing blank columns to drop. */
-export function checkHeader(
-  rawHeader: readonly string[],
-  columnIsBlank: (index: number) => boolean,
-  warnings: string[],
-  headerRow = 1,
-): string[] {
+/**
+ * Checks the header row and returns the trimmed names. Empty names at the end are dropped (a delimiter
+ * at the end of every line); a row that has a value under such a column is then refused by fitRecord.
+ * Throws TableError for an empty name inside the header and for a repeated name; names that differ
+ * only in letter case get a warning, because item codes are matched without regard to case.
+ */
+export function checkHeader(rawHeader: readonly string[], warnings: string[], headerRow = 1): string[] {
   const header = rawHeader.map((h) => h.trim());
   let keep = header.length;
-  while (keep > 1 && header[keep - 1] === '' && columnIsBlank(keep - 1)) keep--;
+  while (keep > 1 && header[keep - 1] === '') keep--;
   if (keep < header.length) {
-    warnings.push(
-      `dropped ${header.length - keep} empty column(s) at the end of every row (a delimiter at the end of each line)`,
-    );
+    warnings.push(`ignored ${header.length - keep} column(s) without a header at the end of the header row`);
   }
   const kept = header.slice(0, keep);
   const seen = new Map<string, number>();
@@ -114,6 +112,50 @@ export function checkHeader(
     }
   });
   return kept;
+}
+
+/**
+ * Fits one data record to the header's width: empty fields beyond the last column are dropped; a value
+ * beyond it or a missing field is a TableError naming the row and column (`suffix` is appended to the
+ * message). Returns the record itself when it already fits. Cost O(fields).
+ */
+export function fitRecord(
+  record: string[],
+  header: readonly string[],
+  rowNumber: number,
+  suffix = '',
+): string[] {
+  const width = header.length;
+  if (record.length === width) return record;
+  if (record.length < width) {
+    throw new TableError(
+      `row ${rowNumber}: has ${record.length} field(s) but the header has ${width}; ` +
+        `${columnLabel(record.length, header)} and after are missing${suffix}`,
+      rowNumber,
+      header[record.length],
+    );
+  }
+  for (let c = width; c < record.length; c++) {
+    if (record[c].trim() !== '') {
+      throw new TableError(
+        `row ${rowNumber}, column ${c + 1}: value '${record[c].trim()}' lies beyond the last named column ` +
+          `(the row has ${record.length} fields, the header names ${width})${suffix}`,
+        rowNumber,
+        `column ${c + 1}`,
+      );
+    }
+  }
+  return record.slice(0, width);
+}
+
+/** Message for a quote error reported by papaparse, naming row, column and (when known) line. */
+export function quoteErrorMessage(code: string, row: number, column: string, line?: number): string {
+  const where = line === undefined ? `row ${row}, ${column}` : `row ${row}, ${column} (line ${line})`;
+  const what =
+    code === 'MissingQuotes'
+      ? 'a quoted field is opened and never closed'
+      : 'text follows the closing quote of a quoted field';
+  return `${where}: ${what}`;
 }
 
 /**
@@ -171,12 +213,12 @@ export function parseTable(bytes: Uint8Array, options: ParseTableOptions = {}): 
     const row = err.row + 1;
     const fieldIndex = Math.max(0, (records[err.row]?.length ?? 1) - 1);
     const header = records[0]?.map((h) => h.trim());
-    const where = `row ${row}, ${columnLabel(fieldIndex, row === 1 ? undefined : header)} (line ${lineAt(text, err.index ?? 0)})`;
-    const what =
-      err.code === 'MissingQuotes'
-        ? 'a quoted field is opened and never closed'
-        : 'text follows the closing quote of a quoted field';
-    throw new TableError(`${where}: ${what}`, row, header?.[fieldIndex] ?? `column ${fieldIndex + 1}`);
+    const column = columnLabel(fieldIndex, row === 1 ? undefined : header);
+    throw new TableError(
+      quoteErrorMessage(err.code, row, column, lineAt(text, err.index ?? 0)),
+      row,
+      header?.[fieldIndex] ?? `column ${fieldIndex + 1}`,
+    );
   }
 
   let first = 0;
@@ -204,56 +246,24 @@ export function parseTable(bytes: Uint8Array, options: ParseTableOptions = {}): 
   }
   if (blankInside.length > 0) warnings.push(`skipped blank row(s) ${listRows(blankInside)}`);
 
-  const header = checkHeader(
-    rawHeader,
-    (c) => rows.every((row) => (row[c] ?? '').trim() === ''),
-    warnings,
-    headerRow,
-  );
-  const width = header.length;
+  const header = checkHeader(rawHeader, warnings, headerRow);
   const ragged: number[] = [];
-  let firstRagged: { row: number; fields: number; extra?: string; extraIndex?: number } | undefined;
+  let firstRagged = -1;
   let trimmed = 0;
   for (let i = 0; i < rows.length; i++) {
     const row = rows[i];
-    if (row.length === width) continue;
-    if (row.length > width) {
-      let extraIndex = -1;
-      for (let c = width; c < row.length; c++) {
-        if (row[c].trim() !== '') {
-          extraIndex = c;
-          break;
-        }
-      }
-      if (extraIndex < 0) {
-        rows[i] = row.slice(0, width);
-        if (row.length > rawHeader.length) trimmed++;
-        continue;
-      }
+    if (row.length === header.length) continue;
+    try {
+      rows[i] = fitRecord(row, header, rowNumbers[i]);
+      if (row.length > rawHeader.length) trimmed++;
+    } catch {
       ragged.push(rowNumbers[i]);
-      firstRagged ??= { row: rowNumbers[i], fields: row.length, extra: row[extraIndex], extraIndex };
-    } else {
-      ragged.push(rowNumbers[i]);
-      firstRagged ??= { row: rowNumbers[i], fields: row.length };
+      if (firstRagged < 0) firstRagged = i;
     }
   }
-  if (firstRagged) {
+  if (firstRagged >= 0) {
     const more = ragged.length > 1 ? `; rows ${listRows(ragged.slice(1))} also differ` : '';
-    const f = firstRagged;
-    if (f.extra !== undefined && f.extraIndex !== undefined) {
-      throw new TableError(
-        `row ${f.row}, column ${f.extraIndex + 1}: value '${f.extra}' lies beyond the last header column ` +
-          `(row has ${f.fields} fields, header has ${width})${more}`,
-        f.row,
-        `column ${f.extraIndex + 1}`,
-      );
-    }
-    throw new TableError(
-      `row ${f.row}: has ${f.fields} field(s) but the header has ${width}; ${columnLabel(f.fields, header)} ` +
-        `and after are missing${more}`,
-      f.row,
-      header[f.fields],
-    );
+    fitRecord(rows[firstRagged], header, rowNumbers[firstRagged], more);
   }
   if (trimmed > 0) warnings.push(`ignored empty trailing fields in ${trimmed} row(s)`);
   return {

@@ -1,0 +1,371 @@
+import { ColumnBuilder, decodeColumn, type EncodedColumn } from '../engine/columnar.ts';
+import { type ColumnMapping, type ResolvedMapping, resolveMapping } from './mapping.ts';
+import {
+  CELL_MISSING,
+  CELL_TEXT,
+  CellReader,
+  type DecimalMark,
+  detectDecimalMark,
+  type MissingCodes,
+  NO_MISSING_CODES,
+} from './numbers.ts';
+import type { ParsedTable } from './parse-table.ts';
+import { TableError } from './table-error.ts';
+
+/** Problems listed one by one before the rest are only counted (`problemCount` has them all). */
+export const DEFAULT_MAX_PROBLEMS = 1000;
+
+/** One cell the researcher should look at. `row` counts the header as row 1; `column` is the header. */
+export interface ImportProblem {
+  row: number;
+  column: string;
+  message: string;
+}
+
+export interface DatasetOptions {
+  /** Missing-value codes of this dataset; blank cells are always missing. */
+  missingCodes?: MissingCodes;
+  /** Declared bounds of the item response format; values outside are listed, never clipped. */
+  scaleMin?: number;
+  scaleMax?: number;
+  /** Decimal mark; detected from the numeric columns when absent. */
+  decimalMark?: DecimalMark;
+  /** Problems listed one by one (default DEFAULT_MAX_PROBLEMS). */
+  maxProblems?: number;
+}
+
+export type NumericRole = 'item' | 'criterion' | 'duration';
+
+export interface EncodedNumericColumn {
+  name: string;
+  role: NumericRole;
+  itemCode?: string;
+  encoded: EncodedColumn;
+  /** Cells read as missing (blank, a missing-value code, or text that is not a number). */
+  missing: number;
+}
+
+export interface NumericColumn {
+  name: string;
+  role: NumericRole;
+  itemCode?: string;
+  /** One value per respondent; NaN marks a missing value and is never shown as such. */
+  values: Float64Array;
+  missing: number;
+}
+
+export interface TextColumn {
+  name: string;
+  values: string[];
+}
+
+export type AttentionOutcome = 'pass' | 'fail' | 'missing';
+
+export interface AttentionColumn {
+  name: string;
+  correctAnswer: string;
+  outcomes: AttentionOutcome[];
+}
+
+interface DatasetBase {
+  n: number;
+  /** Respondent ids; `row N` when the file has no id column or the cell is blank. */
+  ids: string[];
+  /** File row of each respondent (header = row 1). */
+  rowNumbers: number[];
+  idColumn?: string;
+  groups: TextColumn[];
+  retestLinks?: TextColumn;
+  attention: AttentionColumn[];
+  decimalMark: DecimalMark;
+  missingCodes: MissingCodes;
+  scaleBounds?: { min: number; max: number };
+  /** The first `maxProblems` problems, in file order. */
+  problems: ImportProblem[];
+  /** All problems, listed or not. */
+  problemCount: number;
+  warnings: string[];
+}
+
+/** A dataset whose numeric columns are in the compact layout: what storage writes, column by column. */
+export interface EncodedDataset extends DatasetBase {
+  columns: EncodedNumericColumn[];
+}
+
+/** A dataset with numeric columns as doubles, ready for the engine. */
+export interface Dataset extends DatasetBase {
+  columns: NumericColumn[];
+}
+
+/** Checks declared scale bounds; throws TableError when only one is given or min is not below max. */
+export function checkScaleBounds(min?: number, max?: number): { min: number; max: number } | undefined {
+  if (min === undefined && max === undefined) return undefined;
+  if (min === undefined || max === undefined || !Number.isFinite(min) || !Number.isFinite(max)) {
+    throw new TableError('declared scale bounds need both a finite minimum and a finite maximum');
+  }
+  if (min >= max) {
+    throw new TableError(`declared scale bounds: the minimum ${min} must be below the maximum ${max}`);
+  }
+  return { min, max };
+}
+
+interface NumericSlot {
+  column: number;
+  name: string;
+  role: NumericRole;
+  itemCode?: string;
+  builder: ColumnBuilder;
+  missing: number;
+  bounded: boolean;
+}
+
+/**
+ * Turns data records into a dataset one record at a time, so a file can be read in chunks and its
+ * numeric columns built directly in the compact layout. `addRow` expects records already fitted to
+ * the header's width (see fitRecord). Cost O(cells).
+ */
+export class DatasetAssembler {
+  private readonly resolved: ResolvedMapping;
+  private readonly reader: CellReader;
+  private readonly attentionReaders: { column: number; correct: string; correctNumber?: number }[];
+  private readonly slots: NumericSlot[];
+  private readonly bounds?: { min: number; max: number };
+  private readonly maxProblems: number;
+  private readonly missingCodes: MissingCodes;
+  private readonly ids: string[] = [];
+  private readonly rowNumbers: number[] = [];
+  private readonly groups: TextColumn[];
+  private readonly retestLinks?: TextColumn;
+  private readonly attention: AttentionColumn[];
+  private readonly problems: ImportProblem[] = [];
+  private readonly warnings: string[] = [];
+  private problemCount = 0;
+
+  constructor(
+    private readonly header: readonly string[],
+    mapping: ColumnMapping,
+    readonly decimalMark: DecimalMark,
+    options: DatasetOptions = {},
+    capacityHint = 1024,
+  ) {
+    this.resolved = resolveMapping(header, mapping);
+    this.missingCodes = options.missingCodes ?? NO_MISSING_CODES;
+    this.reader = new CellReader(this.missingCodes, decimalMark);
+    this.bounds = checkScaleBounds(options.scaleMin, options.scaleMax);
+    this.maxProblems = options.maxProblems ?? DEFAULT_MAX_PROBLEMS;
+    const slot = (column: number, role: NumericRole, itemCode?: string): NumericSlot => ({
+      column,
+      name: header[column],
+      role,
+      itemCode,
+      builder: new ColumnBuilder(capacityHint),
+      missing: 0,
+      bounded: role === 'item' && this.bounds !== undefined,
+    });
+    const r = this.resolved;
+    this.slots = [
+      ...r.items.map((i) => slot(i.column, 'item', i.itemCode)),
+      ...r.criteria.map((c) => slot(c, 'criterion')),
+      ...(r.duration === undefined ? [] : [slot(r.duration, 'duration')]),
+    ].sort((a, b) => a.column - b.column);
+    this.groups = r.groups.map((c) => ({ name: header[c], values: [] }));
+    if (r.retestLink !== undefined) this.retestLinks = { name: header[r.retestLink], values: [] };
+    this.attention = r.attention.map((a) => ({
+      name: header[a.column],
+      correctAnswer: a.correctAnswer,
+      outcomes: [],
+    }));
+    this.attentionReaders = r.attention.map((a) => {
+      const correctNumber = this.reader.read(a.correctAnswer);
+      return {
+        column: a.column,
+        correct: a.correctAnswer.toLowerCase(),
+        correctNumber: Number.isNaN(correctNumber) ? undefined : correctNumber,
+      };
+    });
+    if (r.idColumn === undefined) {
+      this.warnings.push(
+        'no column is mapped as the respondent id; respondents are named by their row number',
+      );
+    }
+  }
+
+  /** Number of records added so far. */
+  get n(): number {
+    return this.ids.length;
+  }
+
+  private problem(row: number, column: number, message: string): void {
+    this.problemCount++;
+    if (this.problems.length < this.maxProblems) {
+      const name = this.header[column];
+      this.problems.push({ row, column: name, message: `row ${row}, column '${name}': ${message}` });
+    }
+  }
+
+  private textMessage(text: string): string {
+    const otherMark = this.decimalMark === '.' ? /^[+-]?\d+,\d+$/ : /^[+-]?\d+\.\d+$/;
+    if (otherMark.test(text)) {
+      const used = this.decimalMark === '.' ? 'point' : 'comma';
+      return `'${text}' uses the other decimal mark; this file's decimal mark is the ${used} (read as missing)`;
+    }
+    return `'${text}' is not a number (read as missing; declare it as a missing-value code if it means no answer)`;
+  }
+
+  /** Adds one data record (already fitted to the header) found at file row `rowNumber`. */
+  addRow(record: readonly string[], rowNumber: number): void {
+    const r = this.resolved;
+    this.rowNumbers.push(rowNumber);
+    if (r.idColumn === undefined) {
+      this.ids.push(`row ${rowNumber}`);
+    } else {
+      const id = record[r.idColumn].trim();
+      if (id === '') {
+        this.problem(rowNumber, r.idColumn, `the respondent id is empty; named 'row ${rowNumber}' instead`);
+        this.ids.push(`row ${rowNumber}`);
+      } else {
+        this.ids.push(id);
+      }
+    }
+    const reader = this.reader;
+    for (let s = 0; s < this.slots.length; s++) {
+      const slot = this.slots[s];
+      const raw = record[slot.column];
+      const value = reader.read(raw);
+      if (Number.isNaN(value)) {
+        slot.missing++;
+        if (reader.status === CELL_TEXT) this.problem(rowNumber, slot.column, this.textMessage(raw.trim()));
+      } else if (slot.bounded && this.bounds && (value < this.bounds.min || value > this.bounds.max)) {
+        this.problem(
+          rowNumber,
+          slot.column,
+          `value ${String(value)} is outside the declared scale ${this.bounds.min} to ${this.bounds.max} (kept as is, not clipped)`,
+        );
+      } else if (slot.role === 'duration' && value < 0) {
+        this.problem(rowNumber, slot.column, `the duration ${String(value)} is negative`);
+      }
+      slot.builder.push(value);
+    }
+    for (let g = 0; g < r.groups.length; g++) {
+      const raw = record[r.groups[g]].trim();
+      this.groups[g].values.push(raw === '' || this.reader.isMissing(raw) ? '' : raw);
+    }
+    if (this.retestLinks && r.retestLink !== undefined)
+      this.retestLinks.values.push(record[r.retestLink].trim());
+    for (let a = 0; a < this.attentionReaders.length; a++) {
+      const check = this.attentionReaders[a];
+      const raw = record[check.column].trim();
+      const value = reader.read(raw);
+      let outcome: AttentionOutcome;
+      if (reader.status === CELL_MISSING) outcome = 'missing';
+      else if (check.correctNumber !== undefined && !Number.isNaN(value)) {
+        outcome = value === check.correctNumber ? 'pass' : 'fail';
+      } else outcome = raw.toLowerCase() === check.correct ? 'pass' : 'fail';
+      this.attention[a].outcomes.push(outcome);
+    }
+  }
+
+  /** The finished dataset in the compact layout. Throws TableError when no record was added. */
+  finish(): EncodedDataset {
+    if (this.ids.length === 0) throw new TableError('the file has a header row but no data rows', 2);
+    const warnings = [...this.warnings];
+    if (this.problemCount > this.problems.length) {
+      warnings.push(
+        `${this.problemCount} cells need a look; the first ${this.problems.length} are listed one by one`,
+      );
+    }
+    for (const slot of this.slots) {
+      if (slot.missing === this.ids.length)
+        warnings.push(`column '${slot.name}' has no numeric value at all`);
+    }
+    return {
+      n: this.ids.length,
+      ids: this.ids,
+      rowNumbers: this.rowNumbers,
+      idColumn: this.resolved.idColumn === undefined ? undefined : this.header[this.resolved.idColumn],
+      columns: this.slots.map((s) => ({
+        name: s.name,
+        role: s.role,
+        ...(s.itemCode === undefined ? {} : { itemCode: s.itemCode }),
+        encoded: s.builder.finish(),
+        missing: s.missing,
+      })),
+      groups: this.groups,
+      ...(this.retestLinks ? { retestLinks: this.retestLinks } : {}),
+      attention: this.attention,
+      decimalMark: this.decimalMark,
+      missingCodes: this.missingCodes,
+      ...(this.bounds ? { scaleBounds: this.bounds } : {}),
+      problems: this.problems,
+      problemCount: this.problemCount,
+      warnings,
+    };
+  }
+}
+
+/** Column indexes whose cells are read as numbers under a mapping (items, criteria, duration). */
+export function numericColumns(header: readonly string[], mapping: ColumnMapping): number[] {
+  const r = resolveMapping(header, mapping);
+  return [...r.items.map((i) => i.column), ...r.criteria, ...(r.duration === undefined ? [] : [r.duration])];
+}
+
+/**
+ * Chooses the decimal mark for a table: the given one, else the one detectDecimalMark finds in the
+ * numeric columns of `records`. Adds a warning when both marks occur.
+ */
+export function chooseDecimalMark(
+  records: readonly (readonly string[])[],
+  columns: readonly number[],
+  given: DecimalMark | undefined,
+  warnings: string[],
+): DecimalMark {
+  if (given) return given;
+  function* cells() {
+    for (const record of records) for (const c of columns) if (c < record.length) yield record[c];
+  }
+  const guess = detectDecimalMark(cells());
+  if (guess.mixed) {
+    warnings.push(
+      `both decimal marks occur (${guess.dotCells} cells with a point, ${guess.commaCells} with a comma); ` +
+        `read with the ${guess.mark === '.' ? 'point' : 'comma'}, the other cells are listed as problems`,
+    );
+  }
+  return guess.mark;
+}
+
+/** Decodes every numeric column of an encoded dataset to doubles. Cost O(cells). */
+export function decodeDataset(encoded: EncodedDataset): Dataset {
+  const { columns, ...rest } = encoded;
+  return {
+    ...rest,
+    columns: columns.map(({ encoded: column, ...meta }) => ({ ...meta, values: decodeColumn(column) })),
+  };
+}
+
+/**
+ * Builds a dataset from a parsed table and a confirmed mapping: numeric columns (items, criteria,
+ * duration) read with the dataset's missing codes and decimal mark (detected when not given); text in a
+ * numeric column, values outside the declared scale and negative durations listed by row and column;
+ * nothing clipped or altered. Cost O(cells). Throws TableError for a mapping that does not fit the
+ * header (see resolveMapping), inconsistent scale bounds, or a table without rows.
+ */
+export function buildDataset(
+  table: ParsedTable,
+  mapping: ColumnMapping,
+  options: DatasetOptions = {},
+): Dataset {
+  const warnings: string[] = [];
+  const mark = chooseDecimalMark(
+    table.rows,
+    numericColumns(table.header, mapping),
+    options.decimalMark,
+    warnings,
+  );
+  const assembler = new DatasetAssembler(table.header, mapping, mark, options, table.rows.length);
+  const rowNumbers = table.rowNumbers;
+  for (let i = 0; i < table.rows.length; i++)
+    assembler.addRow(table.rows[i], rowNumbers ? rowNumbers[i] : i + 2);
+  const encoded = assembler.finish();
+  encoded.warnings.unshift(...warnings);
+  return decodeDataset(encoded);
+}
