@@ -1,0 +1,232 @@
+import { createHash } from 'node:crypto';
+import { readFile } from 'node:fs/promises';
+import { resolve } from 'node:path';
+import type { MissingMethod } from '../../engine/item-stats.ts';
+import { DEFAULT_SEED } from '../../engine/rng.ts';
+import { type ResponseMatrix, reverseScore, type ScaleBounds } from '../../engine/scoring.ts';
+import { columnLabel, parseTable, TableError } from '../../import/parse-table.ts';
+import { type CliContext, DataError, type OptionValues, UsageError } from '../types.ts';
+
+/** Item responses read from a data file, checked, with missing codes blanked and reverse keys applied. */
+export interface LoadedItems {
+  /** The path as the user gave it (used in messages and in the output). */
+  file: string;
+  /** SHA-256 of the file's bytes, so a result can be traced to the exact data it came from. */
+  sha256: string;
+  /** Data rows in the file (header excluded). */
+  rows: number;
+  names: string[];
+  /** One row per data row of the file, one column per item; null = missing. Reverse keys applied. */
+  data: ResponseMatrix;
+  /** 1-based file row of each entry of `data` (the header is row 1). */
+  rowNumbers: number[];
+  reverse: string[];
+  bounds: ScaleBounds | null;
+  missing: MissingMethod;
+  missingCodes: string[];
+  /** Notes from reading the file (delimiter guesses, skipped blank rows, decimal commas). */
+  warnings: string[];
+}
+
+/** How an analysis names its columns (most use --items; some use another option such as --columns). */
+export interface LoadOptions {
+  itemsOption?: string;
+}
+
+const NUMBER = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
+const DECIMAL_COMMA = /^[+-]?\d+,\d+$/;
+
+function text(values: OptionValues, name: string): string | undefined {
+  const value = values[name];
+  if (value === undefined || value === false) return undefined;
+  if (value === true) throw new UsageError(`--${name} needs a value`);
+  return value;
+}
+
+function list(raw: string, option: string): string[] {
+  const parts = raw.split(',').map((s) => s.trim());
+  if (parts.some((s) => s === '')) {
+    throw new UsageError(`--${option} "${raw}" has an empty name; give names separated by commas`);
+  }
+  const seen = new Set<string>();
+  for (const p of parts) {
+    if (seen.has(p)) throw new UsageError(`--${option} names "${p}" twice`);
+    seen.add(p);
+  }
+  return parts;
+}
+
+/**
+ * Reads a numeric option such as --min 1. Throws UsageError naming the option when the value is not a
+ * finite number.
+ */
+export function numberOption(values: OptionValues, name: string): number | undefined {
+  const raw = text(values, name);
+  if (raw === undefined) return undefined;
+  const trimmed = raw.trim();
+  if (!NUMBER.test(trimmed)) throw new UsageError(`--${name} must be a number (got "${raw}")`);
+  return Number(trimmed);
+}
+
+/** Reads a whole-number option within [min, max]; throws UsageError otherwise. */
+export function integerOption(
+  values: OptionValues,
+  name: string,
+  min: number,
+  max: number,
+): number | undefined {
+  const value = numberOption(values, name);
+  if (value === undefined) return undefined;
+  if (!Number.isInteger(value) || value < min || value > max) {
+    throw new UsageError(`--${name} must be a whole number from ${min} to ${max} (got ${value})`);
+  }
+  return value;
+}
+
+/** The --seed of a randomized analysis, DEFAULT_SEED when not given; reported in the output as `seed`. */
+export function seedOption(values: OptionValues): number {
+  return integerOption(values, 'seed', -Number.MAX_SAFE_INTEGER, Number.MAX_SAFE_INTEGER) ?? DEFAULT_SEED;
+}
+
+/** --missing listwise|pairwise, default listwise. */
+export function missingOption(values: OptionValues): MissingMethod {
+  const raw = text(values, 'missing') ?? 'listwise';
+  if (raw !== 'listwise' && raw !== 'pairwise') {
+    throw new UsageError(`--missing must be listwise or pairwise (got "${raw}")`);
+  }
+  return raw;
+}
+
+function boundsOption(values: OptionValues): ScaleBounds | null {
+  const min = numberOption(values, 'min');
+  const max = numberOption(values, 'max');
+  if (min === undefined && max === undefined) return null;
+  if (min === undefined || max === undefined) {
+    throw new UsageError('--min and --max go together: give both declared scale bounds');
+  }
+  if (min >= max) throw new UsageError(`--min (${min}) must be below --max (${max})`);
+  return { min, max };
+}
+
+async function readBytes(file: string, ctx: CliContext): Promise<Uint8Array> {
+  try {
+    return await readFile(resolve(ctx.cwd, file));
+  } catch (error) {
+    const code = (error as NodeJS.ErrnoException).code;
+    const reason =
+      code === 'ENOENT'
+        ? 'no such file'
+        : code === 'EISDIR'
+          ? 'it is a folder, not a file'
+          : code === 'EACCES'
+            ? 'permission denied'
+            : (code ?? 'unreadable');
+    throw new DataError(`cannot read data file "${file}": ${reason}`);
+  }
+}
+
+/**
+ * The shared loader of every `stats` analysis: reads --data with parseTable, picks the --items columns
+ * (or another option's), turns empty cells and --missing-codes into missing values, parses numbers
+ * (a decimal comma is accepted in files not separated by commas, with a warning), checks values against
+ * --min/--max when given, and applies --reverse as min + max − x.
+ *
+ * Throws UsageError (exit 2) for a missing --data or items option, a malformed option, --reverse
+ * without --min/--max, or a reversed name not among the items; DataError (exit 1) naming file, row and
+ * column for an unreadable file, a malformed table, an unknown column, a non-numeric value or a value
+ * outside the declared bounds.
+ */
+export async function loadItemData(
+  values: OptionValues,
+  ctx: CliContext,
+  options: LoadOptions = {},
+): Promise<LoadedItems> {
+  const itemsOption = options.itemsOption ?? 'items';
+  const file = text(values, 'data');
+  if (file === undefined)
+    throw new UsageError('--data FILE is required (a CSV or TSV file with a header row)');
+  const itemsRaw = text(values, itemsOption);
+  if (itemsRaw === undefined)
+    throw new UsageError(`--${itemsOption} is required (column names separated by commas)`);
+  const names = list(itemsRaw, itemsOption);
+  const missing = missingOption(values);
+  const bounds = boundsOption(values);
+  const reverseRaw = text(values, 'reverse');
+  const reverse = reverseRaw === undefined ? [] : list(reverseRaw, 'reverse');
+  if (reverse.length > 0 && bounds === null) {
+    throw new UsageError(
+      '--reverse needs the declared scale bounds --min and --max (reverse score = min + max − x)',
+    );
+  }
+  for (const name of reverse) {
+    if (!names.includes(name))
+      throw new UsageError(`--reverse names "${name}", which is not in --${itemsOption}`);
+  }
+  const codesRaw = text(values, 'missing-codes');
+  const missingCodes = codesRaw === undefined ? [] : list(codesRaw, 'missing-codes');
+  const numericCodes = missingCodes.filter((c) => NUMBER.test(c)).map(Number);
+
+  const bytes = await readBytes(file, ctx);
+  const sha256 = createHash('sha256').update(bytes).digest('hex');
+  let table: ReturnType<typeof parseTable>;
+  try {
+    table = parseTable(bytes, { fileName: file });
+  } catch (error) {
+    if (error instanceof TableError) throw new DataError(`${file}: ${error.message}`);
+    throw error;
+  }
+  const columns = names.map((name) => {
+    const index = table.header.indexOf(name);
+    if (index < 0) {
+      const folded = table.header.find((h) => h.toLowerCase() === name.toLowerCase());
+      const hint = folded ? ` (did you mean "${folded}"?)` : '';
+      throw new DataError(
+        `${file}: no column named "${name}"${hint}; the columns are ${table.header.join(', ')}`,
+      );
+    }
+    return index;
+  });
+  const rowNumbers = table.rowNumbers ?? table.rows.map((_, i) => i + 2);
+  const warnings = [...table.warnings];
+  let decimalCommas = 0;
+  const raw: ResponseMatrix = table.rows.map((row, r) =>
+    columns.map((c) => {
+      const cell = (row[c] ?? '').trim();
+      if (cell === '' || missingCodes.includes(cell)) return null;
+      let value: number;
+      if (NUMBER.test(cell)) value = Number(cell);
+      else if (table.delimiter !== ',' && DECIMAL_COMMA.test(cell)) {
+        value = Number(cell.replace(',', '.'));
+        decimalCommas++;
+      } else {
+        throw new DataError(
+          `${file}, row ${rowNumbers[r]}, ${columnLabel(c, table.header)}: value "${cell}" is not a number ` +
+            '(leave the cell empty or list it in --missing-codes if it marks a missing answer)',
+        );
+      }
+      if (numericCodes.includes(value)) return null;
+      if (bounds && (value < bounds.min || value > bounds.max)) {
+        throw new DataError(
+          `${file}, row ${rowNumbers[r]}, ${columnLabel(c, table.header)}: value ${cell} lies outside the ` +
+            `declared bounds ${bounds.min}–${bounds.max} (--min/--max); list it in --missing-codes if it marks a missing answer`,
+        );
+      }
+      return value;
+    }),
+  );
+  if (decimalCommas > 0) warnings.push(`read ${decimalCommas} value(s) with a decimal comma as decimals`);
+  const data = reverse.length > 0 && bounds ? reverseScore(raw, names, reverse, bounds) : raw;
+  return {
+    file,
+    sha256,
+    rows: table.rows.length,
+    names,
+    data,
+    rowNumbers,
+    reverse,
+    bounds,
+    missing,
+    missingCodes,
+    warnings,
+  };
+}

@@ -1,0 +1,310 @@
+import { EngineError } from './errors.ts';
+import { covarianceMatrix, pairwiseCorrelation } from './linalg.ts';
+import { EPSILON, kahanSum, mean, variance } from './numeric.ts';
+import type { ResponseMatrix, ScaleBounds } from './scoring.ts';
+
+/** Descriptive statistics of one item over its answered values. */
+export interface ItemDescriptives {
+  name: string;
+  /** Answered values the statistics use. */
+  n: number;
+  /** Missing answers (null) in the item's column of the matrix given. */
+  missing: number;
+  mean: number;
+  /** Standard deviation with divisor n − 1. */
+  sd: number;
+  /** Adjusted Fisher–Pearson skewness G1; null below three values or without variance. */
+  skewness: number | null;
+  /** Excess kurtosis G2 (the bias-adjusted estimator); null below four values or without variance. */
+  kurtosis: number | null;
+  /** Share of answers at the declared minimum; null without declared bounds. */
+  floorShare: number | null;
+  /** Share of answers at the declared maximum; null without declared bounds. */
+  ceilingShare: number | null;
+}
+
+/**
+ * A value counts as at a declared bound when it is within this distance of it (answers are stored as
+ * doubles; a bound of 1 and an answer of 1.0000000000001 after arithmetic are the same category).
+ */
+export const BOUND_TOLERANCE = 1e-9;
+
+/** Standard deviations below this count as zero: the item does not vary. */
+export const ZERO_VARIANCE = EPSILON;
+
+/**
+ * Item descriptives: mean, SD (divisor n − 1), skewness, excess kurtosis, floor and ceiling shares
+ * against the declared bounds, and the missing count, each over the item's answered values.
+ *
+ * Skewness is the adjusted Fisher–Pearson coefficient G1 = √(n(n − 1))/(n − 2) · m₃/m₂^{3/2};
+ * kurtosis is G2 = (n − 1)/((n − 2)(n − 3)) · ((n + 1)·(m₄/m₂² − 3) + 6), with mₚ the p-th central
+ * moment (divisor n) — the estimators of Joanes & Gill (1998), as scipy.stats.skew/kurtosis with
+ * bias=False. Floor and ceiling use the declared bounds, never the observed range.
+ *
+ * Cost: O(n·k).
+ * Throws EngineError when an item has fewer than two answered values, when a value is not finite,
+ * or when the names do not match the columns.
+ */
+export function itemDescriptives(
+  names: string[],
+  data: ResponseMatrix,
+  bounds?: ScaleBounds,
+): ItemDescriptives[] {
+  return names.map((name, c) => {
+    const values: number[] = [];
+    let missing = 0;
+    for (let r = 0; r < data.length; r++) {
+      const row = data[r];
+      if (row.length !== names.length) {
+        throw new EngineError(
+          `respondent ${r + 1} has ${row.length} answers but there are ${names.length} items`,
+          'shape',
+        );
+      }
+      const x = row[c];
+      if (x === null) missing++;
+      else if (!Number.isFinite(x)) {
+        throw new EngineError(`respondent ${r + 1}, item "${name}": the value ${x} is not a finite number`);
+      } else values.push(x);
+    }
+    const n = values.length;
+    if (n < 2) {
+      throw new EngineError(
+        `item "${name}" has ${n} answered value(s); item statistics require at least two`,
+      );
+    }
+    const m = mean(values);
+    const sd = Math.sqrt(variance(values));
+    const d2 = new Float64Array(n);
+    const d3 = new Float64Array(n);
+    const d4 = new Float64Array(n);
+    for (let i = 0; i < n; i++) {
+      const d = values[i] - m;
+      d2[i] = d * d;
+      d3[i] = d2[i] * d;
+      d4[i] = d2[i] * d2[i];
+    }
+    const m2 = kahanSum(d2) / n;
+    const m3 = kahanSum(d3) / n;
+    const m4 = kahanSum(d4) / n;
+    const varies = sd > ZERO_VARIANCE;
+    const skewness = varies && n >= 3 ? ((Math.sqrt(n * (n - 1)) / (n - 2)) * m3) / m2 ** 1.5 : null;
+    const kurtosis =
+      varies && n >= 4 ? ((n - 1) / ((n - 2) * (n - 3))) * ((n + 1) * (m4 / (m2 * m2) - 3) + 6) : null;
+    let floorShare: number | null = null;
+    let ceilingShare: number | null = null;
+    if (bounds) {
+      let atFloor = 0;
+      let atCeiling = 0;
+      for (const x of values) {
+        if (Math.abs(x - bounds.min) <= BOUND_TOLERANCE) atFloor++;
+        if (Math.abs(x - bounds.max) <= BOUND_TOLERANCE) atCeiling++;
+      }
+      floorShare = atFloor / n;
+      ceilingShare = atCeiling / n;
+    }
+    return { name, n, missing, mean: m, sd, skewness, kurtosis, floorShare, ceilingShare };
+  });
+}
+
+/** How missing answers are handled: drop incomplete respondents, or use every pair's complete cases. */
+export type MissingMethod = 'listwise' | 'pairwise';
+
+/** Plain-language statement of each missing-data method, carried in every result. */
+export const MISSING_METHOD_TEXT: Record<MissingMethod, string> = {
+  listwise: 'listwise deletion: respondents with any missing answer among these items are left out',
+  pairwise:
+    'pairwise deletion: each correlation uses the respondents who answered both items; each item SD uses ' +
+    'everyone who answered it; covariances are r·sᵢ·sⱼ',
+};
+
+/** Means, SDs, covariances and correlations of a set of items under one missing-data method. */
+export interface ItemMoments {
+  method: MissingMethod;
+  /** Respondents analysed: complete cases (listwise) or those with at least one answer (pairwise). */
+  n: number;
+  /** Respondents left out (listwise: incomplete; pairwise: no answer at all). */
+  dropped: number;
+  /** The analysed rows (listwise: complete cases only). */
+  rows: ResponseMatrix;
+  means: number[];
+  sds: number[];
+  /** Whether each item's SD exceeds ZERO_VARIANCE. */
+  varies: boolean[];
+  /** k × k covariance matrix (divisor n − 1). */
+  covariance: number[][];
+  /** k × k Pearson correlations; null in the row and column of an item that does not vary. */
+  correlation: (number | null)[][];
+  /** Respondents behind each entry (listwise: n everywhere). */
+  pairN: number[][];
+  /** Smallest pairN off the diagonal (n with listwise deletion or a single item). */
+  minPairN: number;
+}
+
+/**
+ * Inter-item moments under listwise or pairwise deletion: item means and SDs, the covariance matrix
+ * and the Pearson correlation matrix. Listwise: covariances of the complete cases (divisor n − 1),
+ * correlations cᵢⱼ/√(cᵢᵢcⱼⱼ). Pairwise: each rᵢⱼ from the respondents answering both items, each SD
+ * from everyone answering the item, and cᵢⱼ = rᵢⱼ·sᵢ·sⱼ so that the diagonal holds the item variances.
+ * Correlations with an item that does not vary are undefined and given as null.
+ *
+ * Source: Pearson product-moment correlation; the deletion methods are standard (Little & Rubin 2002,
+ * from memory). Cost: O(n·k²).
+ * Throws EngineError when fewer than two respondents remain, when two items share fewer than two
+ * respondents (pairwise), or when the rows do not match the item count.
+ */
+export function itemMoments(names: string[], data: ResponseMatrix, method: MissingMethod): ItemMoments {
+  const k = names.length;
+  for (let r = 0; r < data.length; r++) {
+    if (data[r].length !== k) {
+      throw new EngineError(
+        `respondent ${r + 1} has ${data[r].length} answers but there are ${k} items`,
+        'shape',
+      );
+    }
+  }
+  const rows =
+    method === 'listwise'
+      ? data.filter((row) => row.every((x) => x !== null))
+      : data.filter((row) => row.some((x) => x !== null));
+  const n = rows.length;
+  if (n < 2) {
+    const which =
+      method === 'listwise' ? 'complete respondents (listwise deletion)' : 'respondents with answers';
+    throw new EngineError(
+      `item analysis requires at least two respondents; found ${n} ${which}`,
+      'too-few-respondents',
+    );
+  }
+  if (method === 'listwise') {
+    const covariance = covarianceMatrix(rows as number[][]);
+    const sds = covariance.map((row, i) => Math.sqrt(Math.max(0, row[i])));
+    const varies = sds.map((s) => s > ZERO_VARIANCE);
+    const means = names.map((_, c) => mean(rows.map((row) => row[c] as number)));
+    const correlation = covariance.map((row, i) =>
+      row.map((cij, j) => {
+        if (!varies[i] || !varies[j]) return null;
+        return i === j ? 1 : clampCorrelation(cij / (sds[i] * sds[j]));
+      }),
+    );
+    const pairN = names.map(() => names.map(() => n));
+    return {
+      method,
+      n,
+      dropped: data.length - n,
+      rows,
+      means,
+      sds,
+      varies,
+      covariance,
+      correlation,
+      pairN,
+      minPairN: n,
+    };
+  }
+  const columns = names.map((_, c) => rows.flatMap((row) => (row[c] === null ? [] : [row[c] as number])));
+  columns.forEach((values, c) => {
+    if (values.length < 2) {
+      throw new EngineError(
+        `item "${names[c]}" has ${values.length} answered value(s); at least two are required`,
+      );
+    }
+  });
+  const means = columns.map((values) => mean(values));
+  const sds = columns.map((values) => Math.sqrt(variance(values)));
+  const varies = sds.map((s) => s > ZERO_VARIANCE);
+  const varying = names.map((_, c) => c).filter((c) => varies[c]);
+  const pairN = names.map((_, i) =>
+    names.map((_, j) => rows.reduce((count, row) => count + (row[i] !== null && row[j] !== null ? 1 : 0), 0)),
+  );
+  let minPairN = k > 1 ? Number.POSITIVE_INFINITY : n;
+  for (let i = 0; i < k; i++) {
+    for (let j = i + 1; j < k; j++) {
+      if (pairN[i][j] < 2) {
+        throw new EngineError(
+          `items "${names[i]}" and "${names[j]}" were answered together by ${pairN[i][j]} respondent(s); ` +
+            'pairwise deletion requires at least two',
+          'too-few-respondents',
+        );
+      }
+      minPairN = Math.min(minPairN, pairN[i][j]);
+    }
+  }
+  const sub = varying.length > 1 ? pairwiseCorrelationByName(names, rows, varying) : [];
+  const correlation: (number | null)[][] = names.map(() => names.map(() => null));
+  varying.forEach((ci, a) => {
+    varying.forEach((cj, b) => {
+      correlation[ci][cj] = a === b ? 1 : clampCorrelation(sub[a][b]);
+    });
+    if (varying.length === 1) correlation[ci][ci] = 1;
+  });
+  const covariance = names.map((_, i) =>
+    names.map((_, j) => {
+      if (i === j) return sds[i] * sds[i];
+      const r = correlation[i][j];
+      return r === null ? 0 : r * sds[i] * sds[j];
+    }),
+  );
+  return {
+    method,
+    n,
+    dropped: data.length - n,
+    rows,
+    means,
+    sds,
+    varies,
+    covariance,
+    correlation,
+    pairN,
+    minPairN,
+  };
+}
+
+/**
+ * Corrected item-total correlation: r between each item and the sum of the other items, from the
+ * covariance matrix: (Σⱼ≠ᵢ cᵢⱼ) / √(cᵢᵢ · Σⱼ,ₗ≠ᵢ cⱼₗ). `null` when the item or the rest does not vary.
+ *
+ * Source: standard item analysis (METHODS.md "Scoring and item statistics"). Cost: O(k²).
+ * Throws nothing.
+ */
+export function correctedItemTotal(cov: readonly (readonly number[])[]): (number | null)[] {
+  const rowSums = cov.map((row) => row.reduce((s, x) => s + x, 0));
+  const total = rowSums.reduce((s, x) => s + x, 0);
+  return cov.map((row, i) => {
+    const itemVar = row[i];
+    const restVar = total - 2 * rowSums[i] + itemVar;
+    if (!(itemVar > ZERO_VARIANCE ** 2) || !(restVar > ZERO_VARIANCE ** 2)) return null;
+    const r = (rowSums[i] - itemVar) / Math.sqrt(itemVar * restVar);
+    return clampCorrelation(r);
+  });
+}
+
+/**
+ * Pairwise correlations of the listed columns; when a pair has no variation on its shared respondents,
+ * the error names the two items instead of column indices.
+ */
+function pairwiseCorrelationByName(names: string[], rows: ResponseMatrix, columns: number[]): number[][] {
+  try {
+    return pairwiseCorrelation(rows.map((row) => columns.map((c) => row[c]))).r;
+  } catch (error) {
+    if (!(error instanceof EngineError) || error.code !== 'zero-variance') throw error;
+    for (const i of columns) {
+      for (const j of columns) {
+        if (i === j) continue;
+        const shared = rows.filter((row) => row[i] !== null && row[j] !== null).map((row) => row[i]);
+        if (shared.every((x) => x === shared[0])) {
+          throw new EngineError(
+            `items "${names[i]}" and "${names[j]}" have no correlation under pairwise deletion: ` +
+              `"${names[i]}" does not vary among the ${shared.length} respondents who answered both`,
+            'no-variance',
+          );
+        }
+      }
+    }
+    throw error;
+  }
+}
+
+function clampCorrelation(r: number): number {
+  return Math.max(-1, Math.min(1, r));
+}
