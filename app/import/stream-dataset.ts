@@ -1,0 +1,291 @@
+import { createHash } from 'node:crypto';
+import { Readable } from 'node:stream';
+import Papa from 'papaparse';
+import { assertTextual, chooseEncoding, type Encoding, undecodableMessage } from './decode.ts';
+import {
+  chooseDecimalMark,
+  DatasetAssembler,
+  type DatasetOptions,
+  type EncodedDataset,
+  numericColumns,
+} from './dataset.ts';
+import { delimiterName, detectDelimiter, detectQuote, sniffRecords } from './detect-format.ts';
+import { DEFAULT_MAX_BYTES, MAX_LISTED_ROWS, SNIFF_BYTES } from './limits.ts';
+import type { ColumnMapping } from './mapping.ts';
+import { checkHeader, columnLabel, fitRecord, normalizeDelimiter, quoteErrorMessage } from './parse-table.ts';
+import { TableError } from './table-error.ts';
+
+export interface StreamDatasetOptions extends DatasetOptions {
+  fileName?: string;
+  /** Overrides delimiter detection (one character or "tab"). */
+  delimiter?: string;
+  /** Overrides encoding detection. */
+  encoding?: string;
+  /** Refuse larger files; default DEFAULT_MAX_BYTES (256 MiB). */
+  maxBytes?: number;
+  /** Receives every chunk of the original bytes, in order: lets storage keep the file as it came. */
+  onBytes?: (chunk: Uint8Array) => void;
+  /** Called after each parsed chunk with the bytes read and data rows seen so far. */
+  onProgress?: (progress: { bytes: number; rows: number }) => void;
+  /** Expected number of respondents, to size the columns once (a guess is fine). */
+  expectedRows?: number;
+}
+
+/** A dataset read from a stream, with what storage needs to keep beside it. */
+export interface StreamedDataset extends EncodedDataset {
+  header: string[];
+  delimiter: string;
+  quoteChar: string;
+  encoding: Encoding;
+  byteLength: number;
+  /** SHA-256 of the original bytes, lowercase hex. */
+  sha256: string;
+}
+
+interface Format {
+  encoding: Encoding;
+  bomLength: number;
+  delimiter: string;
+  quoteChar: string;
+  warnings: string[];
+  sniffText: string;
+}
+
+function detectFormat(prefix: Uint8Array, complete: boolean, options: StreamDatasetOptions): Format {
+  const label = options.fileName ? `file "${options.fileName}"` : 'the file';
+  const choice = chooseEncoding(prefix, complete, options.encoding, options.fileName);
+  const warnings = [...choice.warnings];
+  let sniffText: string;
+  try {
+    const decoder = new TextDecoder(choice.encoding, {
+      fatal: choice.encoding !== 'windows-1252',
+      ignoreBOM: true,
+    });
+    sniffText = decoder.decode(prefix.subarray(choice.bomLength), { stream: !complete });
+  } catch {
+    throw new TableError(undecodableMessage(choice.encoding, options.fileName));
+  }
+  assertTextual(sniffText, label);
+  if (sniffText.trim() === '' && complete)
+    throw new TableError(`${label} holds only blank space, no header row`);
+  let delimiter: string;
+  if (options.delimiter !== undefined) {
+    delimiter = normalizeDelimiter(options.delimiter);
+  } else {
+    const guess = detectDelimiter(sniffText);
+    if (guess) {
+      delimiter = guess.delimiter;
+      if (guess.alsoPlausible.length > 0) {
+        warnings.push(
+          `the ${delimiterName(delimiter)} was taken as the delimiter; ${guess.alsoPlausible
+            .map(delimiterName)
+            .join(' and ')} would also fit: check the preview`,
+        );
+      }
+    } else {
+      delimiter = ',';
+      warnings.push(
+        'no comma, semicolon, tab or pipe splits the header row, so the file was read as a single column',
+      );
+    }
+  }
+  const quoteChar = detectQuote(sniffText, delimiter);
+  if (quoteChar !== '"') warnings.push('fields are quoted with single quotes');
+  return {
+    encoding: choice.encoding,
+    bomLength: choice.bomLength,
+    delimiter,
+    quoteChar,
+    warnings,
+    sniffText,
+  };
+}
+
+function listRows(rows: number[]): string {
+  const shown = rows.slice(0, MAX_LISTED_ROWS).join(', ');
+  return rows.length > MAX_LISTED_ROWS ? `${shown} and ${rows.length - MAX_LISTED_ROWS} more` : shown;
+}
+
+/**
+ * Reads a delimited file from a stream of byte chunks straight into a dataset in the compact column
+ * layout, without holding the file's rows as strings: the first SNIFF_BYTES decide encoding,
+ * delimiter, quote and decimal mark (the decimal mark from the numeric columns of that part), then
+ * papaparse parses chunk by chunk and each record goes to a DatasetAssembler. Same rules and messages
+ * as parseTable + buildDataset, except that the first ragged row stops the import (later ones are not
+ * counted). Also computes the SHA-256 and byte length, and hands each raw chunk to `onBytes`.
+ * Cost O(file size) time; memory O(columns × rows) in the compact layout plus one chunk.
+ * Throws TableError for the same bad files as parseTable, and for a bad mapping (see resolveMapping).
+ */
+export async function streamDataset(
+  source: AsyncIterable<Uint8Array>,
+  mapping: ColumnMapping,
+  options: StreamDatasetOptions = {},
+): Promise<StreamedDataset> {
+  const label = options.fileName ? `file "${options.fileName}"` : 'the file';
+  const maxBytes = options.maxBytes ?? DEFAULT_MAX_BYTES;
+  const hash = createHash('sha256');
+  const iterator = source[Symbol.asyncIterator]();
+  let byteLength = 0;
+  const take = async (): Promise<Uint8Array | undefined> => {
+    const next = await iterator.next();
+    if (next.done) return undefined;
+    const chunk = next.value;
+    byteLength += chunk.length;
+    if (byteLength > maxBytes) {
+      throw new TableError(`${label} is larger than the limit of ${maxBytes} bytes for one import`);
+    }
+    hash.update(chunk);
+    options.onBytes?.(chunk);
+    return chunk;
+  };
+
+  const prefixChunks: Uint8Array[] = [];
+  let prefixLength = 0;
+  let ended = false;
+  while (prefixLength < SNIFF_BYTES) {
+    const chunk = await take();
+    if (!chunk) {
+      ended = true;
+      break;
+    }
+    prefixChunks.push(chunk);
+    prefixLength += chunk.length;
+  }
+  if (byteLength === 0) throw new TableError(`${label} is empty (0 bytes)`);
+  const prefix = Buffer.concat(prefixChunks);
+  const format = detectFormat(prefix, ended, options);
+  const decoder = new TextDecoder(format.encoding, {
+    fatal: format.encoding !== 'windows-1252',
+    ignoreBOM: true,
+  });
+  const decode = (bytes: Uint8Array, stream: boolean): string => {
+    try {
+      return decoder.decode(bytes, { stream });
+    } catch {
+      throw new TableError(undecodableMessage(format.encoding, options.fileName));
+    }
+  };
+  async function* text(): AsyncGenerator<string> {
+    const first = decode(prefix.subarray(format.bomLength), !ended);
+    if (first) yield first;
+    if (ended) return;
+    for (;;) {
+      const chunk = await take();
+      if (!chunk) break;
+      const part = decode(chunk, true);
+      if (part) yield part;
+    }
+    const rest = decode(new Uint8Array(0), false);
+    if (rest) yield rest;
+  }
+
+  const warnings = [...format.warnings];
+  let header: string[] | undefined;
+  let rawWidth = 0;
+  let assembler: DatasetAssembler | undefined;
+  let record = 0;
+  let pendingBlank: number[] = [];
+  const blankInside: number[] = [];
+  let leadingBlank = 0;
+  let trimmed = 0;
+  let failure: unknown;
+
+  const startTable = (rawHeader: string[], headerRow: number) => {
+    header = checkHeader(rawHeader, warnings, headerRow);
+    rawWidth = rawHeader.length;
+    const sniffed = sniffRecords(
+      format.sniffText,
+      format.delimiter,
+      format.quoteChar,
+      Number.POSITIVE_INFINITY,
+    );
+    const mark = chooseDecimalMark(
+      sniffed.slice(1),
+      numericColumns(header, mapping),
+      options.decimalMark,
+      warnings,
+    );
+    assembler = new DatasetAssembler(header, mapping, mark, options, options.expectedRows);
+  };
+
+  const onRows = (rows: string[][], errors: Papa.ParseError[]) => {
+    for (const err of errors) {
+      if (err.type !== 'Quotes' || err.row === undefined) continue;
+      const row = record + err.row + 1;
+      const fieldIndex = Math.max(0, (rows[err.row]?.length ?? 1) - 1);
+      const column = columnLabel(fieldIndex, header);
+      throw new TableError(
+        quoteErrorMessage(err.code, row, column),
+        row,
+        header?.[fieldIndex] ?? `column ${fieldIndex + 1}`,
+      );
+    }
+    for (const fields of rows) {
+      record++;
+      const blank = fields.length === 1 ? fields[0].trim() === '' : fields.every((f) => f.trim() === '');
+      if (!header) {
+        if (blank) leadingBlank++;
+        else startTable(fields, record);
+        continue;
+      }
+      if (blank) {
+        pendingBlank.push(record);
+        continue;
+      }
+      if (pendingBlank.length > 0) {
+        blankInside.push(...pendingBlank);
+        pendingBlank = [];
+      }
+      const fitted = fitRecord(fields, header, record);
+      if (fields.length > rawWidth) trimmed++;
+      assembler?.addRow(fitted, record);
+    }
+  };
+
+  await new Promise<void>((resolve, reject) => {
+    const readable = Readable.from(text(), { objectMode: true });
+    Papa.parse(readable, {
+      delimiter: format.delimiter,
+      quoteChar: format.quoteChar,
+      header: false,
+      skipEmptyLines: false,
+      chunk(results: Papa.ParseResult<string[]>, parser: Papa.Parser) {
+        if (failure) return;
+        try {
+          onRows(results.data, results.errors);
+          options.onProgress?.({ bytes: byteLength, rows: assembler?.n ?? 0 });
+        } catch (e) {
+          failure = e;
+          parser.abort();
+          readable.destroy();
+          reject(e);
+        }
+      },
+      complete() {
+        if (!failure) resolve();
+      },
+      error(e: Error) {
+        if (!failure) {
+          failure = e;
+          reject(e);
+        }
+      },
+    });
+  });
+
+  if (!header || !assembler) throw new TableError(`${label} has no header row`);
+  const dataset = assembler.finish();
+  if (leadingBlank > 0) warnings.push(`skipped ${leadingBlank} blank line(s) before the header`);
+  if (blankInside.length > 0) warnings.push(`skipped blank row(s) ${listRows(blankInside)}`);
+  if (trimmed > 0) warnings.push(`ignored empty trailing fields in ${trimmed} row(s)`);
+  dataset.warnings.unshift(...warnings);
+  return {
+    ...dataset,
+    header,
+    delimiter: format.delimiter,
+    quoteChar: format.quoteChar,
+    encoding: format.encoding,
+    byteLength,
+    sha256: hash.digest('hex'),
+  };
+}
