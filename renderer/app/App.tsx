@@ -1,0 +1,95 @@
+import { type ReactElement, useCallback, useEffect, useMemo, useState } from 'react';
+import { PHASE_IDS, type PhaseId } from '../../db/repos/phase-state.ts';
+import { ConstructScreen } from '../phases/construct/ConstructScreen.tsx';
+import { DecisionLogScreen } from '../phases/log/DecisionLogScreen.tsx';
+import { OverviewScreen } from '../phases/overview/OverviewScreen.tsx';
+import { ErrorNote } from '../shared/components.tsx';
+import { StudyRevision, useQuery } from '../shared/use-command.ts';
+import { PhaseNotYetAvailable } from './PhaseNotYetAvailable.tsx';
+
+type Route = { screen: 'overview' } | { screen: 'log' } | { screen: 'phase'; phase: PhaseId };
+
+function parseRoute(hash: string): Route {
+  const phase = /^#\/phase\/([a-z]+)/.exec(hash)?.[1];
+  if (phase && (PHASE_IDS as readonly string[]).includes(phase))
+    return { screen: 'phase', phase: phase as PhaseId };
+  if (hash.startsWith('#/log')) return { screen: 'log' };
+  return { screen: 'overview' };
+}
+
+function useRoute(): Route {
+  const [hash, setHash] = useState(window.location.hash);
+  useEffect(() => {
+    const onChange = () => setHash(window.location.hash);
+    window.addEventListener('hashchange', onChange);
+    return () => window.removeEventListener('hashchange', onChange);
+  }, []);
+  return parseRoute(hash);
+}
+
+const PHASE_SCREENS: Partial<Record<PhaseId, () => ReactElement>> = {
+  construct: ConstructScreen,
+};
+
+export function App() {
+  const [revision, setRevision] = useState(0);
+  const bump = useCallback(() => setRevision((r) => r + 1), []);
+  const context = useMemo(() => ({ revision, bump }), [revision, bump]);
+  return (
+    <StudyRevision.Provider value={context}>
+      <Shell />
+    </StudyRevision.Provider>
+  );
+}
+
+function Shell() {
+  const route = useRoute();
+  const info = useQuery('study.info', {});
+  const overview = useQuery('study.overview', {});
+  const statusOf = (id: PhaseId) => overview.data?.find((p) => p.id === id)?.status ?? 'not-started';
+  const Screen = route.screen === 'phase' ? PHASE_SCREENS[route.phase] : undefined;
+
+  return (
+    <div className="layout">
+      <nav className="sidebar" aria-label="Study">
+        <div className="brand">
+          <span className="brand-mark" aria-hidden="true" />
+          Scalewright
+        </div>
+        <p className="study-path" title={info.data?.path}>
+          {info.data?.path.split(/[\\/]/).pop()}
+        </p>
+        <a href="#/overview" className={route.screen === 'overview' ? 'nav-item active' : 'nav-item'}>
+          Overview
+        </a>
+        <p className="nav-group">Phases</p>
+        {overview.data?.map((phase, index) => (
+          <a
+            key={phase.id}
+            href={`#/phase/${phase.id}`}
+            className={route.screen === 'phase' && route.phase === phase.id ? 'nav-item active' : 'nav-item'}
+          >
+            <span className={`dot dot-${statusOf(phase.id)}`} aria-hidden="true" />
+            <span className="nav-number">{index + 1}</span> {phase.title}
+          </a>
+        ))}
+        <p className="nav-group">Record</p>
+        <a href="#/log" className={route.screen === 'log' ? 'nav-item active' : 'nav-item'}>
+          Decision log
+        </a>
+        <p className="signed-in">Working as {info.data?.actor.name ?? '…'}</p>
+      </nav>
+      <main className="content">
+        <ErrorNote message={info.error} />
+        {route.screen === 'overview' && <OverviewScreen />}
+        {route.screen === 'log' && <DecisionLogScreen />}
+        {route.screen === 'phase' && (Screen ? <Screen /> : <PhaseNotYetAvailable phase={route.phase} />)}
+        <footer className="cautions">
+          A new scale is not validated for diagnosis, hiring, admission or other high-stakes decisions. Data
+          from human participants needs ethics approval and careful protection. Follow local regulations and
+          licensed professional practice.
+        </footer>
+      </main>
+    </div>
+  );
+}

@@ -1,0 +1,82 @@
+import { useState } from 'react';
+import { PHASE_TITLES } from '../../../app/phases/titles.ts';
+import type { PhaseId } from '../../../db/repos/phase-state.ts';
+import { ErrorNote, formatTime } from '../../shared/components.tsx';
+import { useMutation, useQuery } from '../../shared/use-command.ts';
+
+export function DecisionLogScreen() {
+  const [phase, setPhase] = useState<PhaseId | ''>('');
+  const log = useQuery('log.list', phase === '' ? { limit: 500 } : { phase, limit: 500 });
+  const verify = useMutation('log.verify');
+  const [result, setResult] = useState<
+    { rows: number; breaks: { seq: number; problem: string }[] } | undefined
+  >();
+
+  return (
+    <div className="screen">
+      <header className="screen-head">
+        <div>
+          <p className="eyebrow">Audit trail</p>
+          <h1>Decision log</h1>
+          <p className="muted">
+            Every change, with who made it, when and why. Rows are chained by SHA-256, so an edited, removed
+            or reordered row is detected.
+          </p>
+        </div>
+        <div className="head-actions">
+          <select
+            aria-label="Filter by phase"
+            value={phase}
+            onChange={(e) => setPhase(e.target.value as PhaseId | '')}
+          >
+            <option value="">All phases</option>
+            {Object.entries(PHASE_TITLES).map(([id, title]) => (
+              <option key={id} value={id}>
+                {title}
+              </option>
+            ))}
+          </select>
+          <button type="button" className="secondary" onClick={async () => setResult(await verify.run({}))}>
+            Verify chain
+          </button>
+        </div>
+      </header>
+      {result && (
+        <p className={result.breaks.length === 0 ? 'verify-ok' : 'error-note'} role="status">
+          {result.breaks.length === 0
+            ? `Chain intact: ${result.rows} rows checked.`
+            : `Chain broken: ${result.breaks.map((b) => `row ${b.seq}: ${b.problem}`).join('; ')}`}
+        </p>
+      )}
+      <ErrorNote message={log.error ?? verify.error} />
+      {log.data && (
+        <table className="data-table log-table">
+          <thead>
+            <tr>
+              <th className="num">#</th>
+              <th>When</th>
+              <th>Who</th>
+              <th>Phase</th>
+              <th>What</th>
+              <th>Target</th>
+              <th>Rationale</th>
+            </tr>
+          </thead>
+          <tbody>
+            {log.data.entries.map((entry) => (
+              <tr key={entry.seq}>
+                <td className="num">{entry.seq}</td>
+                <td className="nowrap">{formatTime(entry.at)}</td>
+                <td title={entry.actorUser}>{entry.actorName}</td>
+                <td>{PHASE_TITLES[entry.phase as PhaseId] ?? entry.phase}</td>
+                <td>{entry.kind.replaceAll('-', ' ')}</td>
+                <td>{entry.target}</td>
+                <td className="rationale">{entry.rationale}</td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      )}
+    </div>
+  );
+}
