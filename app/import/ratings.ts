@@ -45,6 +45,8 @@ export interface ReadRatingsOptions {
 
 export interface RatingsFile {
   layout: 'long' | 'wide';
+  /** The header row as written, for naming columns in messages (see describeProblem). */
+  header: string[];
   ratings: RatingRecord[];
   /** Expert codes and item codes in order of first appearance. */
   experts: string[];
@@ -151,6 +153,7 @@ export function readRatings(bytes: Uint8Array, options: ReadRatingsOptions = {})
   const known = options.items ? new Set(options.items) : null;
   const hasLongColumns = folded.includes('expert') || folded.includes('relevance');
   const base = {
+    header: table.header,
     ratings,
     problems,
     warnings,
