@@ -95,8 +95,16 @@ describe('stats content (spawned CLI)', () => {
       [],
       /^error: \S*out-of-range\.csv: row 3, column 3 \('relevance'\): rating 5 is outside/,
     ],
-    ['wrong-columns.csv', [], /^error: \S*wrong-columns\.csv: row 1, column 2 \('rater'\): unexpected column/],
-    ['duplicate.csv', [], /^error: \S*duplicate\.csv: row 4, column 2 \('expert'\): expert 'E1' already rated/],
+    [
+      'wrong-columns.csv',
+      [],
+      /^error: \S*wrong-columns\.csv: row 1, column 2 \('rater'\): unexpected column/,
+    ],
+    [
+      'duplicate.csv',
+      [],
+      /^error: \S*duplicate\.csv: row 4, column 2 \('expert'\): expert 'E1' already rated/,
+    ],
     [
       'non-numeric.csv',
       [],
