@@ -28,6 +28,12 @@ export interface ExpertRating {
 /** Modified kappa bands of Polit, Beck & Owen (2007). */
 export type KappaBand = 'excellent' | 'good' | 'fair' | 'poor';
 
+/**
+ * Chance that one expert rates an item relevant (modified kappa) or essential (critical CVR) when
+ * judging at random: the ½ of Polit, Beck & Owen's (2007) Pc and of the exact binomial test.
+ */
+export const CHANCE_PROBABILITY = 0.5;
+
 /** Significance level of the one-tailed exact binomial test behind the critical CVR (Lawshe 1975). */
 export const CVR_ALPHA = 0.05;
 
@@ -145,7 +151,7 @@ export function modifiedKappa(
     );
   }
   const iCvi = agreeing / experts;
-  const pc = binomialCoefficient(experts, agreeing) * 0.5 ** experts;
+  const pc = binomialCoefficient(experts, agreeing) * CHANCE_PROBABILITY ** experts;
   const kappa = (iCvi - pc) / (1 - pc);
   return { iCvi, pc, kappa, band: kappaBand(kappa) };
 }
@@ -187,7 +193,7 @@ export function criticalCvr(
     throw new EngineError(`critical CVR requires a significance level between 0 and 1 (got ${alpha})`);
   }
   for (let needed = Math.floor(experts / 2) + 1; needed <= experts; needed++) {
-    const tail = binomialSf(needed, experts, 0.5);
+    const tail = binomialSf(needed, experts, CHANCE_PROBABILITY);
     if (tail <= alpha) {
       return { essentialNeeded: needed, cvr: contentValidityRatio(needed, experts), tailProbability: tail };
     }
