@@ -1,8 +1,7 @@
 import { EngineError } from '../errors.ts';
-import { itemMoments, type MissingMethod } from '../item-stats.ts';
+import type { MissingMethod } from '../item-stats.ts';
 import { createRng } from '../rng.ts';
 import type { ResponseMatrix } from '../scoring.ts';
-import { cronbachAlpha } from './alpha.ts';
 
 /** Resamples between two progress reports (and two checks of `shouldStop`). */
 export const BOOTSTRAP_PROGRESS_EVERY = 50;
@@ -105,26 +104,170 @@ function completeCaseAlphas(
   return alphas.subarray(0, used);
 }
 
-/** Alpha of every resample with pairwise deletion: the pairwise moments are recomputed, O(n·k²) each. */
+/**
+ * Relative size below which a pair's sum of squared deviations counts as zero: the item does not vary
+ * among the respondents it shares with the other item, and the resample is skipped (as the full
+ * computation would refuse it).
+ */
+export const PAIR_VARIANCE_FLOOR = 1e-10;
+
+/**
+ * Alpha of every resample with pairwise deletion, by the same convention as itemMoments (rᵢⱼ over the
+ * pair's shared respondents, sᵢ over each item's answers, cᵢⱼ = rᵢⱼsᵢsⱼ). Performance: a resample is
+ * a weight per respondent (how often it was drawn), so undrawn rows cost nothing. Complete rows add to
+ * per-item sums once and only their cross-products are per pair; rows with a missing answer add to
+ * per-pair sums for the items they answered. Values are centred once; all sums live in Float64Arrays
+ * reused across resamples. Cost O(n·k²) per resample.
+ */
 function pairwiseAlphas(
-  names: string[],
   data: ResponseMatrix,
   options: BootstrapOptions,
   draw: (n: number) => number,
   report: (done: number) => void,
 ): Float64Array {
   const n = data.length;
+  const k = data[0].length;
+  const x = new Float64Array(n * k);
+  const complete = new Uint8Array(n);
+  const answered: Int32Array[] = new Array(n);
+  const centre = new Float64Array(k);
+  const count = new Float64Array(k);
+  for (const row of data) {
+    for (let c = 0; c < k; c++) {
+      const v = row[c];
+      if (v !== null) {
+        centre[c] += v;
+        count[c]++;
+      }
+    }
+  }
+  for (let c = 0; c < k; c++) centre[c] /= count[c];
+  for (let r = 0; r < n; r++) {
+    const cols: number[] = [];
+    for (let c = 0; c < k; c++) {
+      const v = data[r][c];
+      if (v !== null) {
+        x[r * k + c] = v - centre[c];
+        cols.push(c);
+      }
+    }
+    complete[r] = cols.length === k ? 1 : 0;
+    answered[r] = Int32Array.from(cols);
+  }
+  const weights = new Int32Array(n);
+  const itemN = new Float64Array(k);
+  const itemSum = new Float64Array(k);
+  const itemSq = new Float64Array(k);
+  const itemFirst = new Float64Array(k);
+  const itemVaries = new Uint8Array(k);
+  const itemVar = new Float64Array(k);
+  const itemSd = new Float64Array(k);
+  const fullSum = new Float64Array(k);
+  const fullSq = new Float64Array(k);
+  const pairN = new Float64Array(k * k);
+  const pairSumI = new Float64Array(k * k);
+  const pairSumJ = new Float64Array(k * k);
+  const pairSqI = new Float64Array(k * k);
+  const pairSqJ = new Float64Array(k * k);
+  const cross = new Float64Array(k * k);
   const alphas = new Float64Array(options.resamples);
-  const sample: ResponseMatrix = new Array(n);
   let used = 0;
   for (let b = 0; b < options.resamples; b++) {
-    for (let i = 0; i < n; i++) sample[i] = data[draw(n)];
-    try {
-      alphas[used] = cronbachAlpha(itemMoments(names, sample, 'pairwise').covariance);
-      used++;
-    } catch (error) {
-      if (!(error instanceof EngineError)) throw error;
+    weights.fill(0);
+    for (let i = 0; i < n; i++) weights[draw(n)]++;
+    itemN.fill(0);
+    itemSum.fill(0);
+    itemSq.fill(0);
+    itemFirst.fill(Number.NaN);
+    itemVaries.fill(0);
+    fullSum.fill(0);
+    fullSq.fill(0);
+    pairN.fill(0);
+    pairSumI.fill(0);
+    pairSumJ.fill(0);
+    pairSqI.fill(0);
+    pairSqJ.fill(0);
+    cross.fill(0);
+    let fullN = 0;
+    for (let r = 0; r < n; r++) {
+      const w = weights[r];
+      if (w === 0) continue;
+      const offset = r * k;
+      const cols = answered[r];
+      for (const c of cols) {
+        const v = data[r][c] as number;
+        if (Number.isNaN(itemFirst[c])) itemFirst[c] = v;
+        else if (v !== itemFirst[c]) itemVaries[c] = 1;
+      }
+      if (complete[r]) {
+        fullN += w;
+        for (let i = 0; i < k; i++) {
+          const v = x[offset + i];
+          fullSum[i] += w * v;
+          fullSq[i] += w * v * v;
+          const wv = w * v;
+          const base = i * k;
+          for (let j = i + 1; j < k; j++) cross[base + j] += wv * x[offset + j];
+        }
+        continue;
+      }
+      for (let a = 0; a < cols.length; a++) {
+        const i = cols[a];
+        const vi = x[offset + i];
+        itemN[i] += w;
+        itemSum[i] += w * vi;
+        itemSq[i] += w * vi * vi;
+        const base = i * k;
+        for (let c = a + 1; c < cols.length; c++) {
+          const j = cols[c];
+          const vj = x[offset + j];
+          const at = base + j;
+          pairN[at] += w;
+          pairSumI[at] += w * vi;
+          pairSumJ[at] += w * vj;
+          pairSqI[at] += w * vi * vi;
+          pairSqJ[at] += w * vj * vj;
+          cross[at] += w * vi * vj;
+        }
+      }
     }
+    let valid = true;
+    let trace = 0;
+    for (let i = 0; i < k && valid; i++) {
+      const m = itemN[i] + fullN;
+      if (m < 2) valid = false;
+      const s = itemSum[i] + fullSum[i];
+      const v = itemVaries[i] ? Math.max(0, (itemSq[i] + fullSq[i] - (s * s) / m) / (m - 1)) : 0;
+      itemVar[i] = v;
+      itemSd[i] = Math.sqrt(v);
+      trace += v;
+    }
+    let total = trace;
+    for (let i = 0; i < k && valid; i++) {
+      if (!itemVaries[i]) continue;
+      for (let j = i + 1; j < k; j++) {
+        if (!itemVaries[j]) continue;
+        const at = i * k + j;
+        const m = pairN[at] + fullN;
+        if (m < 2) {
+          valid = false;
+          break;
+        }
+        const si = pairSumI[at] + fullSum[i];
+        const sj = pairSumJ[at] + fullSum[j];
+        const qi = pairSqI[at] + fullSq[i];
+        const qj = pairSqJ[at] + fullSq[j];
+        const di = qi - (si * si) / m;
+        const dj = qj - (sj * sj) / m;
+        if (!(di > PAIR_VARIANCE_FLOOR * qi) || !(dj > PAIR_VARIANCE_FLOOR * qj)) {
+          valid = false;
+          break;
+        }
+        const r = Math.max(-1, Math.min(1, (cross[at] - (si * sj) / m) / Math.sqrt(di * dj)));
+        total += 2 * r * itemSd[i] * itemSd[j];
+      }
+    }
+    if (valid && total > 0) alphas[used++] = (k / (k - 1)) * (1 - trace / total);
     report(b + 1);
   }
   return alphas.subarray(0, used);
@@ -178,7 +321,7 @@ export function bootstrapAlpha(
         draw,
         report,
       )
-    : pairwiseAlphas(names, data, options, draw, report);
+    : pairwiseAlphas(data, options, draw, report);
   if (alphas.length < 2) {
     throw new EngineError(
       'the bootstrap needs at least two resamples whose total score varies',
