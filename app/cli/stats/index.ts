@@ -1,4 +1,6 @@
 import type { StatsAnalysis } from '../types.ts';
+import { content } from './content.ts';
+import { reliability } from './reliability.ts';
 
 /** Every `stats <analysis>`, by name. */
-export const STATS_ANALYSES: Record<string, StatsAnalysis> = {};
+export const STATS_ANALYSES: Record<string, StatsAnalysis> = { reliability, content };

@@ -1,0 +1,33 @@
+import { spawnSync } from 'node:child_process';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+
+export const ROOT = fileURLToPath(new URL('../../', import.meta.url));
+const TSX = path.join(ROOT, 'node_modules', 'tsx', 'dist', 'cli.mjs');
+const MAIN = path.join(ROOT, 'app', 'cli', 'main.ts');
+
+export interface CliRun {
+  code: number;
+  stdout: string;
+  stderr: string;
+}
+
+/** Runs the CLI as a user would (`npm run -s cli -- …` resolves paths against INIT_CWD). */
+export function runCli(args: string[], options: { cwd?: string; env?: Record<string, string> } = {}): CliRun {
+  const cwd = options.cwd ?? ROOT;
+  const result = spawnSync(process.execPath, [TSX, MAIN, ...args], {
+    cwd: ROOT,
+    encoding: 'utf8',
+    env: { ...process.env, INIT_CWD: cwd, SCALEWRIGHT_NAME: 'CLI Tester', ...options.env },
+  });
+  return { code: result.status ?? -1, stdout: result.stdout, stderr: result.stderr };
+}
+
+/** Runs `npm run -s cli -- …` itself, exactly as CLI.md documents it. */
+export function runNpmCli(args: string[], cwd: string): CliRun {
+  const result = spawnSync('npm', ['--prefix', ROOT, 'run', '-s', 'cli', '--', ...args], {
+    cwd,
+    encoding: 'utf8',
+  });
+  return { code: result.status ?? -1, stdout: result.stdout, stderr: result.stderr };
+}

@@ -1,0 +1,124 @@
+import fs from 'node:fs';
+import path from 'node:path';
+import Database from 'better-sqlite3';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { runCli, runNpmCli } from '../../helpers/cli.ts';
+import { tempDir } from '../../helpers/tmp.ts';
+
+let tmp: ReturnType<typeof tempDir>;
+beforeAll(() => {
+  tmp = tempDir();
+});
+afterAll(() => tmp.cleanup());
+
+/** Rewrites the log table without its append-only triggers, as someone editing the file by hand would. */
+function tamper(file: string, sql: string) {
+  const db = new Database(file);
+  db.exec('DROP TRIGGER decision_log_no_update; DROP TRIGGER decision_log_no_delete;');
+  db.exec(sql);
+  db.close();
+}
+
+describe('project new, status and verify', () => {
+  it('work through npm with a relative path, resolved against the folder npm was run from', () => {
+    const made = runNpmCli(['project', 'new', 'rel/demo.scalewright', '--demo'], tmp.dir);
+    expect(made.stderr).toBe('');
+    expect(made.code).toBe(0);
+    const file = path.join(tmp.dir, 'rel', 'demo.scalewright');
+    expect(fs.existsSync(file)).toBe(true);
+    const status = runNpmCli(['project', 'status', 'rel/demo.scalewright', '--json'], tmp.dir);
+    expect(status.code).toBe(0);
+    const value = JSON.parse(status.stdout);
+    expect(value.path).toBe(file);
+    expect(value.phases.map((p: { phase: string }) => p.phase)).toEqual([
+      'construct',
+      'items',
+      'review',
+      'pilot',
+      'purification',
+      'validity',
+      'appendix',
+    ]);
+    expect(value.phases[0].state).toBe('signed-off');
+    const verify = runNpmCli(['project', 'verify', 'rel/demo.scalewright'], tmp.dir);
+    expect(verify.code).toBe(0);
+    expect(verify.stdout).toMatch(/hash chain intact/);
+  });
+
+  it('work with an absolute path', () => {
+    const file = path.join(tmp.dir, 'abs.scalewright');
+    expect(runCli(['project', 'new', file, '--demo']).code).toBe(0);
+    const status = runCli(['project', 'status', file, '--json'], { cwd: '/' });
+    expect(status.code).toBe(0);
+    expect(() => JSON.parse(status.stdout)).not.toThrow();
+    expect(status.stdout.trim().split('\n')).toHaveLength(1);
+    expect(runCli(['project', 'verify', file], { cwd: '/' }).code).toBe(0);
+  });
+
+  it('usage mistakes exit 2 with one error line', () => {
+    for (const args of [
+      ['project'],
+      ['project', 'status'],
+      ['project', 'status', 'x', '--nope'],
+      ['frobnicate'],
+    ]) {
+      const run = runCli(args);
+      expect(run.code, args.join(' ')).toBe(2);
+      expect(run.stderr).toMatch(/^error: [^\n]+\n$/);
+    }
+  });
+
+  it('a missing or foreign file exits 1 with the reason and no stack trace', () => {
+    const missing = runCli(['project', 'status', path.join(tmp.dir, 'nope.scalewright')]);
+    expect(missing.code).toBe(1);
+    expect(missing.stderr).toMatch(/^error: .*does not exist\n$/);
+    const text = path.join(tmp.dir, 'notes.txt');
+    fs.writeFileSync(text, 'hello');
+    const foreign = runCli(['project', 'verify', text]);
+    expect(foreign.code).toBe(1);
+    expect(foreign.stderr).toMatch(/^error: .*not a Scalewright study file/);
+    expect(foreign.stderr).not.toMatch(/\n\s+at /);
+  });
+
+  it('refuses to create over an existing file', () => {
+    const file = path.join(tmp.dir, 'abs.scalewright');
+    const before = fs.readFileSync(file);
+    const run = runCli(['project', 'new', file]);
+    expect(run.code).toBe(1);
+    expect(run.stderr).toMatch(/already exists/);
+    expect(fs.readFileSync(file).equals(before)).toBe(true);
+  });
+});
+
+describe('project verify finds a tampered decision log', () => {
+  const cases: [string, string, RegExp][] = [
+    [
+      'an edited row',
+      "UPDATE decision_log SET rationale = 'nobody said this' WHERE seq = 3",
+      /row 3: its content does not match its hash/,
+    ],
+    ['a deleted row', 'DELETE FROM decision_log WHERE seq = 4', /row 4 is missing/],
+    [
+      'a removed last row',
+      'DELETE FROM decision_log WHERE seq = (SELECT max(seq) FROM decision_log)',
+      /rows were removed from the end/,
+    ],
+    [
+      'two swapped rows',
+      `UPDATE decision_log SET seq = -1 WHERE seq = 5; UPDATE decision_log SET seq = 5 WHERE seq = 6; UPDATE decision_log SET seq = 6 WHERE seq = -1;`,
+      /row 5: .*(does not match|link)/,
+    ],
+  ];
+  it.each(cases)('%s', (_label, sql, expected) => {
+    const file = path.join(tmp.dir, `tamper-${Math.random().toString(36).slice(2)}.scalewright`);
+    expect(runCli(['project', 'new', file, '--demo']).code).toBe(0);
+    tamper(file, sql);
+    const run = runCli(['project', 'verify', file]);
+    expect(run.code).toBe(1);
+    expect(run.stdout).toMatch(expected);
+    expect(run.stderr).toMatch(/^error: decision log of .* is broken at row \d+/);
+    const json = runCli(['project', 'verify', file, '--json']);
+    expect(json.code).toBe(1);
+    expect(JSON.parse(json.stdout).logIntact).toBe(false);
+  });
+});
