@@ -267,7 +267,8 @@ export class DatasetAssembler {
 
   /** The finished dataset in the compact layout. Throws TableError when no record was added. */
   finish(): EncodedDataset {
-    if (this.ids.length === 0) throw new TableError('the file has a header row but no data rows', 2);
+    if (this.ids.length === 0)
+      throw new TableError('the file has a header row but no data rows after row 1', 1);
     const warnings = [...this.warnings];
     if (this.problemCount > this.problems.length) {
       warnings.push(

@@ -148,11 +148,41 @@ export function chooseEncoding(
 }
 
 /** Message for bytes that the chosen encoding cannot decode. */
-export function undecodableMessage(encoding: Encoding, fileName?: string): string {
+export function undecodableMessage(encoding: Encoding, requested: boolean, fileName?: string): string {
   const label = fileName ? `file "${fileName}"` : 'the file';
-  return encoding === 'utf-8'
-    ? `${label} is not valid UTF-8 throughout: read it again with the encoding set to windows-1252`
-    : `${label} is not valid ${encoding}: it has an odd number of bytes or an unpaired surrogate`;
+  if (encoding === 'utf-8') {
+    return requested
+      ? `${label} is not valid UTF-8 as requested: leave the encoding out to let the reader detect it`
+      : `${label} is not valid UTF-8 throughout: read it again with the encoding set to windows-1252`;
+  }
+  return `${label} is not valid ${encoding}: it has an odd number of bytes or an unpaired surrogate`;
+}
+
+/**
+ * Characters of Windows-1252 bytes 0x80–0x9F (WHATWG Encoding Standard, index-windows-1252); the five
+ * unassigned bytes map to the C1 control of the same value, as the standard says. Node's TextDecoder
+ * reads the label "windows-1252" as ISO-8859-1, which gets this range wrong, hence our own table.
+ */
+const WINDOWS_1252_HIGH =
+  '\u20ac\u0081\u201a\u0192\u201e\u2026\u2020\u2021\u02c6\u2030\u0160\u2039\u0152\u008d\u017d\u008f' +
+  '\u0090\u2018\u2019\u201c\u201d\u2022\u2013\u2014\u02dc\u2122\u0161\u203a\u0153\u009d\u017e\u0178';
+
+/** Decodes Windows-1252 bytes (single-byte, so chunks decode independently). Cost O(n). */
+export function decodeWindows1252(bytes: Uint8Array): string {
+  const latin1 = Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength).toString('latin1');
+  return latin1.replace(/[\u0080-\u009f]/g, (c) => WINDOWS_1252_HIGH[c.charCodeAt(0) - 0x80]);
+}
+
+/** An incremental decoder: `stream` true keeps an incomplete trailing sequence for the next call. */
+export interface ChunkDecoder {
+  decode(bytes: Uint8Array, stream: boolean): string;
+}
+
+/** A decoder for the chosen encoding; fatal on malformed input except for Windows-1252. */
+export function makeDecoder(encoding: Encoding): ChunkDecoder {
+  if (encoding === 'windows-1252') return { decode: (bytes) => decodeWindows1252(bytes) };
+  const decoder = new TextDecoder(encoding, { fatal: true, ignoreBOM: true });
+  return { decode: (bytes, stream) => decoder.decode(bytes, { stream }) };
 }
 
 /**
@@ -164,12 +194,11 @@ export function decodeBytes(bytes: Uint8Array, encoding?: string, fileName?: str
   const label = fileName ? `file "${fileName}"` : 'the file';
   const choice = chooseEncoding(bytes, true, encoding, fileName);
   const body = bytes.subarray(choice.bomLength);
-  const fatal = choice.encoding !== 'windows-1252';
   let text: string;
   try {
-    text = new TextDecoder(choice.encoding, { fatal, ignoreBOM: true }).decode(body);
+    text = makeDecoder(choice.encoding).decode(body, false);
   } catch {
-    throw new TableError(undecodableMessage(choice.encoding, fileName));
+    throw new TableError(undecodableMessage(choice.encoding, encoding !== undefined, fileName));
   }
   assertTextual(text, label);
   return { text, encoding: choice.encoding, bom: choice.bomLength > 0, warnings: choice.warnings };

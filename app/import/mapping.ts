@@ -72,7 +72,11 @@ export function proposeMapping(
   const headerSet = new Set(header);
   for (const name of Object.keys(overrides)) {
     if (!headerSet.has(name)) {
-      throw new TableError(`the mapping names column '${name}', which is not in the file's header`, 1, name);
+      throw new TableError(
+        `the mapping names column '${name}', which is not in the file's header`,
+        undefined,
+        name,
+      );
     }
   }
   const mapping: ColumnMapping = {};
@@ -135,14 +139,18 @@ export function resolveMapping(header: readonly string[], mapping: ColumnMapping
   for (const [name, role] of Object.entries(mapping)) {
     const column = index.get(name);
     if (column === undefined) {
-      throw new TableError(`the mapping names column '${name}', which is not in the file's header`, 1, name);
+      throw new TableError(
+        `the mapping names column '${name}', which is not in the file's header`,
+        undefined,
+        name,
+      );
     }
     if (SINGLE_ROLES.includes(role.role)) {
       const earlier = singles.get(role.role);
       if (earlier !== undefined) {
         throw new TableError(
           `columns '${earlier}' and '${name}' are both mapped as ${role.role}; only one column may have that role`,
-          1,
+          undefined,
           name,
         );
       }
@@ -155,10 +163,14 @@ export function resolveMapping(header: readonly string[], mapping: ColumnMapping
       case 'item': {
         const code = role.itemCode.trim();
         if (code === '')
-          throw new TableError(`column '${name}' is mapped as an item without an item code`, 1, name);
+          throw new TableError(`column '${name}' is mapped as an item without an item code`, undefined, name);
         const earlier = codes.get(fold(code));
         if (earlier !== undefined) {
-          throw new TableError(`columns '${earlier}' and '${name}' are both mapped to item ${code}`, 1, name);
+          throw new TableError(
+            `columns '${earlier}' and '${name}' are both mapped to item ${code}`,
+            undefined,
+            name,
+          );
         }
         codes.set(fold(code), name);
         resolved.items.push({ column, itemCode: code });
@@ -178,7 +190,7 @@ export function resolveMapping(header: readonly string[], mapping: ColumnMapping
         break;
       case 'attention':
         if (role.correctAnswer.trim() === '') {
-          throw new TableError(`attention check '${name}' needs the correct answer`, 1, name);
+          throw new TableError(`attention check '${name}' needs the correct answer`, undefined, name);
         }
         resolved.attention.push({ column, correctAnswer: role.correctAnswer.trim() });
         break;

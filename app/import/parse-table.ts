@@ -242,7 +242,7 @@ export function parseTable(bytes: Uint8Array, options: ParseTableOptions = {}): 
     rowNumbers.push(r + 1);
   }
   if (rows.length === 0) {
-    throw new TableError(`${label} has a header row but no data rows`, headerRow + 1);
+    throw new TableError(`${label} has a header row but no data rows after row ${headerRow}`, headerRow);
   }
   if (blankInside.length > 0) warnings.push(`skipped blank row(s) ${listRows(blankInside)}`);
 

@@ -1,7 +1,7 @@
 import { createHash } from 'node:crypto';
 import { Readable } from 'node:stream';
 import Papa from 'papaparse';
-import { assertTextual, chooseEncoding, type Encoding, undecodableMessage } from './decode.ts';
+import { assertTextual, chooseEncoding, type Encoding, makeDecoder, undecodableMessage } from './decode.ts';
 import {
   chooseDecimalMark,
   DatasetAssembler,
@@ -57,13 +57,11 @@ function detectFormat(prefix: Uint8Array, complete: boolean, options: StreamData
   const warnings = [...choice.warnings];
   let sniffText: string;
   try {
-    const decoder = new TextDecoder(choice.encoding, {
-      fatal: choice.encoding !== 'windows-1252',
-      ignoreBOM: true,
-    });
-    sniffText = decoder.decode(prefix.subarray(choice.bomLength), { stream: !complete });
+    sniffText = makeDecoder(choice.encoding).decode(prefix.subarray(choice.bomLength), !complete);
   } catch {
-    throw new TableError(undecodableMessage(choice.encoding, options.fileName));
+    throw new TableError(
+      undecodableMessage(choice.encoding, options.encoding !== undefined, options.fileName),
+    );
   }
   assertTextual(sniffText, label);
   if (sniffText.trim() === '' && complete)
@@ -154,15 +152,14 @@ export async function streamDataset(
   if (byteLength === 0) throw new TableError(`${label} is empty (0 bytes)`);
   const prefix = Buffer.concat(prefixChunks);
   const format = detectFormat(prefix, ended, options);
-  const decoder = new TextDecoder(format.encoding, {
-    fatal: format.encoding !== 'windows-1252',
-    ignoreBOM: true,
-  });
+  const decoder = makeDecoder(format.encoding);
   const decode = (bytes: Uint8Array, stream: boolean): string => {
     try {
-      return decoder.decode(bytes, { stream });
+      return decoder.decode(bytes, stream);
     } catch {
-      throw new TableError(undecodableMessage(format.encoding, options.fileName));
+      throw new TableError(
+        undecodableMessage(format.encoding, options.encoding !== undefined, options.fileName),
+      );
     }
   };
   async function* text(): AsyncGenerator<string> {

@@ -116,7 +116,8 @@ export async function readWorkbook(
     rows.push(fitRecord(padded, header, r + 1));
     rowNumbers.push(r + 1);
   }
-  if (rows.length === 0) throw new TableError(`${where} has a header row but no data rows`, headerRow + 1);
+  if (rows.length === 0)
+    throw new TableError(`${where} has a header row but no data rows after row ${headerRow}`, headerRow);
   if (blankInside.length > 0) warnings.push(`skipped blank row(s) ${listRows(blankInside)}`);
   return {
     header,
