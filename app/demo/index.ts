@@ -2,6 +2,9 @@ import { signOffPhase } from '../phases/index.ts';
 import type { Study } from '../../db/study.ts';
 import { fillDemoConstruct } from './construct.ts';
 
+/** The demo's log rows are signed by the generator, not by the person who ran it. */
+export const DEMO_AUTHOR = 'Demo generator';
+
 export const DEMO_TITLE = 'Everyday Cycling Confidence — development study (demo)';
 
 /**
