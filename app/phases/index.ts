@@ -7,6 +7,10 @@ import {
 } from '../../db/repos/phase-state.ts';
 import type { Study } from '../../db/study.ts';
 import { constructRules } from './construct.ts';
+import { itemsRules } from './items.ts';
+import { pilotRules } from './pilot.ts';
+import { purificationRules } from './purification.ts';
+import { reviewRules } from './review.ts';
 import { RuleError } from './errors.ts';
 import { phaseNotYetAvailable } from './later.ts';
 import { PHASE_TITLES } from './titles.ts';
@@ -15,22 +19,10 @@ import type { ChecklistItem, PhaseRules } from './types.ts';
 /** Every phase's rules, in the order a scale is built. */
 export const PHASE_RULES: Record<PhaseId, PhaseRules> = {
   construct: constructRules,
-  items: phaseNotYetAvailable(
-    'items',
-    'Draft the item pool, map each item to a facet, and check its wording.',
-  ),
-  review: phaseNotYetAvailable(
-    'review',
-    'Have experts rate each item; compute content-validity statistics and decide.',
-  ),
-  pilot: phaseNotYetAvailable(
-    'pilot',
-    'Import pilot responses, map columns, set missing codes, screen respondents.',
-  ),
-  purification: phaseNotYetAvailable(
-    'purification',
-    'Analyse items and reliability in rounds; keep or drop items with reasons.',
-  ),
+  items: itemsRules,
+  review: reviewRules,
+  pilot: pilotRules,
+  purification: purificationRules,
   validity: phaseNotYetAvailable('validity', 'Gather validity evidence on the retained items.'),
   appendix: phaseNotYetAvailable('appendix', 'Render the methods appendix from the study file.'),
 };

@@ -1,11 +1,11 @@
-import { type ReactElement, useCallback, useEffect, useMemo, useState } from 'react';
+import { useCallback, useEffect, useMemo, useState } from 'react';
 import { PHASE_IDS, type PhaseId } from '../../db/repos/phase-state.ts';
-import { ConstructScreen } from '../phases/construct/ConstructScreen.tsx';
 import { DecisionLogScreen } from '../phases/log/DecisionLogScreen.tsx';
 import { OverviewScreen } from '../phases/overview/OverviewScreen.tsx';
 import { ErrorNote } from '../shared/components.tsx';
 import { StudyRevision, useQuery } from '../shared/use-command.ts';
 import { PhaseNotYetAvailable } from './PhaseNotYetAvailable.tsx';
+import { PHASE_SCREENS } from './phase-screens.ts';
 
 type Route = { screen: 'overview' } | { screen: 'log' } | { screen: 'phase'; phase: PhaseId };
 
@@ -26,10 +26,6 @@ function useRoute(): Route {
   }, []);
   return parseRoute(hash);
 }
-
-const PHASE_SCREENS: Partial<Record<PhaseId, () => ReactElement>> = {
-  construct: ConstructScreen,
-};
 
 export function App() {
   const [revision, setRevision] = useState(0);

@@ -1,0 +1,54 @@
+import { z } from 'zod';
+import { reopenPhase, signOffPhase, studyOverview } from '../../phases/index.ts';
+import { command } from '../define.ts';
+import { phase, rationale, text } from './schemas.ts';
+
+/** The study itself, phase sign-off, the decision log, and who is working. */
+export const coreCommands = {
+  'study.info': command(z.object({}), (s) => {
+    const study = s.study;
+    return {
+      path: study.path,
+      title: study.meta('title') ?? '',
+      studyId: study.meta('study_id') ?? '',
+      createdAt: study.meta('created_at') ?? '',
+      version: study.version,
+      actor: study.actor,
+    };
+  }),
+  'study.open': command(z.object({ path: text(4_096).min(1) }), (s, input) => {
+    s.open(input.path);
+    return { path: s.study.path };
+  }),
+  'study.create': command(z.object({ path: text(4_096).min(1), title: text(300) }), (s, input) => {
+    s.create(input.path, input.title);
+    return { path: s.study.path };
+  }),
+  'study.overview': command(z.object({}), (s) => studyOverview(s.study)),
+
+  'phase.signOff': command(z.object({ phase, rationale }), (s, input) =>
+    signOffPhase(s.study, input.phase, input.rationale),
+  ),
+  'phase.reopen': command(z.object({ phase, rationale }), (s, input) =>
+    reopenPhase(s.study, input.phase, input.rationale),
+  ),
+
+  'log.list': command(
+    z.object({
+      phase: phase.optional(),
+      limit: z.number().int().min(1).max(1_000).default(200),
+      offset: z.number().int().min(0).default(0),
+    }),
+    (s, input) => ({ total: s.study.log.count(), entries: s.study.log.list(input) }),
+  ),
+  'log.verify': command(z.object({}), (s) => ({ breaks: s.study.log.verify(), rows: s.study.log.count() })),
+
+  'settings.get': command(z.object({}), (s) => ({ actor: s.actor })),
+  'settings.setDisplayName': command(
+    z.object({ name: text(200).trim().min(1, 'a display name cannot be blank') }),
+    (s, input) => {
+      s.setDisplayName(input.name);
+      return { actor: s.actor };
+    },
+  ),
+};

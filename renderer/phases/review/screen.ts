@@ -1,0 +1,4 @@
+import type { ReactElement } from 'react';
+
+/** This phase's screen, once it exists (see renderer/app/phase-screens.ts). */
+export const reviewScreen: (() => ReactElement) | undefined = undefined;
