@@ -214,9 +214,7 @@ export function itemMoments(names: string[], data: ResponseMatrix, method: Missi
   const sds = columns.map((values) => Math.sqrt(variance(values)));
   const varies = sds.map((s) => s > ZERO_VARIANCE);
   const varying = names.map((_, c) => c).filter((c) => varies[c]);
-  const pairN = names.map((_, i) =>
-    names.map((_, j) => rows.reduce((count, row) => count + (row[i] !== null && row[j] !== null ? 1 : 0), 0)),
-  );
+  const pairN = pairCounts(rows, k);
   let minPairN = k > 1 ? Number.POSITIVE_INFINITY : n;
   for (let i = 0; i < k; i++) {
     for (let j = i + 1; j < k; j++) {
@@ -277,6 +275,31 @@ export function correctedItemTotal(cov: readonly (readonly number[])[]): (number
     const r = (rowSums[i] - itemVar) / Math.sqrt(itemVar * restVar);
     return clampCorrelation(r);
   });
+}
+
+/**
+ * Respondents answering both items of each pair. One presence byte per cell, stored column by column so
+ * the inner loop over respondents reads two contiguous runs. O(n·k²).
+ */
+function pairCounts(rows: ResponseMatrix, k: number): number[][] {
+  const n = rows.length;
+  const present = new Uint8Array(n * k);
+  for (let r = 0; r < n; r++) {
+    const row = rows[r];
+    for (let c = 0; c < k; c++) present[c * n + r] = row[c] === null ? 0 : 1;
+  }
+  const counts = Array.from({ length: k }, () => new Array<number>(k).fill(0));
+  for (let i = 0; i < k; i++) {
+    for (let j = i; j < k; j++) {
+      let count = 0;
+      const a = i * n;
+      const b = j * n;
+      for (let r = 0; r < n; r++) count += present[a + r] & present[b + r];
+      counts[i][j] = count;
+      counts[j][i] = count;
+    }
+  }
+  return counts;
 }
 
 /**

@@ -84,11 +84,12 @@ export function reliabilityTable(loaded: LoadedItems, a: ItemAnalysis): string {
     `Reliability of ${a.k} items from ${loaded.file}: n = ${a.n} (${a.missingData.method} deletion, ` +
       `${a.missingData.dropped} of ${a.missingData.respondents} respondents left out)`,
     '',
-    `  alpha                 ${round(a.alpha.value)}  ${a.alpha.band}   ${pct} CI ${round(a.alphaCI.lower)} to ${round(a.alphaCI.upper)} (Feldt)`,
+    `  alpha                 ${round(a.alpha.value)}  ${a.alpha.band}`,
+    `    ${pct} CI            ${round(a.alphaCI.lower)} to ${round(a.alphaCI.upper)} (Feldt)`,
   ];
   if (a.bootstrapCI) {
     lines.push(
-      `                                     ${pct} CI ${round(a.bootstrapCI.lower)} to ${round(a.bootstrapCI.upper)} ` +
+      `    ${pct} CI            ${round(a.bootstrapCI.lower)} to ${round(a.bootstrapCI.upper)} ` +
         `(percentile bootstrap, ${a.bootstrapCI.resamples} resamples, seed ${a.bootstrapCI.seed})`,
     );
   }
@@ -163,6 +164,11 @@ export const reliability: StatsAnalysis = {
     const resamples = integerOption(values, 'bootstrap', MIN_BOOTSTRAP_RESAMPLES, MAX_BOOTSTRAP_RESAMPLES);
     const seed = seedOption(values);
     const loaded = await loadItemData(values, ctx);
+    if (loaded.names.length < 2) {
+      throw new UsageError(
+        'reliability needs at least two items in --items (alpha requires at least two items)',
+      );
+    }
     let analysis: ItemAnalysis;
     try {
       analysis = analyseItems({
