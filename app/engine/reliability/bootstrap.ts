@@ -314,14 +314,16 @@ export function bootstrapAlpha(
     }
   };
   const complete = missing === 'listwise' || data.every((row) => row.every((x) => x !== null));
+  const rows = complete ? data.filter((row) => row.every((x) => x !== null)) : data;
+  if (rows.length < 2) {
+    throw new EngineError(
+      `the bootstrap requires at least two respondents; found ${rows.length} complete respondents`,
+      'too-few-respondents',
+    );
+  }
   const alphas = complete
-    ? completeCaseAlphas(
-        data.filter((row) => row.every((x) => x !== null)),
-        options,
-        draw,
-        report,
-      )
-    : pairwiseAlphas(data, options, draw, report);
+    ? completeCaseAlphas(rows, options, draw, report)
+    : pairwiseAlphas(rows, options, draw, report);
   if (alphas.length < 2) {
     throw new EngineError(
       'the bootstrap needs at least two resamples whose total score varies',

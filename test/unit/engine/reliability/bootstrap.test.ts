@@ -117,3 +117,16 @@ describe('bootstrapAlpha', () => {
     ).toThrow('the bootstrap requires at least two respondents');
   });
 });
+
+describe('bootstrapAlpha with listwise deletion', () => {
+  it('counts complete respondents only', () => {
+    const rows = [
+      [1, 2],
+      [null, 3],
+      [3, null],
+    ];
+    expect(() =>
+      bootstrapAlpha(['a', 'b'], rows, 'listwise', { resamples: 100, seed: 1, level: 0.95 }),
+    ).toThrow('the bootstrap requires at least two respondents; found 1 complete respondents');
+  });
+});
