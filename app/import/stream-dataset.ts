@@ -111,12 +111,13 @@ function listRows(rows: number[]): string {
  * papaparse parses chunk by chunk and each record goes to a DatasetAssembler. Same rules and messages
  * as parseTable + buildDataset, except that the first ragged row stops the import (later ones are not
  * counted). Also computes the SHA-256 and byte length, and hands each raw chunk to `onBytes`.
+ * `mapping` may be a function of the checked header (for instance proposeMapping's result).
  * Cost O(file size) time; memory O(columns × rows) in the compact layout plus one chunk.
  * Throws TableError for the same bad files as parseTable, and for a bad mapping (see resolveMapping).
  */
 export async function streamDataset(
   source: AsyncIterable<Uint8Array>,
-  mapping: ColumnMapping,
+  mapping: ColumnMapping | ((header: string[]) => ColumnMapping),
   options: StreamDatasetOptions = {},
 ): Promise<StreamedDataset> {
   const label = options.fileName ? `file "${options.fileName}"` : 'the file';
@@ -188,8 +189,10 @@ export async function streamDataset(
   let failure: unknown;
 
   const startTable = (rawHeader: string[], headerRow: number) => {
-    header = checkHeader(rawHeader, warnings, headerRow);
+    const checked = checkHeader(rawHeader, warnings, headerRow);
+    header = checked;
     rawWidth = rawHeader.length;
+    const columnMapping = typeof mapping === 'function' ? mapping(checked) : mapping;
     const sniffed = sniffRecords(
       format.sniffText,
       format.delimiter,
@@ -198,16 +201,18 @@ export async function streamDataset(
     );
     const mark = chooseDecimalMark(
       sniffed.slice(1),
-      numericColumns(header, mapping),
+      numericColumns(checked, columnMapping),
       options.decimalMark,
       warnings,
     );
-    assembler = new DatasetAssembler(header, mapping, mark, options, options.expectedRows);
+    assembler = new DatasetAssembler(checked, columnMapping, mark, options, options.expectedRows);
   };
 
   const onRows = (rows: string[][], errors: Papa.ParseError[]) => {
     for (const err of errors) {
-      if (err.type !== 'Quotes' || err.row === undefined) continue;
+      // A quote error in a record that papaparse holds back for the next chunk (the last, incomplete
+      // record) is reported again once that record is complete, with its fields; wait for that.
+      if (err.type !== 'Quotes' || err.row === undefined || err.row >= rows.length) continue;
       const row = record + err.row + 1;
       const fieldIndex = Math.max(0, (rows[err.row]?.length ?? 1) - 1);
       const column = columnLabel(fieldIndex, header);
