@@ -74,7 +74,7 @@ export function parseStrict(
 ): Record<string, string | boolean | undefined> & { _: string[] } {
   let parsed: ReturnType<typeof parseArgs>;
   try {
-    parsed = parseArgs({ args, options, strict: true, allowPositionals: positionals > 0 });
+    parsed = parseArgs({ args: joinNegativeValues(args, options), options, strict: true, allowPositionals: positionals > 0 });
   } catch (error) {
     throw new UsageError(
       (error as Error).message.split('\n')[0].replace(/^Unknown option/, 'unknown option'),
@@ -99,6 +99,25 @@ function report(error: unknown): number {
   const line = known ? message : `unexpected failure: ${message}`;
   process.stderr.write(`error: ${line.replace(/\s*\n\s*/g, ' ')}\n`);
   return error instanceof UsageError ? 2 : 1;
+}
+
+/**
+ * `--missing-codes -99,999` and `--min -3` are values, not options: a string option followed by a
+ * token that looks like a negative number is joined to it as `--option=-99`.
+ */
+function joinNegativeValues(args: string[], options: NonNullable<ParseArgsConfig['options']>): string[] {
+  const out: string[] = [];
+  for (let i = 0; i < args.length; i++) {
+    const name = args[i].startsWith('--') ? args[i].slice(2) : undefined;
+    const next = args[i + 1];
+    if (name && options[name]?.type === 'string' && next !== undefined && /^-\d|^-\.\d/.test(next)) {
+      out.push(`--${name}=${next}`);
+      i++;
+    } else {
+      out.push(args[i]);
+    }
+  }
+  return out;
 }
 
 /** Resolves a path the user typed against the folder they ran npm from. */

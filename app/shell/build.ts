@@ -16,5 +16,13 @@ const common = {
   logLevel: 'warning' as const,
   external: ['electron', 'better-sqlite3'],
 };
-await build({ ...common, entryPoints: [path.join(here, 'main.ts')], outfile: path.join(here, 'dist', 'main.cjs') });
-await build({ ...common, entryPoints: [path.join(here, 'preload.ts')], outfile: path.join(here, 'dist', 'preload.cjs') });
+await build({
+  ...common,
+  entryPoints: [path.join(here, 'main.ts')],
+  outfile: path.join(here, 'dist', 'main.cjs'),
+});
+await build({
+  ...common,
+  entryPoints: [path.join(here, 'preload.ts')],
+  outfile: path.join(here, 'dist', 'preload.cjs'),
+});

@@ -15,7 +15,11 @@ const RENDERER_INDEX = path.join(__dirname, '..', '..', '..', 'renderer', 'dist'
 const PRELOAD = path.join(__dirname, 'preload.cjs');
 const STUDY_FILTER = [{ name: 'Scalewright study', extensions: [STUDY_EXTENSION.slice(1)] }];
 
-const studySession = new Session(currentActor(), APP_NAME, process.env.SCALEWRIGHT_NATIVE_BINDING || undefined);
+const studySession = new Session(
+  currentActor(),
+  APP_NAME,
+  process.env.SCALEWRIGHT_NATIVE_BINDING || undefined,
+);
 let win: BrowserWindow | undefined;
 
 function studyFromArgs(argv: string[]): string | undefined {
@@ -44,7 +48,10 @@ async function chooseAndOpen(): Promise<void> {
 
 async function chooseAndCreate(): Promise<void> {
   if (!win) return;
-  const result = await dialog.showSaveDialog(win, { filters: STUDY_FILTER, defaultPath: `new-study${STUDY_EXTENSION}` });
+  const result = await dialog.showSaveDialog(win, {
+    filters: STUDY_FILTER,
+    defaultPath: `new-study${STUDY_EXTENSION}`,
+  });
   if (result.canceled || !result.filePath) return;
   try {
     studySession.create(result.filePath, path.basename(result.filePath, STUDY_EXTENSION));
@@ -64,7 +71,10 @@ async function printToPdf(): Promise<void> {
 }
 
 function buildMenu(): void {
-  const recent = (readSettings().recentStudies ?? []).map((file) => ({ label: file, click: () => openStudy(file) }));
+  const recent = (readSettings().recentStudies ?? []).map((file) => ({
+    label: file,
+    click: () => openStudy(file),
+  }));
   Menu.setApplicationMenu(
     Menu.buildFromTemplate([
       ...(process.platform === 'darwin' ? [{ role: 'appMenu' as const }] : []),
@@ -73,7 +83,10 @@ function buildMenu(): void {
         submenu: [
           { label: 'New Study…', accelerator: 'CmdOrCtrl+N', click: () => void chooseAndCreate() },
           { label: 'Open Study…', accelerator: 'CmdOrCtrl+O', click: () => void chooseAndOpen() },
-          { label: 'Open Recent', submenu: recent.length > 0 ? recent : [{ label: 'No recent studies', enabled: false }] },
+          {
+            label: 'Open Recent',
+            submenu: recent.length > 0 ? recent : [{ label: 'No recent studies', enabled: false }],
+          },
           { type: 'separator' },
           { label: 'Print to PDF…', accelerator: 'CmdOrCtrl+P', click: () => void printToPdf() },
           { type: 'separator' },
@@ -81,7 +94,16 @@ function buildMenu(): void {
         ],
       },
       { role: 'editMenu' },
-      { label: 'View', submenu: [{ role: 'reload' }, { role: 'resetZoom' }, { role: 'zoomIn' }, { role: 'zoomOut' }, { role: 'togglefullscreen' }] },
+      {
+        label: 'View',
+        submenu: [
+          { role: 'reload' },
+          { role: 'resetZoom' },
+          { role: 'zoomIn' },
+          { role: 'zoomOut' },
+          { role: 'togglefullscreen' },
+        ],
+      },
       { role: 'windowMenu' },
     ]),
   );
@@ -140,7 +162,10 @@ if (!app.requestSingleInstanceLock()) {
     harden();
     ipcMain.handle('scalewright:call', (event, name: unknown, input: unknown) => {
       if (event.senderFrame?.url && !event.senderFrame.url.startsWith('file://')) {
-        return { ok: false, error: { code: 'forbidden', message: 'calls are accepted only from the app’s own pages' } };
+        return {
+          ok: false,
+          error: { code: 'forbidden', message: 'calls are accepted only from the app’s own pages' },
+        };
       }
       return dispatch(studySession, name, input);
     });

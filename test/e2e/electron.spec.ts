@@ -13,14 +13,20 @@ function electronBinary(): { binary?: string; why: string } {
     timeout: 60_000,
   });
   if (probe.status === 0 && probe.stdout.trim() !== '') return { binary: probe.stdout.trim(), why: '' };
-  return { why: 'Electron’s binary is not available on this machine (it is downloaded on first use, and that failed)' };
+  return {
+    why: 'Electron’s binary is not available on this machine (it is downloaded on first use, and that failed)',
+  };
 }
 
 const found = electronBinary();
 
 test('desktop shell opens the demo study', async () => {
   test.skip(!found.binary, `skipped: ${found.why}; browser mode is tested instead`);
-  const build = spawnSync(process.execPath, [path.join(ROOT, 'node_modules', 'tsx', 'dist', 'cli.mjs'), 'app/shell/build.ts'], { cwd: ROOT });
+  const build = spawnSync(
+    process.execPath,
+    [path.join(ROOT, 'node_modules', 'tsx', 'dist', 'cli.mjs'), 'app/shell/build.ts'],
+    { cwd: ROOT },
+  );
   expect(build.status).toBe(0);
   const app = await electron.launch({
     executablePath: found.binary,

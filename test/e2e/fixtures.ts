@@ -24,8 +24,17 @@ export const test = base.extend<{ app: AppUnderTest }>({
     const dataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'scalewright-e2e-'));
     const child: ChildProcess = spawn(
       process.execPath,
-      [path.join(ROOT, 'node_modules', 'tsx', 'dist', 'cli.mjs'), 'app/launch/start.ts', '--browser', '--port', '0'],
-      { cwd: ROOT, env: { ...process.env, SCALEWRIGHT_DATA_DIR: dataDir, SCALEWRIGHT_NAME: 'E2E Researcher' } },
+      [
+        path.join(ROOT, 'node_modules', 'tsx', 'dist', 'cli.mjs'),
+        'app/launch/start.ts',
+        '--browser',
+        '--port',
+        '0',
+      ],
+      {
+        cwd: ROOT,
+        env: { ...process.env, SCALEWRIGHT_DATA_DIR: dataDir, SCALEWRIGHT_NAME: 'E2E Researcher' },
+      },
     );
     let output = '';
     const url = await new Promise<string>((resolve, reject) => {

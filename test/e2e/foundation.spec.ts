@@ -1,7 +1,10 @@
 import path from 'node:path';
 import { expect, SCREENSHOTS, test } from './fixtures.ts';
 
-test('opens the demo study, shows the seven phases, and keeps construct edits with their log rows', async ({ page, app }) => {
+test('opens the demo study, shows the seven phases, and keeps construct edits with their log rows', async ({
+  page,
+  app,
+}) => {
   await page.goto(app.url);
   const cards = page.locator('.phase-card');
   await expect(cards).toHaveCount(7);
@@ -44,7 +47,9 @@ test('opens the demo study, shows the seven phases, and keeps construct edits wi
 
   await page.reload();
   await expect(page.locator('#field-definition')).toHaveValue(newDefinition);
-  await expect(page.locator('.facet-row').nth(1).locator('input[type="text"]').first()).toHaveValue('Route choice');
+  await expect(page.locator('.facet-row').nth(1).locator('input[type="text"]').first()).toHaveValue(
+    'Route choice',
+  );
 
   await page.locator('.sidebar a[href="#/log"]').click();
   const rows = page.locator('.log-table tbody tr');
@@ -64,7 +69,10 @@ test('the api refuses calls without the launch token', async ({ page, app }) => 
   const origin = new URL(app.url).origin;
   await page.goto(`${origin}/`);
   const status = await page.evaluate(async () => {
-    const res = await fetch('./api/call', { method: 'POST', body: JSON.stringify({ name: 'study.info', input: {} }) });
+    const res = await fetch('./api/call', {
+      method: 'POST',
+      body: JSON.stringify({ name: 'study.info', input: {} }),
+    });
     return res.status;
   });
   expect(status).toBe(401);
