@@ -125,13 +125,13 @@ export class Study {
 
   /**
    * Runs `apply` and appends one decision-log row describing it, in one transaction: either both
-   * are stored or neither is.
+   * are stored or neither is. `entry` may be computed from what `apply` returned (a new row's id).
    */
-  change<T>(entry: ChangeEntry, apply: () => T): T {
+  change<T>(entry: ChangeEntry | ((result: T) => ChangeEntry), apply: () => T): T {
     this.assertWritable();
     return this.db.transaction(() => {
       const result = apply();
-      this.log.append(this.actor, entry);
+      this.log.append(this.actor, typeof entry === 'function' ? entry(result) : entry);
       return result;
     })();
   }

@@ -2,6 +2,7 @@ import path from 'node:path';
 import type { Actor } from '../../db/decision-log.ts';
 import { StudyFileError } from '../../db/errors.ts';
 import { Study } from '../../db/study.ts';
+import { TaskRunner } from '../workers/tasks.ts';
 
 /**
  * The study a window (desktop) or a browser-mode server has open, and who is working on it.
@@ -9,6 +10,8 @@ import { Study } from '../../db/study.ts';
  */
 export class Session {
   private current: Study | undefined;
+  /** Long computations of this session, run in worker threads (progress, cancel). */
+  readonly tasks = new TaskRunner();
 
   constructor(
     public actor: Actor,
@@ -61,5 +64,11 @@ export class Session {
   close(): void {
     this.current?.close();
     this.current = undefined;
+  }
+
+  /** Ends the session: stops running tasks and closes the study. */
+  async shutdown(): Promise<void> {
+    await this.tasks.shutdown();
+    this.close();
   }
 }

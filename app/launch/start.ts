@@ -166,7 +166,7 @@ async function serveBrowser(studyPath: string, port: number): Promise<void> {
   log('(serving on 127.0.0.1 only; the address carries this launch’s access token; Ctrl+C to stop)');
   const stop = async () => {
     await server.close();
-    session.close();
+    await session.shutdown();
     process.exit(0);
   };
   process.on('SIGINT', stop);

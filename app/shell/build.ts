@@ -15,6 +15,9 @@ const common = {
   sourcemap: true,
   logLevel: 'warning' as const,
   external: ['electron', 'better-sqlite3'],
+  // Modules that find files next to themselves use import.meta.url; give the CommonJS bundle one.
+  define: { 'import.meta.url': 'importMetaUrl' },
+  banner: { js: "const importMetaUrl = require('node:url').pathToFileURL(__filename).href;" },
 };
 await build({
   ...common,
@@ -25,4 +28,9 @@ await build({
   ...common,
   entryPoints: [path.join(here, 'preload.ts')],
   outfile: path.join(here, 'dist', 'preload.cjs'),
+});
+await build({
+  ...common,
+  entryPoints: [path.join(here, '..', 'workers', 'worker.ts')],
+  outfile: path.join(here, 'dist', 'worker.cjs'),
 });

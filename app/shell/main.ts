@@ -175,7 +175,6 @@ if (!app.requestSingleInstanceLock()) {
     buildMenu();
   });
   app.on('window-all-closed', () => {
-    studySession.close();
-    app.quit();
+    void studySession.shutdown().finally(() => app.quit());
   });
 }

@@ -129,7 +129,11 @@ export async function startBrowserServer(options: {
     url: `http://127.0.0.1:${port}/#token=${token}`,
     port,
     token,
-    close: () => new Promise<void>((resolve) => server.close(() => resolve())),
+    close: () =>
+      new Promise<void>((resolve) => {
+        server.close(() => resolve());
+        server.closeAllConnections();
+      }),
   };
 }
 

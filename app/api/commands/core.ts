@@ -43,6 +43,9 @@ export const coreCommands = {
   ),
   'log.verify': command(z.object({}), (s) => ({ breaks: s.study.log.verify(), rows: s.study.log.count() })),
 
+  'task.status': command(z.object({ id: text(64) }), (s, input) => s.tasks.status(input.id)),
+  'task.cancel': command(z.object({ id: text(64) }), (s, input) => s.tasks.cancel(input.id)),
+
   'settings.get': command(z.object({}), (s) => ({ actor: s.actor })),
   'settings.setDisplayName': command(
     z.object({ name: text(200).trim().min(1, 'a display name cannot be blank') }),
