@@ -106,8 +106,10 @@ function listRows(rows: number[]): string {
 
 /**
  * Reads a delimited file from a stream of byte chunks straight into a dataset in the compact column
- * layout, without holding the file's rows as strings: the first SNIFF_BYTES decide encoding,
- * delimiter, quote and decimal mark (the decimal mark from the numeric columns of that part), then
+ * layout, without holding the file's rows as strings: the first chunk(s), at least SNIFF_BYTES, decide
+ * encoding, delimiter and quote, and the numeric columns of the first SNIFF_BYTES characters decide the
+ * decimal mark (a file whose decimals all come later is read with the point, and its decimal commas
+ * are then listed as problems); then
  * papaparse parses chunk by chunk and each record goes to a DatasetAssembler. Same rules and messages
  * as parseTable + buildDataset, except that the first ragged row stops the import (later ones are not
  * counted). Also computes the SHA-256 and byte length, and hands each raw chunk to `onBytes`.
@@ -194,7 +196,7 @@ export async function streamDataset(
     rawWidth = rawHeader.length;
     const columnMapping = typeof mapping === 'function' ? mapping(checked) : mapping;
     const sniffed = sniffRecords(
-      format.sniffText,
+      format.sniffText.slice(0, SNIFF_BYTES),
       format.delimiter,
       format.quoteChar,
       Number.POSITIVE_INFINITY,
@@ -222,6 +224,8 @@ export async function streamDataset(
         header?.[fieldIndex] ?? `column ${fieldIndex + 1}`,
       );
     }
+    const batch: string[][] = [];
+    const batchRows: number[] = [];
     for (const fields of rows) {
       record++;
       const blank = fields.length === 1 ? fields[0].trim() === '' : fields.every((f) => f.trim() === '');
@@ -238,10 +242,11 @@ export async function streamDataset(
         blankInside.push(...pendingBlank);
         pendingBlank = [];
       }
-      const fitted = fitRecord(fields, header, record);
+      batch.push(fitRecord(fields, header, record));
+      batchRows.push(record);
       if (fields.length > rawWidth) trimmed++;
-      assembler?.addRow(fitted, record);
     }
+    if (batch.length > 0) assembler?.addRows(batch, batchRows);
   };
 
   await new Promise<void>((resolve, reject) => {

@@ -1,0 +1,150 @@
+/**
+ * Import speed and memory: a 100,000 × 60 Likert CSV (plus id and duration) is written to a temp
+ * folder, then in the same run
+ *   1. our import (streamDataset: decode, detect, parse, validate, build the compact columns, SHA-256)
+ *      with the peak resident-memory increase sampled during the run;
+ *   2. papaparse alone, streaming the same file with a chunk callback that keeps nothing;
+ *   3. papaparse alone on the whole decoded string;
+ * after one untimed warm-up run of each, timed REPEATS times, alternating, and the medians printed
+ * with the ratios. Run it on an otherwise idle machine: other load changes the figures.
+ * Targets (issue 4): import ≤ 1.5 × papaparse alone; memory increase ≤ 4 × the file size.
+ *
+ *     npx tsx test/bench/import.ts [respondents] [items]
+ */
+import { createReadStream, mkdtempSync, readFileSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { performance } from 'node:perf_hooks';
+import Papa from 'papaparse';
+import type { ColumnMapping } from '../../app/import/mapping.ts';
+import { streamDataset } from '../../app/import/stream-dataset.ts';
+
+const RESPONDENTS = Number(process.argv[2] ?? 100_000);
+const ITEMS = Number(process.argv[3] ?? 60);
+const REPEATS = 5;
+const TIME_TARGET = 1.5;
+const MEMORY_TARGET = 4;
+/** Fixed seed of the linear congruential generator that fills the file (bench data only). */
+const DATA_SEED = 20261201;
+
+function writeFile(path: string): void {
+  let state = DATA_SEED;
+  const next = () => {
+    state = (Math.imul(state, 1664525) + 1013904223) >>> 0;
+    return state / 4294967296;
+  };
+  const header = ['id', ...Array.from({ length: ITEMS }, (_, j) => `tc${j + 1}`), 'duration'].join(',');
+  const lines = [header];
+  for (let i = 0; i < RESPONDENTS; i++) {
+    const cells = [`r${i + 1}`];
+    const trait = next();
+    for (let j = 0; j < ITEMS; j++) {
+      const u = next();
+      cells.push(u < 0.01 ? '' : String(1 + Math.min(4, Math.floor(trait * 3 + u * 2.5))));
+    }
+    cells.push(String(200 + Math.floor(next() * 600)));
+    lines.push(cells.join(','));
+  }
+  writeFileSync(path, `${lines.join('\n')}\n`);
+}
+
+function median(xs: number[]): number {
+  const s = [...xs].sort((a, b) => a - b);
+  return s[s.length >> 1];
+}
+
+const mapping: ColumnMapping = {
+  id: { role: 'id' },
+  duration: { role: 'duration' },
+  ...Object.fromEntries(
+    Array.from({ length: ITEMS }, (_, j) => [`tc${j + 1}`, { role: 'item', itemCode: `TC${j + 1}` }]),
+  ),
+};
+
+async function ours(path: string, sampleRss?: () => void): Promise<number> {
+  const started = performance.now();
+  const dataset = await streamDataset(createReadStream(path, { highWaterMark: 1 << 20 }), mapping, {
+    fileName: 'bench.csv',
+    scaleMin: 1,
+    scaleMax: 5,
+    expectedRows: RESPONDENTS,
+    onProgress: sampleRss,
+  });
+  const elapsed = performance.now() - started;
+  if (dataset.n !== RESPONDENTS) throw new Error(`expected ${RESPONDENTS} respondents, got ${dataset.n}`);
+  return elapsed;
+}
+
+function papaStream(path: string): Promise<number> {
+  const started = performance.now();
+  return new Promise((resolve, reject) => {
+    let rows = 0;
+    Papa.parse(createReadStream(path, { encoding: 'utf8', highWaterMark: 1 << 20 }), {
+      delimiter: ',',
+      chunk: (results: Papa.ParseResult<string[]>) => {
+        rows += results.data.length;
+      },
+      complete: () =>
+        rows > RESPONDENTS ? resolve(performance.now() - started) : reject(new Error('short parse')),
+      error: reject,
+    });
+  });
+}
+
+function papaString(path: string): number {
+  const started = performance.now();
+  const result = Papa.parse<string[]>(readFileSync(path, 'utf8'), { delimiter: ',' });
+  if (result.data.length <= RESPONDENTS) throw new Error('short parse');
+  return performance.now() - started;
+}
+
+async function main(): Promise<void> {
+  const dir = mkdtempSync(join(tmpdir(), 'scalewright-bench-'));
+  const path = join(dir, 'responses.csv');
+  try {
+    writeFile(path);
+    const size = statSync(path).size;
+    console.log(`file: ${RESPONDENTS} respondents × ${ITEMS} items, ${(size / 1e6).toFixed(1)} MB`);
+
+    global.gc?.();
+    const before = process.memoryUsage().rss;
+    let peak = before;
+    const sample = () => {
+      const rss = process.memoryUsage().rss;
+      if (rss > peak) peak = rss;
+    };
+    const first = await ours(path, sample);
+    sample();
+    const rssDelta = peak - before;
+
+    // The first run of each (ours above) also compiles the code; one untimed papaparse run each
+    // gives the baselines the same warm start before the timed, alternating repeats.
+    await papaStream(path);
+    papaString(path);
+    const oursTimes: number[] = [];
+    const streamTimes: number[] = [];
+    const stringTimes: number[] = [];
+    for (let r = 0; r < REPEATS; r++) {
+      streamTimes.push(await papaStream(path));
+      stringTimes.push(papaString(path));
+      oursTimes.push(await ours(path));
+    }
+    console.log(`first (cold) run of our import: ${first.toFixed(0)} ms`);
+    const t = median(oursTimes);
+    const s = median(streamTimes);
+    const w = median(stringTimes);
+    console.log(`papaparse alone, streaming the file:  ${s.toFixed(0)} ms (median of ${REPEATS})`);
+    console.log(`papaparse alone, whole string:        ${w.toFixed(0)} ms (median of ${REPEATS})`);
+    console.log(`our import (parse, validate, columns): ${t.toFixed(0)} ms (median of ${oursTimes.length})`);
+    console.log(
+      `ratio to papaparse streaming: ${(t / s).toFixed(2)}×, to whole string: ${(t / w).toFixed(2)}× (target ≤ ${TIME_TARGET}×)`,
+    );
+    console.log(
+      `resident memory increase during our import: ${(rssDelta / 1e6).toFixed(1)} MB = ${(rssDelta / size).toFixed(2)}× the file (target ≤ ${MEMORY_TARGET}×)`,
+    );
+  } finally {
+    rmSync(dir, { recursive: true, force: true });
+  }
+}
+
+await main();
