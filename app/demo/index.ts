@@ -1,6 +1,8 @@
 import { signOffPhase } from '../phases/index.ts';
 import type { Study } from '../../db/study.ts';
 import { fillDemoConstruct } from './construct.ts';
+import { fillDemoItems } from './items.ts';
+import { fillDemoReview } from './review.ts';
 
 /** The demo's log rows are signed by the generator, not by the person who ran it. */
 export const DEMO_AUTHOR = 'Demo generator';
@@ -18,4 +20,6 @@ export function fillDemoStudy(study: Study): void {
     'construct',
     'Definition, facets and planned relations agreed by the project team (demo).',
   );
+  fillDemoItems(study);
+  fillDemoReview(study);
 }
