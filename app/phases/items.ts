@@ -403,7 +403,7 @@ export function tableProblem(error: TableError): FileProblem {
   const row = error.row ?? 1;
   const column = error.column ?? '';
   const message = error.message;
-  const text = /\brow \d+/.test(message) ? message : `row ${row}: ${message}`;
+  const text = /^row \d+/.test(message) ? message : `row ${row}: ${message}`;
   return { row, column, message, text };
 }
 

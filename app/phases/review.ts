@@ -47,6 +47,7 @@ import {
   analyzeContentValidity,
   type ContentValidityReport,
   type ExpertRating,
+  formatRatio,
   type ItemContentValidity,
   MIN_PANEL_FOR_BENCHMARK,
 } from '../engine/content.ts';
@@ -88,6 +89,9 @@ export const DEFAULT_FORM: ReviewForm = {
 };
 
 const ANALYSIS_KIND = 'content-validity';
+
+/** How the engine's warning about a missing essential column begins; replaced when the form never asked. */
+const ENGINE_NO_ESSENTIAL = 'no essential column';
 
 export const DECISION_KIND: Record<Decision, string> = {
   keep: 'kept-after-review',
@@ -492,11 +496,9 @@ function parseRatingsFile(
   const panel = new Map(ctx.experts.map((e) => [e.code.toLowerCase(), e]));
   const facets = listFacets(study);
   const facetByName = new Map(facets.map((f) => [f.name.toLowerCase(), f]));
-  const existing = new Set(listRatings(study, roundId).map((r) => `${r.itemId}:${r.expertId}`));
+  const stored = listRatings(study, roundId);
   const importOf = new Map(listImports(study, roundId).map((imp) => [imp.id, imp.fileName]));
-  const existingFrom = new Map(
-    listRatings(study, roundId).map((r) => [`${r.itemId}:${r.expertId}`, r.importId]),
-  );
+  const existingFrom = new Map(stored.map((r) => [`${r.itemId}:${r.expertId}`, r.importId]));
   const seen = new Map<string, number>();
   const ratings: ParsedRating[] = [];
   for (const r of file.ratings) {
@@ -538,8 +540,9 @@ function parseRatingsFile(
       continue;
     }
     seen.set(key, r.row);
-    if (onPanel && existing.has(`${item.id}:${onPanel.id}`)) {
-      const from = importOf.get(existingFrom.get(`${item.id}:${onPanel.id}`) ?? -1) ?? 'an earlier file';
+    const earlierImport = onPanel ? existingFrom.get(`${item.id}:${onPanel.id}`) : undefined;
+    if (onPanel && earlierImport !== undefined) {
+      const from = importOf.get(earlierImport) ?? 'an earlier file';
       problems.push(
         problem(
           r.row,
@@ -602,9 +605,8 @@ function parseRatingsFile(
     );
   }
   const ratedItems = new Set(ratings.map((r) => r.itemId));
-  const unrated = ctx.roundItems.filter(
-    (it) => !ratedItems.has(it.id) && !listRatings(study, roundId).some((x) => x.itemId === it.id),
-  );
+  const ratedBefore = new Set(stored.map((r) => r.itemId));
+  const unrated = ctx.roundItems.filter((it) => !ratedItems.has(it.id) && !ratedBefore.has(it.id));
   if (unrated.length > 0 && problems.length === 0) {
     warnings.push(
       `${countWord(unrated.length, 'item')} of round ${ctx.round.number} get no rating from this file: ${unrated.map((it) => it.code).join(', ')}`,
@@ -697,6 +699,12 @@ function analyzeRound(
     intendedFacets: intendedFacets(study, ctx.roundItems),
   };
   const report = analyzeContentValidity({ ratings, ...options });
+  if (!ctx.form.asksEssential) {
+    report.warnings = [
+      `the rating form of round ${ctx.round.number} did not ask the essential question, so CVR is not computed (Lawshe 1975)`,
+      ...report.warnings.filter((w) => !w.startsWith(ENGINE_NO_ESSENTIAL)),
+    ];
+  }
   const order = new Map(ctx.roundItems.map((it, i) => [it.code, i]));
   report.items.sort((a, b) => (order.get(a.item) ?? 0) - (order.get(b.item) ?? 0));
   return {
@@ -1151,12 +1159,11 @@ export const reviewRules: PhaseRules = {
   purpose: 'Have experts rate each item; compute content-validity statistics and decide.',
   holds(study) {
     const rounds = listRounds(study).map((r) => roundView(study, r));
-    const last = rounds.filter((r) => r.report).at(-1);
     const out = [countWord(rounds.length, 'review round')];
-    if (last?.report) {
+    for (const r of rounds) {
+      if (!r.report) continue;
       out.push(
-        `${countWord(last.report.experts.length, 'expert')} in round ${last.number}`,
-        `S-CVI/Ave ${last.report.sCviAve.toFixed(2).replace(/^0/, '')} (round ${last.number})`,
+        `round ${r.number}: ${countWord(r.report.experts.length, 'expert')}, ${countWord(r.items.length, 'item')}, S-CVI/Ave ${formatRatio(r.report.sCviAve)}`,
       );
     }
     const decisions = rounds.reduce((n, r) => n + r.items.filter((it) => it.decision).length, 0);
