@@ -1,4 +1,19 @@
-import { type ItemAnalysisInput, analyseItems } from '../engine/reliability.ts';
+import { EngineError } from '../engine/errors.ts';
+import { type ItemAnalysis, type ItemAnalysisInput, analyseItems } from '../engine/reliability.ts';
+
+type AnalysisJobInput = Omit<ItemAnalysisInput, 'bootstrap'> & {
+  bootstrap?: { resamples: number; seed: number };
+};
+
+/** A purification round: the whole item set, then each facet's items, with the same options. */
+export interface RoundJobInput extends AnalysisJobInput {
+  facets: { facetId: number; items: string[] }[];
+}
+
+export interface RoundJobOutput {
+  scale: ItemAnalysis;
+  facets: { facetId: number; analysis: ItemAnalysis }[];
+}
 
 /** What a job may do while it runs: report progress, and ask whether it should stop. */
 export interface JobContext {
@@ -12,10 +27,7 @@ export interface JobContext {
  */
 export const JOBS = {
   /** One purification round, with its bootstrap when asked (the slow part). */
-  'reliability.analyse': (
-    input: Omit<ItemAnalysisInput, 'bootstrap'> & { bootstrap?: { resamples: number; seed: number } },
-    ctx: JobContext,
-  ) =>
+  'reliability.analyse': (input: AnalysisJobInput, ctx: JobContext) =>
     analyseItems({
       ...input,
       bootstrap: input.bootstrap && {
@@ -24,6 +36,52 @@ export const JOBS = {
         shouldStop: () => ctx.shouldStop(),
       },
     }),
+  /**
+   * One purification round: the scale, then each facet (facets named by id), progress counted over
+   * all the bootstraps together. Under listwise deletion the facets use the scale's complete cases,
+   * so every alpha of a round rests on the same respondents.
+   */
+  'purification.round': (input: RoundJobInput, ctx: JobContext): RoundJobOutput => {
+    const { facets, ...common } = input;
+    const each = input.bootstrap?.resamples ?? 0;
+    const total = each * (facets.length + 1);
+    let offset = 0;
+    const analyse = (names: string[], data: ItemAnalysisInput['data']) => {
+      const start = offset;
+      offset += each;
+      return analyseItems({
+        ...common,
+        names,
+        data,
+        bootstrap: input.bootstrap && {
+          ...input.bootstrap,
+          onProgress: (done: number) => ctx.progress(start + done, total),
+          shouldStop: () => ctx.shouldStop(),
+        },
+      });
+    };
+    const scale = analyse(input.names, input.data);
+    const rows =
+      input.missing === 'listwise' ? input.data.filter((row) => row.every((x) => x !== null)) : input.data;
+    return {
+      scale,
+      facets: facets.map(({ facetId, items }) => {
+        const columns = items.map((name) => {
+          const column = input.names.indexOf(name);
+          if (column < 0)
+            throw new EngineError(`facet ${facetId} names item "${name}", which is not among the items`);
+          return column;
+        });
+        return {
+          facetId,
+          analysis: analyse(
+            items,
+            rows.map((row) => columns.map((c) => row[c])),
+          ),
+        };
+      }),
+    };
+  },
 } satisfies Record<string, (input: never, ctx: JobContext) => unknown>;
 
 export type JobName = keyof typeof JOBS;

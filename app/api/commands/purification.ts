@@ -1,2 +1,99 @@
-/** Commands of the purification phase (filled in by that phase's work). */
-export const purificationCommands = {};
+import { z } from 'zod';
+import { EngineError } from '../../engine/errors.ts';
+import { RuleError } from '../../phases/errors.ts';
+import {
+  decideItem,
+  MAX_BOOTSTRAP_RESAMPLES,
+  MIN_BOOTSTRAP_RESAMPLES,
+  type PreparedRound,
+  prepareRound,
+  purificationView,
+  reverseDecision,
+  roundDetail,
+  storeRound,
+} from '../../phases/purification.ts';
+import type { RoundJobOutput } from '../../workers/jobs.ts';
+import { command } from '../define.ts';
+import type { Session } from '../session.ts';
+import { id, text } from './schemas.ts';
+
+/** Rounds started in a worker and not yet collected, per session, by task id. */
+const running = new WeakMap<Session, Map<string, PreparedRound>>();
+
+function runningOf(session: Session): Map<string, PreparedRound> {
+  let map = running.get(session);
+  if (!map) {
+    map = new Map();
+    running.set(session, map);
+  }
+  return map;
+}
+
+const roundOptions = z.object({
+  missing: z.enum(['listwise', 'pairwise']).optional(),
+  ciLevel: z.number().gt(0.5).lt(1).optional(),
+  bootstrap: z
+    .object({
+      resamples: z.number().int().min(MIN_BOOTSTRAP_RESAMPLES).max(MAX_BOOTSTRAP_RESAMPLES).optional(),
+      seed: z.number().int().min(0).max(0xffff_ffff).optional(),
+    })
+    .nullable()
+    .optional(),
+});
+
+const reasons = {
+  domainRationale: text(10_000).default(''),
+  statisticalRationale: text(10_000).default(''),
+};
+
+/** Phase 5: purification rounds in a worker, the researcher's item decisions, and the history. */
+export const purificationCommands = {
+  'purification.view': command(z.object({}), (s) => purificationView(s.study)),
+  'purification.round': command(z.object({ id }), (s, input) => roundDetail(s.study, input.id)),
+
+  /** Starts the next round in a worker thread; follow it with task.status, then collect it. */
+  'purification.startRound': command(roundOptions, (s, input) => {
+    const prepared = prepareRound(s.study, input);
+    const task = s.tasks.start('purification.round', prepared.job);
+    runningOf(s).set(task.id, prepared);
+    return {
+      taskId: task.id,
+      round: prepared.number,
+      items: prepared.items.length,
+      respondents: prepared.job.data.length,
+    };
+  }),
+
+  /** Waits for a started round, stores it with its analysis run and log row, and returns it. */
+  'purification.collectRound': command(z.object({ taskId: text(64) }), async (s, input) => {
+    const map = runningOf(s);
+    const prepared = map.get(input.taskId);
+    if (!prepared)
+      throw new RuleError(`no purification round is running as task ${input.taskId}`, 'not-found');
+    try {
+      const result = (await s.tasks.result(input.taskId)) as RoundJobOutput;
+      return storeRound(s.study, prepared, result);
+    } catch (error) {
+      if (error instanceof EngineError && error.code === 'cancelled') {
+        throw new RuleError(`round ${prepared.number} was cancelled; nothing was stored`, 'cancelled');
+      }
+      throw error;
+    } finally {
+      map.delete(input.taskId);
+    }
+  }),
+
+  'purification.decide': command(
+    z.object({
+      roundId: id.optional(),
+      itemCode: text(40).trim().min(1, 'name the item'),
+      action: z.enum(['drop', 'keep', 'move', 'restore']),
+      toFacetId: id.optional(),
+      ...reasons,
+    }),
+    (s, input) => decideItem(s.study, input),
+  ),
+  'purification.reverse': command(z.object({ decisionId: id, ...reasons }), (s, input) =>
+    reverseDecision(s.study, input.decisionId, input),
+  ),
+};
