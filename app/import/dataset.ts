@@ -140,6 +140,8 @@ export class DatasetAssembler {
   private readonly pending: { row: number; column: number; message: string }[] = [];
   /** Numeric values of the current batch of rows, column-major, as int8 (see addRows). */
   private scratch = new Int8Array(0);
+  /** Cells of the current batch (row · slots + slot) that need the general reader. */
+  private slow = new Int32Array(0);
   private readonly bounds?: { min: number; max: number };
   private readonly maxProblems: number;
   private readonly missingCodes: MissingCodes;
@@ -301,45 +303,39 @@ export class DatasetAssembler {
     const scratch = this.scratch;
     const fastDigit = this.fastDigit;
     const columns = this.slotColumns;
-    const exceptions: ({ at: number; value: number }[] | undefined)[] = new Array(k);
-    // Rows outside, columns inside: each record's cells are read while it is in cache. Values go to a
-    // column-major int8 block (column s of this batch at s·n, INT8_MISSING for missing), which an int8
-    // column takes in one copy; a value that does not fit int8 is kept aside as an exception.
-    for (let i = 0; i < n; i++) {
-      const record = records[i];
-      for (let s = 0; s < k; s++) {
-        const raw = record[columns[s]];
-        // Fast path for a single digit that is neither a missing code nor out of range (most Likert
-        // cells): no trimming, no status.
-        if (raw.length === 1) {
-          const digit = raw.charCodeAt(0) - 48;
-          if (digit >= 0 && digit <= 9 && fastDigit[s * 10 + digit] === 1) {
-            scratch[s * n + i] = digit;
-            continue;
-          }
-        }
-        const value = this.readSlow(raw, s, rowNumbers[i]);
-        if (Number.isNaN(value)) {
-          scratch[s * n + i] = INT8_MISSING;
-        } else if (Number.isInteger(value) && value > INT8_MISSING && value <= -INT8_MISSING - 1) {
-          scratch[s * n + i] = value;
-        } else {
-          scratch[s * n + i] = INT8_MISSING;
-          const list = exceptions[s];
-          if (list) list.push({ at: i, value });
-          else exceptions[s] = [{ at: i, value }];
-        }
+    // Per slot, the batch's values as doubles once one of them does not fit int8 (then the column is
+    // appended from these instead of the int8 block).
+    const wide: (Float64Array | undefined)[] = new Array(k);
+    // Pass 1 (fillFastCells) takes the plain digits; pass 2 reads the few other cells one by one.
+    if (this.slow.length < n * k) this.slow = new Int32Array(Math.max(n * k, this.slow.length * 2));
+    const slowCount = fillFastCells(records, n, columns, fastDigit, scratch, this.slow);
+    for (let c = 0; c < slowCount; c++) {
+      const cell = this.slow[c];
+      const s = cell % k;
+      const i = (cell - s) / k;
+      const value = this.readSlow(records[i][columns[s]], s, rowNumbers[i]);
+      const fits = Number.isInteger(value) && value > INT8_MISSING && value <= -INT8_MISSING - 1;
+      scratch[s * n + i] = fits ? value : INT8_MISSING;
+      let values = wide[s];
+      if (values === undefined && !fits && !Number.isNaN(value)) {
+        values = new Float64Array(n);
+        for (let j = 0; j < n; j++)
+          values[j] = scratch[s * n + j] === INT8_MISSING ? Number.NaN : scratch[s * n + j];
+        wide[s] = values;
       }
+      if (values !== undefined) values[i] = value;
     }
     for (let s = 0; s < k; s++) {
       const block = scratch.subarray(s * n, (s + 1) * n);
       const builder = this.slots[s].builder;
-      const extra = exceptions[s];
-      if (extra === undefined && builder.appendInt8(block)) continue;
-      const values = new Float64Array(n);
-      for (let i = 0; i < n; i++) values[i] = block[i] === INT8_MISSING ? Number.NaN : block[i];
-      if (extra) for (const e of extra) values[e.at] = e.value;
-      builder.pushMany(values, n);
+      const values = wide[s];
+      if (values !== undefined) {
+        builder.pushMany(values, n);
+      } else if (!builder.appendInt8(block)) {
+        const doubles = new Float64Array(n);
+        for (let i = 0; i < n; i++) doubles[i] = block[i] === INT8_MISSING ? Number.NaN : block[i];
+        builder.pushMany(doubles, n);
+      }
     }
     const reader = this.reader;
     for (let i = 0; i < n; i++) {
@@ -402,6 +398,40 @@ export class DatasetAssembler {
       warnings,
     };
   }
+}
+
+/**
+ * First pass over a batch of records: every cell that is a single digit allowed by `fastDigit`
+ * (slot · 10 + digit) goes straight into the column-major int8 block; the others are listed in `slow`
+ * as row · slots + slot for the general reader. Rows outside, columns inside, so each record is read
+ * while it is in cache. A small function on its own, so the engine optimizes this loop by itself.
+ * Returns the number of cells listed in `slow`. Cost O(n · slots).
+ */
+function fillFastCells(
+  records: readonly (readonly string[])[],
+  n: number,
+  columns: Int32Array,
+  fastDigit: Uint8Array,
+  block: Int8Array,
+  slow: Int32Array,
+): number {
+  const k = columns.length;
+  let slowCount = 0;
+  for (let i = 0; i < n; i++) {
+    const record = records[i];
+    for (let s = 0; s < k; s++) {
+      const raw = record[columns[s]];
+      if (raw.length === 1) {
+        const digit = raw.charCodeAt(0) - 48;
+        if (digit >= 0 && digit <= 9 && fastDigit[s * 10 + digit] === 1) {
+          block[s * n + i] = digit;
+          continue;
+        }
+      }
+      slow[slowCount++] = i * k + s;
+    }
+  }
+  return slowCount;
 }
 
 /** Column indexes whose cells are read as numbers under a mapping (items, criteria, duration). */

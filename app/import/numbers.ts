@@ -6,6 +6,9 @@
 
 export type DecimalMark = '.' | ',';
 
+/** Digit strings up to this length are read as whole numbers exactly (below 2⁵³) without a regex. */
+const MAX_FAST_DIGITS = 15;
+
 const DOT_DECIMAL = /^[+-]?\d+\.\d+$/;
 const COMMA_DECIMAL = /^[+-]?\d+,\d+$/;
 const PLAIN_NUMBER = /^[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?$/;
@@ -51,6 +54,19 @@ export function parseNumber(cell: string, mark: DecimalMark): number | undefined
   if (cell.length === 1) {
     const c = cell.charCodeAt(0) - 48;
     return c >= 0 && c <= 9 ? c : undefined;
+  }
+  if (cell.length <= MAX_FAST_DIGITS) {
+    // Whole numbers (ids, durations, counts) without a regular expression.
+    let i = cell.charCodeAt(0) === 45 ? 1 : 0;
+    let value = 0;
+    for (; i < cell.length; i++) {
+      const d = cell.charCodeAt(i) - 48;
+      if (d < 0 || d > 9) break;
+      value = value * 10 + d;
+    }
+    if (i === cell.length && cell.length > (cell.charCodeAt(0) === 45 ? 1 : 0)) {
+      return cell.charCodeAt(0) === 45 ? -value : value;
+    }
   }
   let text = cell;
   if (mark === ',') {
