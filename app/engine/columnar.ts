@@ -96,10 +96,6 @@ export class ColumnBuilder {
     this.data = new Int8Array(Math.max(1, capacity));
   }
 
-  get length(): number {
-    return this.count;
-  }
-
   /** Appends a value; NaN means missing, −0 is kept as 0. Throws EngineError for ±Infinity. */
   push(value: number): void {
     // Fast path for the common case (a small integer into an integer column without decimals):

@@ -120,8 +120,8 @@ interface NumericSlot {
 }
 
 /**
- * Turns data records into a dataset one record at a time, so a file can be read in chunks and its
- * numeric columns built directly in the compact layout. `addRow` expects records already fitted to
+ * Turns data records into a dataset one batch at a time, so a file can be read in chunks and its
+ * numeric columns built directly in the compact layout. `addRows` expects records already fitted to
  * the header's width (see fitRecord). Cost O(cells).
  */
 export class DatasetAssembler {
@@ -265,11 +265,6 @@ export class DatasetAssembler {
       this.note(rowNumber, slot.column, `the duration ${String(value)} is negative`);
     }
     return value;
-  }
-
-  /** Adds one data record (already fitted to the header) found at file row `rowNumber`. */
-  addRow(record: readonly string[], rowNumber: number): void {
-    this.addRows([record], [rowNumber]);
   }
 
   /**

@@ -3,9 +3,6 @@ import { SNIFF_RECORDS } from './limits.ts';
 /** Delimiters the reader detects, in the order used to break ties. */
 export const CANDIDATE_DELIMITERS = [',', ';', '\t', '|'] as const;
 
-/** Quote characters the reader detects; the double quote is the default of RFC 4180. */
-export const CANDIDATE_QUOTES = ['"', "'"] as const;
-
 /**
  * Splits the first `maxRecords` records of `text` into fields with the given delimiter and quote
  * (RFC 4180 rules: a quote opens a field only at its start, a doubled quote inside is a literal quote).
