@@ -105,9 +105,19 @@ function lanczosLnGamma(x: number): number {
   return LN_SQRT_2PI + (z + 0.5) * Math.log(t) - t + Math.log(sum);
 }
 
+/**
+ * ln(x/x₀) − (x − x₀)/x₀ for x, x₀ > 0: by the log1pmx series when x is near x₀ (no cancellation),
+ * otherwise directly from the ratio, which keeps x/x₀ exact when it is far from 1.
+ */
+function logRatioDeviation(x: number, x0: number): number {
+  const d = x - x0;
+  if (Math.abs(d) < LOG1PMX_SERIES_LIMIT * x0) return log1pmx(d / x0);
+  return Math.log(x / x0) - d / x0;
+}
+
 /** Deviance term x·ln(x/M) + M − x of Loader (2000), accurate when x ≈ M. */
 function devianceTerm(x: number, m: number): number {
-  return -x * log1pmx((m - x) / x);
+  return -x * logRatioDeviation(m, x);
 }
 
 /**
@@ -166,7 +176,7 @@ export function lnBeta(a: number, b: number): number {
 /** ln(xᵃ e⁻ˣ / Γ(a)), the common prefactor of the incomplete gamma series and continued fraction. */
 function logGammaPrefactor(a: number, x: number): number {
   if (a < STIRLING_THRESHOLD) return a * Math.log(x) - x - lanczosLnGamma(a);
-  return a * log1pmx((x - a) / a) + 0.5 * Math.log(a / TWO_PI) - stirlingError(a);
+  return a * logRatioDeviation(x, a) + 0.5 * Math.log(a / TWO_PI) - stirlingError(a);
 }
 
 /** Returns [P(a, x), Q(a, x)], computing the smaller-error one directly and the other as its complement. */
@@ -251,8 +261,8 @@ function logBetaPrefactor(x: number, y: number, a: number, b: number): number {
     const x0 = a / sum;
     const y0 = b / sum;
     return (
-      a * log1pmx((x - x0) / x0) +
-      b * log1pmx((y - y0) / y0) +
+      a * logRatioDeviation(x, x0) +
+      b * logRatioDeviation(y, y0) +
       0.5 * Math.log((a * b) / (TWO_PI * sum)) +
       stirlingError(sum) -
       stirlingError(a) -
@@ -339,6 +349,25 @@ interface RootStep {
 }
 
 /**
+ * Residual ln(tail) − ln(target) (or its negative for a decreasing tail), so that Newton steps stay
+ * well scaled even when the target probability is as small as 1e-300. `curvature` is f″/f′ of the
+ * tail probability itself; the returned curvature is that of the log residual.
+ */
+function logTailResidual(
+  tail: number,
+  increasing: boolean,
+  target: number,
+  density: number,
+  curvature: number,
+): RootStep {
+  const ratio = density / tail;
+  if (increasing) {
+    return { value: Math.log(tail) - Math.log(target), slope: ratio, curvature: curvature - ratio };
+  }
+  return { value: Math.log(target) - Math.log(tail), slope: ratio, curvature: curvature + ratio };
+}
+
+/**
  * Safeguarded Halley iteration for an increasing residual on (lo, hi): each evaluation narrows the
  * bracket; a step that leaves the bracket is replaced by (geometric) bisection.
  */
@@ -361,7 +390,8 @@ function solveIncreasing(residual: (u: number) => RootStep, start: number, lo0: 
       else if (lo === 0) next = hi / 64;
       else next = hi / lo > 4 ? Math.sqrt(lo * hi) : 0.5 * (lo + hi);
     }
-    if (Math.abs(next - u) <= ROOT_TOL * Math.abs(next) || hi - lo <= ROOT_TOL * Math.abs(hi)) return next;
+    const narrow = Number.isFinite(hi) && hi - lo <= ROOT_TOL * hi;
+    if (Math.abs(next - u) <= ROOT_TOL * Math.abs(next) || narrow) return next;
     u = next;
   }
   return u;
@@ -382,14 +412,18 @@ function inverseBetaPair(p: number, q: number, a: number, b: number): [number, n
   // Solve in u = x (tail a) or u = 1 − x (tail b); the residual is increasing in u either way.
   const [ua, ub] = solveInX ? [a, b] : [b, a];
   const target = Math.min(p, q);
+  const matchIncreasing = solveInX === useLower;
   const residual = (u: number): RootStep => {
     const v = 1 - u;
     const [lowerU, upperU] = incompleteBetaPair(u, v, ua, ub, fn);
-    let value: number;
-    if (solveInX) value = useLower ? lowerU - target : target - upperU;
-    else value = useLower ? target - upperU : lowerU - target;
-    const slope = Math.exp(logBetaPrefactor(u, v, ua, ub)) / (u * v);
-    return { value, slope, curvature: (ua - 1) / u - (ub - 1) / v };
+    const density = Math.exp(logBetaPrefactor(u, v, ua, ub)) / (u * v);
+    return logTailResidual(
+      matchIncreasing ? lowerU : upperU,
+      matchIncreasing,
+      target,
+      density,
+      (ua - 1) / u - (ub - 1) / v,
+    );
   };
   const xStart = betaQuantileStart(p, a, b);
   const guess = solveInX ? xStart : 1 - xStart;
@@ -458,11 +492,8 @@ function inverseGamma(p: number, q: number, a: number): number {
   }
   const residual = (x: number): RootStep => {
     const [lower, upper] = incompleteGammaPair(a, x, fn);
-    return {
-      value: useLower ? lower - target : target - upper,
-      slope: Math.exp(logGammaPrefactor(a, x)) / x,
-      curvature: (a - 1) / x - 1,
-    };
+    const density = Math.exp(logGammaPrefactor(a, x)) / x;
+    return logTailResidual(useLower ? lower : upper, useLower, target, density, (a - 1) / x - 1);
   };
   return solveIncreasing(residual, Math.max(start, Number.MIN_VALUE), 0, Number.POSITIVE_INFINITY);
 }
@@ -506,7 +537,7 @@ export function normalCdf(z: number): number {
     for (let n = 1; ; n++) {
       term *= (2 * w2) / (2 * n + 1);
       sum += term;
-      if (term < MACHINE_EPSILON * sum) break;
+      if (term <= MACHINE_EPSILON * sum) break;
     }
     const erf = (2 / Math.sqrt(Math.PI)) * Math.exp(-w2) * sum;
     return z >= 0 ? 0.5 + 0.5 * erf : 0.5 - 0.5 * erf;
@@ -633,7 +664,7 @@ export function tSf(t: number, df: number): number {
  * Cost: a few incomplete-beta evaluations. Returns ∓Infinity at p = 0 and 1; throws EngineError when p
  * is outside [0, 1] or df ≤ 0.
  *
- * @example tQuantile(0.975, 10) // 2.2281388519649385
+ * @example tQuantile(0.975, 10) // 2.228138851986275
  */
 export function tQuantile(p: number, df: number): number {
   requireProbability(p, 't quantile');
@@ -644,7 +675,12 @@ export function tQuantile(p: number, df: number): number {
   if (p === 0.5) return 0;
   if (p > 0.5) return -tQuantile(1 - p, df);
   const [x, y] = inverseBetaPair(2 * p, 1 - 2 * p, 0.5 * df, 0.5);
-  if (x === 0) return Number.NEGATIVE_INFINITY;
+  if (x === 0) {
+    // x underflowed: use I_x(a, ½) = xᵃ/(a·B(a, ½))·(1 + O(x)) in logs, t = −√(df/x) to full precision.
+    const a = 0.5 * df;
+    const logT = 0.5 * Math.log(df) - (Math.log(2 * p) + Math.log(a) + lnBeta(a, 0.5)) / df;
+    return -Math.exp(logT);
+  }
   return -Math.sqrt(df * (y / x));
 }
 
@@ -718,7 +754,7 @@ function checkF(x: number, df1: number, df2: number, fn: string): void {
  *
  * Cost: O(√max(df1, df2) + 1). Returns 0 for x ≤ 0; throws EngineError when a df ≤ 0 or x is NaN.
  *
- * @example fCdf(3.0, 4, 10) // 0.9266...
+ * @example fCdf(3.0, 4, 10) // 0.92767...
  */
 export function fCdf(x: number, df1: number, df2: number): number {
   const fn = 'F distribution CDF';
@@ -732,7 +768,7 @@ export function fCdf(x: number, df1: number, df2: number): number {
  * F survival function P(X > x), exact in the upper tail. Same source and cost as fCdf; returns 1 for
  * x ≤ 0; throws EngineError when a df ≤ 0 or x is NaN.
  *
- * @example fSf(3.0, 4, 10) // 0.0733...
+ * @example fSf(3.0, 4, 10) // 0.07232...
  */
 export function fSf(x: number, df1: number, df2: number): number {
   const fn = 'F distribution survival function';
@@ -823,7 +859,7 @@ function checkNoncentral(x: number, df: number, ncp: number, fn: string): void {
  *
  * Cost: O(√λ + 1) central terms. Returns 0 for x ≤ 0; throws EngineError when df ≤ 0, λ < 0 or x is NaN.
  *
- * @example noncentralChiSquareCdf(10, 5, 3) // 0.7800...
+ * @example noncentralChiSquareCdf(10, 5, 3) // 0.71723...
  */
 export function noncentralChiSquareCdf(x: number, df: number, ncp: number): number {
   const fn = 'noncentral chi-square CDF';
@@ -837,7 +873,7 @@ export function noncentralChiSquareCdf(x: number, df: number, ncp: number): numb
  * Noncentral chi-square survival function P(X > x; df, λ), summed directly in the upper tail. Same
  * source and cost as noncentralChiSquareCdf; returns 1 for x ≤ 0; throws EngineError on bad parameters.
  *
- * @example noncentralChiSquareSf(10, 5, 3) // 0.2199...
+ * @example noncentralChiSquareSf(10, 5, 3) // 0.28276...
  */
 export function noncentralChiSquareSf(x: number, df: number, ncp: number): number {
   const fn = 'noncentral chi-square survival function';
