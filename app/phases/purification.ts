@@ -679,6 +679,8 @@ export interface RoundDetail {
   facets: FacetResult[];
   rows: RoundItemRow[];
   rules: readonly RuleOfThumb[];
+  /** The rules of thumb the round was flagged against, as stored with it. */
+  thresholds: typeof ROUND_RULES;
 }
 
 /** A round with everything its screen shows, read back from the stored run. */
@@ -747,6 +749,7 @@ export function roundDetail(study: Study, roundId: number): RoundDetail {
     facets: facetResults,
     rows,
     rules: RULES_OF_THUMB,
+    thresholds: (run.options as { rules?: typeof ROUND_RULES }).rules ?? ROUND_RULES,
   };
 }
 

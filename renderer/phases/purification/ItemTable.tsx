@@ -1,0 +1,291 @@
+import { Fragment, useState } from 'react';
+import type { FacetResult, FlagRule, RoundItemRow, RuleOfThumb } from '../../../app/phases/purification.ts';
+import { coef, num, pct } from './format.ts';
+
+type SortKey =
+  | 'order'
+  | 'code'
+  | 'facet'
+  | 'mean'
+  | 'sd'
+  | 'skewness'
+  | 'kurtosis'
+  | 'floorCeiling'
+  | 'missing'
+  | 'r'
+  | 'ifDeleted'
+  | 'flags';
+
+interface Column {
+  key: SortKey;
+  label: string;
+  title: string;
+  numeric?: boolean;
+}
+
+const FACET_COLUMN: Column = {
+  key: 'facet',
+  label: 'Facet',
+  title: 'The facet the item belongs to in this round',
+};
+
+const COLUMNS: Column[] = [
+  { key: 'code', label: 'Item', title: 'Item code; R marks a reverse-keyed item (scored min + max − x)' },
+  { key: 'mean', label: 'Mean', title: 'Mean of the scored answers', numeric: true },
+  { key: 'sd', label: 'SD', title: 'Standard deviation (divisor n − 1)', numeric: true },
+  { key: 'skewness', label: 'Skew', title: 'Skewness (adjusted Fisher–Pearson G1)', numeric: true },
+  { key: 'kurtosis', label: 'Kurt.', title: 'Excess kurtosis (G2)', numeric: true },
+  {
+    key: 'floorCeiling',
+    label: 'Floor / ceil.',
+    title: 'Shares of answers at the lowest and at the highest category',
+    numeric: true,
+  },
+  { key: 'missing', label: 'Miss.', title: 'Respondents who left the item unanswered', numeric: true },
+  {
+    key: 'r',
+    label: 'Corrected item-total r',
+    title: 'Corrected item-total correlation: r with the sum of the other items',
+    numeric: true,
+  },
+  {
+    key: 'ifDeleted',
+    label: 'α if deleted',
+    title: 'Alpha of the other items if this one were dropped',
+    numeric: true,
+  },
+  { key: 'flags', label: 'Flags', title: 'Rules of thumb the item meets (see the legend below)' },
+];
+
+function sortValue(row: RoundItemRow, key: SortKey, index: number): number | string {
+  const s = row.stats;
+  switch (key) {
+    case 'order':
+      return index;
+    case 'code':
+      return row.code;
+    case 'facet':
+      return row.facetName ?? '';
+    case 'mean':
+      return s.mean;
+    case 'sd':
+      return s.sd;
+    case 'skewness':
+      return s.skewness ?? Number.NEGATIVE_INFINITY;
+    case 'kurtosis':
+      return s.kurtosis ?? Number.NEGATIVE_INFINITY;
+    case 'floorCeiling':
+      return Math.max(s.floorShare ?? 0, s.ceilingShare ?? 0);
+    case 'missing':
+      return s.missing;
+    case 'r':
+      return s.correctedItemTotal ?? Number.NEGATIVE_INFINITY;
+    case 'ifDeleted':
+      return s.alphaIfDeleted ?? Number.NEGATIVE_INFINITY;
+    case 'flags':
+      return row.flags.length;
+  }
+}
+
+const DECISION_WORD = { drop: 'dropped', keep: 'kept', move: 'moved', restore: 'restored' } as const;
+
+/**
+ * The round's items: descriptives, corrected item-total, alpha if deleted and flags, grouped by
+ * facet (or in one list), sortable by any column (click a header; click again to reverse).
+ * Clicking a row opens its decision panel.
+ */
+export function ItemTable(props: {
+  rows: RoundItemRow[];
+  facets: FacetResult[];
+  rules: readonly RuleOfThumb[];
+  selected: string | undefined;
+  onSelect(code: string): void;
+}) {
+  const [sort, setSort] = useState<{ key: SortKey; descending: boolean }>({
+    key: 'order',
+    descending: false,
+  });
+  const [grouped, setGrouped] = useState(true);
+  const statement = new Map(props.rules.map((r) => [r.rule, r]));
+  const ordered = props.rows
+    .map((row, index) => ({ row, index }))
+    .sort((a, b) => {
+      const x = sortValue(a.row, sort.key, a.index);
+      const y = sortValue(b.row, sort.key, b.index);
+      const order = typeof x === 'string' ? x.localeCompare(String(y)) : x - (y as number);
+      return (sort.descending ? -order : order) || a.index - b.index;
+    });
+  const columns = grouped ? COLUMNS : [COLUMNS[0], FACET_COLUMN, ...COLUMNS.slice(1)];
+  const groups: { key: string; title: string | null; facet?: FacetResult; rows: typeof ordered }[] = grouped
+    ? [
+        ...props.facets.map((facet) => ({
+          key: `facet-${facet.facetId}`,
+          title: facet.name,
+          facet,
+          rows: ordered.filter(({ row }) => row.facetId === facet.facetId),
+        })),
+        {
+          key: 'no-facet',
+          title: 'No facet',
+          rows: ordered.filter(({ row }) => !props.facets.some((f) => f.facetId === row.facetId)),
+        },
+      ].filter((g) => g.rows.length > 0)
+    : [{ key: 'all', title: null, rows: ordered }];
+
+  function toggle(key: SortKey) {
+    setSort((s) =>
+      s.key === key ? { key, descending: !s.descending } : { key, descending: key === 'flags' },
+    );
+  }
+
+  return (
+    <div className="item-table-wrap">
+      <div className="table-options">
+        <label className="check">
+          <input type="checkbox" checked={grouped} onChange={(e) => setGrouped(e.target.checked)} />
+          Group by facet
+        </label>
+        {sort.key !== 'order' && (
+          <button type="button" className="link" onClick={() => setSort({ key: 'order', descending: false })}>
+            Pool order
+          </button>
+        )}
+      </div>
+      <table className="data-table item-table">
+        <thead>
+          <tr>
+            {columns.map((c) => (
+              <th
+                key={c.key}
+                className={c.numeric ? 'num' : undefined}
+                aria-sort={sort.key === c.key ? (sort.descending ? 'descending' : 'ascending') : 'none'}
+              >
+                <button type="button" className="sort" title={c.title} onClick={() => toggle(c.key)}>
+                  {c.label}
+                  <span className="sort-mark" aria-hidden="true">
+                    {sort.key === c.key ? (sort.descending ? '▼' : '▲') : ''}
+                  </span>
+                </button>
+              </th>
+            ))}
+          </tr>
+        </thead>
+        <tbody>
+          {groups.map((group) => (
+            <Fragment key={group.key}>
+              {group.title !== null && (
+                <tr className="group-row">
+                  <th colSpan={columns.length} scope="rowgroup" title={group.facet?.definition}>
+                    {group.title}
+                    <span className="muted">
+                      {' '}
+                      · {group.rows.length} item{group.rows.length === 1 ? '' : 's'}
+                      {group.facet?.analysis ? ` · facet α ${coef(group.facet.analysis.alpha.value)}` : ''}
+                    </span>
+                  </th>
+                </tr>
+              )}
+              {group.rows.map(({ row }) => (
+                <ItemRow
+                  key={row.code}
+                  row={row}
+                  showFacet={!grouped}
+                  selected={props.selected === row.code}
+                  onSelect={props.onSelect}
+                  statement={statement}
+                />
+              ))}
+            </Fragment>
+          ))}
+        </tbody>
+      </table>
+      <dl className="rule-legend" aria-label="Rules of thumb behind the flags">
+        {props.rules.map((r) => (
+          <div key={r.rule}>
+            <dt>
+              <span className={`flag flag-${r.rule}`}>{r.label}</span>
+            </dt>
+            <dd>{r.statement}</dd>
+          </div>
+        ))}
+      </dl>
+    </div>
+  );
+}
+
+function ItemRow(props: {
+  row: RoundItemRow;
+  showFacet: boolean;
+  selected: boolean;
+  onSelect(code: string): void;
+  statement: Map<FlagRule, RuleOfThumb>;
+}) {
+  const { row, statement } = props;
+  const s = row.stats;
+  const hit = new Set(row.flags.map((f) => f.rule));
+  const last = row.decisions.at(-1);
+  const mark = (...rules: FlagRule[]) => (rules.some((r) => hit.has(r)) ? 'num hit' : 'num');
+  return (
+    <tr
+      className={`${props.selected ? 'selected' : ''} ${row.droppedNow ? 'dropped' : ''}`}
+      onClick={() => props.onSelect(row.code)}
+    >
+      <td className="nowrap">
+        <button
+          type="button"
+          className="item-code"
+          title={row.text}
+          aria-label={`Item ${row.code}`}
+          onClick={(e) => {
+            e.stopPropagation();
+            props.onSelect(row.code);
+          }}
+        >
+          {row.code}
+        </button>
+        {row.keying === 'reverse' && (
+          <span className="keying" title="Reverse-keyed: scored min + max − x">
+            R
+          </span>
+        )}
+        {row.droppedNow ? (
+          <span className="decision-tag tag-drop">dropped</span>
+        ) : last ? (
+          <span className={`decision-tag tag-${last.action}`}>{DECISION_WORD[last.action]}</span>
+        ) : null}
+      </td>
+      {props.showFacet && (
+        <td className="facet-cell" title={row.facetDefinition}>
+          {row.facetName ?? 'no facet'}
+        </td>
+      )}
+      <td className="num">{num(s.mean)}</td>
+      <td className="num">{num(s.sd)}</td>
+      <td className={mark('skewness')}>{num(s.skewness)}</td>
+      <td className={mark('kurtosis')}>{num(s.kurtosis)}</td>
+      <td className="num nowrap">
+        <span className={hit.has('floor') ? 'hit' : undefined}>{pct(s.floorShare)}</span>
+        {' / '}
+        <span className={hit.has('ceiling') ? 'hit' : undefined}>{pct(s.ceilingShare)}</span>
+      </td>
+      <td className={mark('missing')}>{s.missing}</td>
+      <td className={mark('low-item-total', 'negative-item-total', 'no-variance')}>
+        {coef(s.correctedItemTotal, 2)}
+      </td>
+      <td className={mark('alpha-rises')}>{coef(s.alphaIfDeleted)}</td>
+      <td>
+        <span className="flags">
+          {row.flags.map((f) => (
+            <span
+              key={f.rule}
+              className={`flag flag-${f.rule}`}
+              title={`${f.text}. ${statement.get(f.rule)?.statement ?? ''}`}
+            >
+              {statement.get(f.rule)?.label ?? f.rule}
+            </span>
+          ))}
+        </span>
+      </td>
+    </tr>
+  );
+}

@@ -1,0 +1,125 @@
+import type { BandedValue } from '../../../app/engine/reliability/alpha.ts';
+import type { RoundDetail } from '../../../app/phases/purification.ts';
+import { Panel } from '../../shared/components.tsx';
+import { BAND_LEGEND, BAND_WORDS, coef, num, plural } from './format.ts';
+
+function Band({ value }: { value: BandedValue }) {
+  return <span className={`band band-${value.band}`}>{BAND_WORDS[value.band]}</span>;
+}
+
+/** Overall and per-facet reliability of one round, each alpha with its CI, band, n and missing-data method. */
+export function ReliabilityPanel({ detail }: { detail: RoundDetail }) {
+  const { scale, summary } = detail;
+  const level = Math.round(scale.alphaCI.level * 100);
+  const missing = scale.missingData.method === 'listwise' ? 'listwise deletion' : 'pairwise deletion';
+  return (
+    <Panel
+      title={`Reliability, round ${summary.number}`}
+      aside={
+        <span className="muted">
+          based on {plural(scale.n, 'respondent')} after {plural(summary.excluded, 'exclusion')} · {missing}
+        </span>
+      }
+    >
+      <div className="headline" data-testid="round-alpha">
+        <div className="headline-main">
+          <span className="headline-label">Cronbach’s α</span>
+          <span className="headline-value">{coef(scale.alpha.value)}</span>
+          <Band value={scale.alpha} />
+        </div>
+        <p className="headline-detail">
+          {level}% CI {coef(scale.alphaCI.lower)} to {coef(scale.alphaCI.upper)} (Feldt)
+          {scale.bootstrapCI && (
+            <>
+              {' '}
+              · bootstrap {coef(scale.bootstrapCI.lower)} to {coef(scale.bootstrapCI.upper)} (
+              {scale.bootstrapCI.resamples} resamples, seed {scale.bootstrapCI.seed})
+            </>
+          )}
+          <br />k = {scale.k} items · n = {scale.n} · {scale.missingData.description}
+        </p>
+      </div>
+      <dl className="stat-grid">
+        <div>
+          <dt>Standardized α</dt>
+          <dd>{scale.alphaStandardized ? coef(scale.alphaStandardized.value) : '—'}</dd>
+        </div>
+        <div>
+          <dt title="McDonald’s omega total from a one-factor model">ω total</dt>
+          <dd>
+            {scale.omegaTotal ? (
+              <>
+                {coef(scale.omegaTotal.value)} <Band value={scale.omegaTotal} />
+              </>
+            ) : (
+              '—'
+            )}
+          </dd>
+        </div>
+        <div>
+          <dt>Mean inter-item r</dt>
+          <dd>{coef(scale.meanInterItemR)}</dd>
+        </div>
+        <div>
+          <dt title="Standard error of measurement of the sum score, SD·√(1 − α)">SEM (sum score)</dt>
+          <dd>{num(scale.measurementError?.sem)}</dd>
+        </div>
+        <div>
+          <dt title="Minimal detectable change, 1.96·√2·SEM (common practice)">MDC95</dt>
+          <dd>{num(scale.measurementError?.mdc95)}</dd>
+        </div>
+        <div>
+          <dt>Split-half (Spearman–Brown)</dt>
+          <dd>{coef(scale.splitHalf?.spearmanBrown)}</dd>
+        </div>
+      </dl>
+
+      <table className="data-table facet-table">
+        <thead>
+          <tr>
+            <th>Facet</th>
+            <th className="num">Items</th>
+            <th className="num">n</th>
+            <th className="num">α</th>
+            <th>{level}% CI (Feldt)</th>
+            <th>Band</th>
+            <th className="num">ω total</th>
+            <th>Note</th>
+          </tr>
+        </thead>
+        <tbody>
+          {detail.facets.map((f) => (
+            <tr key={f.facetId}>
+              <td title={f.definition}>{f.name}</td>
+              <td className="num">{f.items.length}</td>
+              <td className="num">{f.analysis?.n ?? '—'}</td>
+              <td className="num">{coef(f.analysis?.alpha.value)}</td>
+              <td className="nowrap">
+                {f.analysis ? `${coef(f.analysis.alphaCI.lower)} to ${coef(f.analysis.alphaCI.upper)}` : '—'}
+              </td>
+              <td>{f.analysis ? <Band value={f.analysis.alpha} /> : '—'}</td>
+              <td className="num">{coef(f.analysis?.omegaTotal?.value)}</td>
+              <td className="muted">{f.note ?? ''}</td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+      <p className="hint">{BAND_LEGEND}</p>
+      {scale.warnings.length > 0 && (
+        <details className="warnings">
+          <summary>{plural(scale.warnings.length, 'note')} from the analysis</summary>
+          <ul>
+            {scale.warnings.map((w) => (
+              <li key={w}>{w}</li>
+            ))}
+          </ul>
+        </details>
+      )}
+      <p className="provenance muted">
+        Stored as analysis run {summary.runId} (engine {detail.engineVersion}) on “{summary.datasetName}”,{' '}
+        {summary.respondentsInFile} respondents in the file, {summary.excluded} excluded; declared range{' '}
+        {detail.bounds.min}–{detail.bounds.max}.
+      </p>
+    </Panel>
+  );
+}

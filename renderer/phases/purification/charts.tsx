@@ -1,0 +1,282 @@
+import {
+  Bar,
+  BarChart,
+  CartesianGrid,
+  Cell,
+  ErrorBar,
+  LabelList,
+  Legend,
+  Line,
+  LineChart,
+  ReferenceLine,
+  ResponsiveContainer,
+  Tooltip,
+  XAxis,
+  YAxis,
+} from 'recharts';
+import type { RoundItemRow, RoundSummary } from '../../../app/phases/purification.ts';
+import { coef, num } from './format.ts';
+
+const INK = '#4a5567';
+const ACCENT = '#2f5d8a';
+const WARN = '#c0792a';
+const BAD = '#b23a3a';
+const LINE = '#dde2ea';
+const EDGE = '#9aa5b4';
+/** Height of one item's row in the horizontal bar charts, in pixels. */
+const ROW_PX = 18;
+const AXIS_PX = 44;
+const TICK = { fontSize: 11, fill: INK };
+
+function rowHeight(rows: number): number {
+  return rows * ROW_PX + AXIS_PX;
+}
+
+/**
+ * Alpha if deleted against the current alpha: each bar is the change in alpha when the item is
+ * left out, so a bar to the right (red) means alpha would rise without the item.
+ */
+export function AlphaIfDeletedChart({ rows, alpha }: { rows: RoundItemRow[]; alpha: number }) {
+  const data = rows.map((row) => ({
+    code: row.code,
+    change: row.stats.alphaIfDeleted === null ? 0 : row.stats.alphaIfDeleted - alpha,
+    ifDeleted: row.stats.alphaIfDeleted,
+  }));
+  const reach = Math.max(0.01, ...data.map((d) => Math.abs(d.change)));
+  const bound = Math.ceil(reach * 200) / 200;
+  return (
+    <figure className="chart" aria-label="Alpha if item deleted against the current alpha">
+      <figcaption>
+        Alpha if item deleted, as the change from the current α = {coef(alpha)}
+        <span className="muted"> · right of the line: α rises without the item</span>
+      </figcaption>
+      <ResponsiveContainer width="100%" height={rowHeight(rows.length)}>
+        <BarChart data={data} layout="vertical" margin={{ top: 4, right: 16, bottom: 18, left: 4 }}>
+          <CartesianGrid horizontal={false} stroke={LINE} />
+          <XAxis
+            type="number"
+            domain={[-bound, bound]}
+            tickFormatter={(v: number) => (v > 0 ? `+${coef(v)}` : coef(v))}
+            tick={TICK}
+            label={{
+              value: 'change in α if dropped',
+              position: 'insideBottom',
+              offset: -10,
+              fontSize: 11,
+              fill: INK,
+            }}
+          />
+          <YAxis type="category" dataKey="code" width={46} tick={TICK} interval={0} />
+          <Tooltip
+            formatter={(_value, _name, entry) => [
+              `${coef((entry.payload as { ifDeleted: number | null }).ifDeleted)} (now ${coef(alpha)})`,
+              'α without the item',
+            ]}
+          />
+          <ReferenceLine x={0} stroke={INK} />
+          <Bar dataKey="change" isAnimationActive={false} barSize={11}>
+            {data.map((d) => (
+              <Cell key={d.code} fill={d.change > 0 ? BAD : ACCENT} />
+            ))}
+          </Bar>
+        </BarChart>
+      </ResponsiveContainer>
+    </figure>
+  );
+}
+
+/** Corrected item-total correlations with the common-practice line at .30. */
+export function ItemTotalChart({ rows, threshold }: { rows: RoundItemRow[]; threshold: number }) {
+  const data = rows.map((row) => ({ code: row.code, r: row.stats.correctedItemTotal ?? 0 }));
+  const low = Math.min(0, ...data.map((d) => Math.floor(d.r * 5) / 5));
+  const ticks = Array.from({ length: Math.round((1 - low) * 5) + 1 }, (_, i) => low + i / 5);
+  return (
+    <figure className="chart" aria-label="Corrected item-total correlations">
+      <figcaption>
+        Corrected item-total correlation
+        <span className="muted"> · dashed line at {coef(threshold, 2)} (common practice)</span>
+      </figcaption>
+      <ResponsiveContainer width="100%" height={rowHeight(rows.length)}>
+        <BarChart data={data} layout="vertical" margin={{ top: 4, right: 16, bottom: 18, left: 4 }}>
+          <CartesianGrid horizontal={false} stroke={LINE} />
+          <XAxis
+            type="number"
+            domain={[low, 1]}
+            ticks={ticks}
+            tickFormatter={(v: number) => coef(v, 1)}
+            tick={TICK}
+            label={{
+              value: 'r with the sum of the other items',
+              position: 'insideBottom',
+              offset: -10,
+              fontSize: 11,
+              fill: INK,
+            }}
+          />
+          <YAxis type="category" dataKey="code" width={46} tick={TICK} interval={0} />
+          <Tooltip formatter={(value) => [coef(Number(value)), 'corrected item-total r']} />
+          <ReferenceLine
+            x={threshold}
+            stroke={WARN}
+            strokeDasharray="4 3"
+            label={{ value: coef(threshold, 2), position: 'top', fontSize: 11, fill: WARN }}
+          />
+          <Bar dataKey="r" isAnimationActive={false} barSize={11}>
+            {data.map((d) => (
+              <Cell key={d.code} fill={d.r < threshold ? WARN : ACCENT} />
+            ))}
+          </Bar>
+        </BarChart>
+      </ResponsiveContainer>
+    </figure>
+  );
+}
+
+/** Sequential blues from the lowest to the highest response category. */
+function categoryColour(index: number, count: number): string {
+  const t = count <= 1 ? 1 : index / (count - 1);
+  const light = 82 - t * 56;
+  return `hsl(210 45% ${light}%)`;
+}
+
+/** How each item was answered: one stacked bar per item, shares of the answered values. */
+export function DistributionChart({
+  rows,
+  min,
+  anchors,
+}: {
+  rows: RoundItemRow[];
+  min: number;
+  anchors: string[];
+}) {
+  const categories = rows[0]?.distribution.counts.length ?? 0;
+  const keys = Array.from({ length: categories }, (_, i) => String(min + i));
+  const data = rows.map((row) => {
+    const answered = row.distribution.counts.reduce((a, b) => a + b, 0);
+    const entry: Record<string, number | string> = {
+      code: row.code,
+      answered,
+      missing: row.distribution.missing,
+    };
+    row.distribution.counts.forEach((count, i) => {
+      entry[keys[i]] = answered === 0 ? 0 : (count / answered) * 100;
+    });
+    return entry;
+  });
+  return (
+    <figure className="chart" aria-label="Response distributions per item">
+      <figcaption>
+        Response distributions
+        <span className="muted"> · share of answers in each category, after reverse keying</span>
+      </figcaption>
+      <ResponsiveContainer width="100%" height={rowHeight(rows.length) + 24}>
+        <BarChart data={data} layout="vertical" margin={{ top: 4, right: 16, bottom: 4, left: 4 }}>
+          <XAxis
+            type="number"
+            domain={[0, 100]}
+            allowDataOverflow
+            ticks={[0, 25, 50, 75, 100]}
+            tickFormatter={(v: number) => `${Math.round(v)}%`}
+            tick={TICK}
+          />
+          <YAxis type="category" dataKey="code" width={46} tick={TICK} interval={0} />
+          <Tooltip
+            formatter={(value, name) => [
+              `${num(Number(value), 1)}%`,
+              `${name}${anchors[Number(name) - min] ? ` (${anchors[Number(name) - min]})` : ''}`,
+            ]}
+          />
+          <Legend
+            verticalAlign="bottom"
+            height={24}
+            iconSize={10}
+            wrapperStyle={{ fontSize: 11 }}
+            formatter={(value: string) => (
+              <span style={{ color: INK }}>
+                {value}
+                {anchors[Number(value) - min] ? ` ${anchors[Number(value) - min]}` : ''}
+              </span>
+            )}
+          />
+          {keys.map((key, i) => (
+            <Bar
+              key={key}
+              dataKey={key}
+              stackId="share"
+              fill={categoryColour(i, keys.length)}
+              isAnimationActive={false}
+              barSize={12}
+            />
+          ))}
+        </BarChart>
+      </ResponsiveContainer>
+    </figure>
+  );
+}
+
+/** Alpha across rounds with its confidence interval and the band edges. */
+export function AlphaHistoryChart({ rounds }: { rounds: RoundSummary[] }) {
+  const data = rounds.map((r) => ({
+    round: `Round ${r.number}`,
+    alpha: r.alpha,
+    ci: [r.alpha - r.ci.lower, r.ci.upper - r.alpha],
+    lower: r.ci.lower,
+    upper: r.ci.upper,
+    k: r.k,
+  }));
+  const lowest = Math.min(...rounds.map((r) => r.ci.lower));
+  const floor = Math.max(0, Math.min(0.6, Math.floor(lowest * 10) / 10));
+  const ticks = Array.from({ length: Math.round((1 - floor) * 10) + 1 }, (_, i) => floor + i / 10);
+  return (
+    <figure className="chart" aria-label="Alpha across rounds">
+      <figcaption>
+        Alpha across rounds
+        <span className="muted">
+          {' '}
+          · whiskers: confidence interval (Feldt); dashed: .70 and .80 band edges
+        </span>
+      </figcaption>
+      <ResponsiveContainer width="100%" height={220}>
+        <LineChart data={data} margin={{ top: 22, right: 110, bottom: 4, left: 0 }}>
+          <CartesianGrid stroke={LINE} vertical={false} />
+          <XAxis dataKey="round" tick={TICK} padding={{ left: 40, right: 40 }} />
+          <YAxis
+            domain={[floor, 1]}
+            ticks={ticks}
+            tickFormatter={(v: number) => coef(v, 2)}
+            tick={TICK}
+            width={40}
+          />
+          <Tooltip
+            formatter={(_value, _name, entry) => {
+              const p = entry.payload as { alpha: number; lower: number; upper: number; k: number };
+              return [`${coef(p.alpha)} [${coef(p.lower)}, ${coef(p.upper)}], ${p.k} items`, 'α'];
+            }}
+          />
+          <ReferenceLine
+            y={0.8}
+            stroke={EDGE}
+            strokeDasharray="4 3"
+            label={{ value: 'good ≥ .80', position: 'right', fontSize: 11, fill: INK }}
+          />
+          <ReferenceLine
+            y={0.7}
+            stroke={EDGE}
+            strokeDasharray="4 3"
+            label={{ value: 'acceptable ≥ .70', position: 'right', fontSize: 11, fill: INK }}
+          />
+          <Line dataKey="alpha" stroke={ACCENT} strokeWidth={2} isAnimationActive={false} dot={{ r: 4 }}>
+            <ErrorBar dataKey="ci" width={6} stroke={ACCENT} />
+            <LabelList
+              dataKey="alpha"
+              position="top"
+              offset={10}
+              formatter={(v) => coef(Number(v))}
+              style={{ fontSize: 11, fill: INK }}
+            />
+          </Line>
+        </LineChart>
+      </ResponsiveContainer>
+    </figure>
+  );
+}
