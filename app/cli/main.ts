@@ -74,7 +74,12 @@ export function parseStrict(
 ): Record<string, string | boolean | undefined> & { _: string[] } {
   let parsed: ReturnType<typeof parseArgs>;
   try {
-    parsed = parseArgs({ args: joinNegativeValues(args, options), options, strict: true, allowPositionals: positionals > 0 });
+    parsed = parseArgs({
+      args: joinNegativeValues(args, options),
+      options,
+      strict: true,
+      allowPositionals: positionals > 0,
+    });
   } catch (error) {
     throw new UsageError(
       (error as Error).message.split('\n')[0].replace(/^Unknown option/, 'unknown option'),

@@ -17,7 +17,9 @@ const benches = fs
 let failed = 0;
 for (const file of benches) {
   process.stdout.write(`\n── ${file} ──\n`);
-  const result = spawnSync(process.execPath, ['--expose-gc', tsx, path.join(here, file)], { stdio: 'inherit' });
+  const result = spawnSync(process.execPath, ['--expose-gc', tsx, path.join(here, file)], {
+    stdio: 'inherit',
+  });
   if (result.status !== 0) failed++;
 }
 process.exitCode = failed > 0 ? 1 : 0;
