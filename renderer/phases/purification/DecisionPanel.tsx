@@ -51,7 +51,8 @@ export function DecisionPanel(props: {
   row: RoundItemRow;
   detail: RoundDetail;
   facets: { id: number; name: string; definition: string }[];
-  standingDrop: DecisionView | null;
+  /** Every decision on this item, in any round, oldest first. */
+  history: DecisionView[];
   locked: boolean;
 }) {
   const { row, detail } = props;
@@ -149,16 +150,12 @@ export function DecisionPanel(props: {
         </ul>
       )}
 
-      {row.decisions.length > 0 && (
+      {props.history.length > 0 && (
         <div className="item-decisions">
-          {row.decisions.map((d) => (
+          <p className="eyebrow">Decisions on this item, newest first</p>
+          {[...props.history].reverse().map((d) => (
             <DecisionNote key={d.id} decision={d} />
           ))}
-        </div>
-      )}
-      {dropped && props.standingDrop && props.standingDrop.roundId !== detail.summary.id && (
-        <div className="item-decisions">
-          <DecisionNote decision={props.standingDrop} />
         </div>
       )}
 

@@ -182,9 +182,6 @@ function RoundView(props: {
   if (!round.data) return <p className="loading">Loading round…</p>;
   const detail = round.data;
   const row = detail.rows.find((r) => r.code === props.selected) ?? undefined;
-  const standingDrop = row
-    ? (props.decisions.find((d) => d.itemId === row.itemId && d.action === 'drop' && d.inForce) ?? null)
-    : null;
   return (
     <div className="workbench">
       <div className="workbench-main">
@@ -215,7 +212,7 @@ function RoundView(props: {
             row={row}
             detail={detail}
             facets={props.facets}
-            standingDrop={standingDrop}
+            history={props.decisions.filter((d) => d.itemId === row.itemId)}
             locked={props.locked}
           />
         ) : (
