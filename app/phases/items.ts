@@ -148,6 +148,8 @@ export function itemsView(study: Study) {
       .map((it) => it.code),
     nearDuplicates: pairs,
     nearDuplicateThreshold: NEAR_DUPLICATE_THRESHOLD,
+    minItemsPerFacet: MIN_ITEMS_PER_FACET,
+    maxFileBytes: MAX_ITEM_FILE_BYTES,
   };
 }
 

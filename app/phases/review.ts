@@ -45,11 +45,13 @@ import {
 import type { Study } from '../../db/study.ts';
 import {
   analyzeContentValidity,
+  BENCHMARK_PRECISION,
   type ContentValidityReport,
   type ExpertRating,
   formatRatio,
   type ItemContentValidity,
   MIN_PANEL_FOR_BENCHMARK,
+  SCVI_AVE_BENCHMARK,
 } from '../engine/content.ts';
 import { ENGINE_VERSION } from '../engine/version.ts';
 import { delimiterName } from '../import/detect-format.ts';
@@ -969,6 +971,8 @@ export interface RoundItemView {
   facetName: string | null;
   state: ItemRecord['state'];
   stats: ItemContentValidity | null;
+  /** The item's number in the printed review packet. */
+  packetNumber: number;
   decision: (DecisionRecord & { newText: string | null }) | null;
   comments: { expert: string; text: string }[];
 }
@@ -998,6 +1002,7 @@ function roundView(study: Study, round: RoundRecord): RoundView {
   const expertCode = new Map(ctx.experts.map((e) => [e.id, e.code]));
   const facetNames = new Map(listFacets(study, { includeRetired: true }).map((f) => [f.id, f.name]));
   const frozen = new Map(listRoundItems(study, round.id).map((ri) => [ri.itemId, ri.revisionId]));
+  const numbers = packetNumbers(study, ctx);
   const items: RoundItemView[] = ctx.roundItems.map((it) => {
     const revisionId = frozen.get(it.id) ?? null;
     const rated = revisionId === null ? null : getRevision(study, revisionId);
@@ -1011,6 +1016,7 @@ function roundView(study: Study, round: RoundRecord): RoundView {
       facetName: it.facetId === null ? null : (facetNames.get(it.facetId) ?? null),
       state: it.state,
       stats: analysis?.report.items.find((s) => s.item === it.code) ?? null,
+      packetNumber: numbers.get(it.id) ?? 0,
       decision: decision && {
         ...decision,
         newText:
@@ -1064,6 +1070,9 @@ export function reviewView(study: Study) {
     facets: listFacets(study),
     keptItems: listItems(study).filter((it) => it.state === 'kept').length,
     rewordedSinceRated: roundCandidates(study, 'revised').length,
+    maxFileBytes: MAX_RATINGS_FILE_BYTES,
+    relevanceAnchors: RELEVANCE_ANCHORS,
+    benchmarks: { sCviAve: SCVI_AVE_BENCHMARK, precision: BENCHMARK_PRECISION },
     rounds,
     comparison: {
       rounds: rated.map((r) => ({
@@ -1094,6 +1103,32 @@ function interleave<T extends { facetId: number | null }>(items: readonly T[]): 
   return out;
 }
 
+/** The packet's sections: one interleaved list when experts place items in facets, otherwise one section per facet. */
+function packetSections<T extends { facetId: number | null }>(
+  study: Study,
+  ctx: RoundContext,
+  items: readonly T[],
+): { facet: string | null; items: T[] }[] {
+  const facets = listFacets(study);
+  if (ctx.form.asksFacet) return [{ facet: null, items: interleave(items) }];
+  return [
+    ...facets.map((f) => ({ facet: f.name, items: items.filter((it) => it.facetId === f.id) })),
+    {
+      facet: null,
+      items: items.filter((it) => it.facetId === null || !facets.some((f) => f.id === it.facetId)),
+    },
+  ].filter((s) => s.items.length > 0);
+}
+
+/** Each round item's number in the printed packet, by item id. */
+function packetNumbers(study: Study, ctx: RoundContext): Map<number, number> {
+  const out = new Map<number, number>();
+  for (const section of packetSections(study, ctx, ctx.roundItems)) {
+    for (const it of section.items) out.set(it.id, out.size + 1);
+  }
+  return out;
+}
+
 /**
  * What the printable review packet of a round shows: the construct and facet definitions, the
  * rating scale and questions of the form, and the items in the wording the experts rate. When the
@@ -1117,15 +1152,7 @@ export function reviewPacket(study: Study, roundId: number) {
     value: ctx.form.relevanceMin + i,
     label: RELEVANCE_ANCHORS[i] ?? '',
   }));
-  const sections = ctx.form.asksFacet
-    ? [{ facet: null, items: interleave(items) }]
-    : [
-        ...facets.map((f) => ({ facet: f.name, items: items.filter((it) => it.facetId === f.id) })),
-        {
-          facet: null,
-          items: items.filter((it) => it.facetId === null || !facets.some((f) => f.id === it.facetId)),
-        },
-      ].filter((s) => s.items.length > 0);
+  const sections = packetSections(study, ctx, items);
   let number = 0;
   return {
     studyTitle: study.meta('title') ?? '',
@@ -1134,6 +1161,8 @@ export function reviewPacket(study: Study, roundId: number) {
     form: ctx.form,
     anchors,
     essentialAnswers: ESSENTIAL_ANSWERS,
+    /** Item codes often carry the facet (TR01), so they are left off when experts place items in facets. */
+    showCodes: !ctx.form.asksFacet,
     facets: facets.map((f) => ({ name: f.name, definition: f.definition })),
     sections: sections.map((s) => ({
       facet: s.facet,
