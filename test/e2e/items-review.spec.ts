@@ -134,7 +134,9 @@ test('adds and edits items with live wording checks, imports ratings, and record
   await expect(page.locator('.cvi-table tr.row-flagged')).toHaveCount(2);
   await expect(page.locator('.cvi-table tr[data-code="TR05"] .decision-badge')).toHaveText('Revised');
   await expect(page.locator('.cvi-table tr[data-code="RP06"] .decision-badge')).toHaveText('Retired');
-  await expect(page.locator('.stat-tile').filter({ hasText: 'Facet sorting' })).toContainText('Fleiss’ kappa');
+  await expect(page.locator('.stat-tile').filter({ hasText: 'Facet sorting' })).toContainText(
+    'Fleiss’ kappa',
+  );
   await page.evaluate(() => window.scrollTo(0, 0));
   await page.screenshot({ path: path.join(SCREENSHOTS, 'review-round-1.png'), fullPage: true });
   await page.locator('.round-tab').nth(2).click();
