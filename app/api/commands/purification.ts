@@ -48,7 +48,13 @@ const reasons = {
 
 /** Phase 5: purification rounds in a worker, the researcher's item decisions, and the history. */
 export const purificationCommands = {
-  'purification.view': command(z.object({}), (s) => purificationView(s.study)),
+  'purification.view': command(z.object({}), (s) => ({
+    ...purificationView(s.study),
+    /** Rounds started and not yet collected (the screen picks them up again after a reload). */
+    running: [...runningOf(s).entries()]
+      .filter(([, prepared]) => prepared.studyPath === s.study.path)
+      .map(([taskId, prepared]) => ({ taskId, round: prepared.number })),
+  })),
   'purification.round': command(z.object({ id }), (s, input) => roundDetail(s.study, input.id)),
 
   /** Starts the next round in a worker thread; follow it with task.status, then collect it. */

@@ -99,6 +99,7 @@ export function PurificationScreen() {
               nextNumber={(latest?.number ?? 0) + 1}
               items={next.items.length}
               disabled={locked || next.items.length < 2}
+              running={data.running[0]}
               onStored={stored}
             />
           </section>

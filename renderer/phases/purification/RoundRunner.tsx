@@ -16,6 +16,8 @@ export function RoundRunner(props: {
   nextNumber: number;
   items: number;
   disabled: boolean;
+  /** A round started earlier and not yet collected (after a reload or a visit elsewhere). */
+  running: { taskId: string; round: number } | undefined;
   onStored(round: RoundSummary): void;
 }) {
   const collect = useMutation('purification.collectRound');
@@ -23,7 +25,9 @@ export function RoundRunner(props: {
   const [bootstrap, setBootstrap] = useState(true);
   const [resamples, setResamples] = useState(DEFAULT_RESAMPLES);
   const [seed, setSeed] = useState('');
-  const [task, setTask] = useState<{ id: string; round: number } | undefined>(undefined);
+  const [task, setTask] = useState<{ id: string; round: number } | undefined>(
+    props.running && { id: props.running.taskId, round: props.running.round },
+  );
   const [error, setError] = useState<string | undefined>(undefined);
   const { onStored } = props;
   /** The task whose result is being collected: collected once even if polling reports twice. */

@@ -117,6 +117,8 @@ describe('purification through the command table', () => {
       { bootstrap: { resamples: 400, seed: 3 } },
     );
     expect(started).toMatchObject({ round: 1, items: 17, respondents: fixture.rows.length });
+    const during = await ok<{ running: { taskId: string; round: number }[] }>('purification.view', {});
+    expect(during.running).toEqual([{ taskId: started.taskId, round: 1 }]);
     const status = await waitUntilFinished(started.taskId);
     expect(status).toMatchObject({ state: 'done', total: 400 * 5 });
     const round = await ok<RoundSummary>('purification.collectRound', { taskId: started.taskId });
@@ -127,8 +129,9 @@ describe('purification through the command table', () => {
     const detail = await ok<RoundDetail>('purification.round', { id: round.id });
     expect(detail.rows).toHaveLength(17);
     expect(detail.rules.map((r) => r.rule)).toContain('alpha-rises');
-    const view = await ok<{ rounds: RoundSummary[]; next: { items: string[] } }>('purification.view', {});
+    const view = await ok<{ rounds: RoundSummary[]; running: unknown[] }>('purification.view', {});
     expect(view.rounds.map((r) => r.number)).toEqual([1]);
+    expect(view.running).toEqual([]);
 
     const dropped = await ok<number>('purification.decide', {
       itemCode: 'OD1',
