@@ -266,6 +266,19 @@ describe('a purification round', () => {
     expect(listRounds(study)).toHaveLength(0);
   });
 
+  it('refuses to store a round when another one was stored while it ran', async () => {
+    await storePilot(fixture.rows, fixture.codes);
+    const a = prepareRound(study, { bootstrap: null });
+    const b = prepareRound(study, { bootstrap: null });
+    const run = (p: typeof a) =>
+      JOBS['purification.round'](p.job, { progress: () => undefined, shouldStop: () => false });
+    storeRound(study, a, run(a));
+    expect(() => storeRound(study, b, run(b))).toThrow(
+      'round 1 was stored while this one ran; run the round again',
+    );
+    expect(listRounds(study)).toHaveLength(1);
+  });
+
   it('names an answer outside the declared response range by respondent and column', async () => {
     await storePilot(
       [
