@@ -59,12 +59,6 @@ export const SOURCE_LABEL: Record<ItemSource, string> = {
   'own-drafting': 'own drafting',
 };
 
-export const STATE_LABEL: Record<ItemState, string> = {
-  draft: 'draft',
-  kept: 'kept for review',
-  retired: 'retired',
-};
-
 /** SHA-256 of a file's bytes, stored with every import so the file can be recognised later. */
 export function sha256Hex(bytes: Uint8Array): string {
   return crypto.createHash('sha256').update(bytes).digest('hex');
@@ -123,6 +117,7 @@ function poolDuplicates(items: readonly ItemRecord[]): NearDuplicate[] {
   return findNearDuplicates(items.map((it) => ({ code: it.code, text: it.text })));
 }
 
+/** The pool as the item pool screen shows it: every item with its wording checks, facet coverage and near duplicates. */
 export function itemsView(study: Study) {
   const facets = listFacets(study);
   const all = listItems(study);
@@ -166,6 +161,7 @@ export function checkWording(study: Study, text: string, itemId?: number) {
   return { wording: checkItemWording(text), duplicates };
 }
 
+/** Every wording an item has had, oldest first. */
 export function itemRevisions(study: Study, id: number) {
   requireItem(study, id);
   return listRevisions(study, id);

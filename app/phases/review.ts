@@ -266,6 +266,7 @@ function publicExpert(e: ExpertInput) {
   return { code: e.code, role: e.role, named: e.name !== '', nameWithheld: e.nameWithheld };
 }
 
+/** Adds an expert to a round's panel: an id code, and optionally a role and a name (which can be withheld). */
 export function addExpert(study: Study, roundId: number, input: ExpertInput): number {
   const round = requireRound(study, roundId);
   const expert = checkExpert(study, roundId, input);
@@ -287,6 +288,7 @@ function requireExpert(study: Study, id: number): ExpertRecord {
   return expert;
 }
 
+/** Changes an expert's code, role, name or whether the name is withheld. */
 export function editExpert(study: Study, id: number, input: ExpertInput): void {
   const before = requireExpert(study, id);
   const round = requireRound(study, before.roundId);
@@ -311,6 +313,7 @@ export function editExpert(study: Study, id: number, input: ExpertInput): void {
   );
 }
 
+/** Takes an expert off a round's panel; only while the expert has no ratings in it. */
 export function removeExpert(study: Study, id: number): void {
   const expert = requireExpert(study, id);
   const round = requireRound(study, expert.roundId);

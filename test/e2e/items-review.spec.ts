@@ -161,3 +161,67 @@ test('adds and edits items with live wording checks, imports ratings, and record
   await expect(first).toContainText('E2E Researcher');
   await expect(page.locator('.log-table tbody tr').nth(1)).toContainText('ratings imported');
 });
+
+test('imports items from CSV only after a clean preview, and exports the pool', async ({ page, app }) => {
+  await page.goto(app.url);
+  await page.locator('.sidebar a[href="#/phase/items"]').click();
+  await page.getByRole('button', { name: 'Reopen phase…' }).click();
+  await page.locator('#note-items').fill('Adding the items drafted at the second workshop.');
+  await page.getByRole('button', { name: 'Reopen', exact: true }).click();
+  await page.getByRole('button', { name: 'Import CSV…' }).click();
+
+  const file = page.getByLabel('Item pool file');
+  await file.setInputFiles({
+    name: 'workshop-items.csv',
+    mimeType: 'text/csv',
+    buffer: Buffer.from(
+      'code,text,facet,keying\nRR08,I can replace a worn brake pad.,Roadside repairs,forward\nRR09,I can fix a puncture.,Repairs,forward\nTR01,I can ride in a bus lane.,Confidence in traffic,forward\n',
+    ),
+  });
+  await expect(page.getByRole('list', { name: 'Problems in the file' }).locator('li')).toHaveText([
+    "row 3, column 3 ('facet'): facet 'Repairs' is not a facet of this study; use one of Confidence in traffic, Route planning, Bike handling, Roadside repairs",
+    "row 4, column 1 ('code'): item code 'TR01' is already in the pool (TR01)",
+  ]);
+  await expect(page.getByRole('button', { name: /^Import \d+ item/ })).toBeDisabled();
+  await expect(page.locator('.item-row[data-code="RR08"]')).toHaveCount(0);
+
+  await file.setInputFiles({
+    name: 'workshop-items.csv',
+    mimeType: 'text/csv',
+    buffer: Buffer.from(
+      'code,text,facet,keying\nRR08,I can replace a worn brake pad.,Roadside repairs,forward\nRR09,I can fix a puncture and a broken spoke.,roadside repairs,\n',
+    ),
+  });
+  const preview = page.getByTestId('item-import-preview');
+  await expect(preview).toContainText('2 items ready to import');
+  await expect(preview).toContainText('keying is blank on row 3: read as forward');
+  await expect(preview.locator('tbody tr').nth(1)).toContainText('double barrelled');
+  await page.getByLabel('Source of the imported items').selectOption('interviews');
+  await page.evaluate(() => window.scrollTo(0, 0));
+  await page.screenshot({ path: path.join(SCREENSHOTS, 'items-import.png') });
+  await page.getByRole('button', { name: 'Import 2 items' }).click();
+  await expect(page.locator('.item-row[data-code="RR09"]')).toBeVisible();
+  await expect(
+    page.locator('.item-row[data-code="RR09"] .wording-flag[data-check="double-barrelled"]'),
+  ).toBeVisible();
+  await expect(page.locator('.coverage-table tr[data-facet="Roadside repairs"] td').nth(3)).toHaveText('2');
+
+  const download = page.waitForEvent('download');
+  await page.getByRole('button', { name: 'Export CSV' }).click();
+  const saved = await download;
+  expect(saved.suggestedFilename()).toBe('item-pool.csv');
+  const stream = await saved.createReadStream();
+  let text = '';
+  for await (const chunk of stream) text += chunk.toString();
+  expect(text.split('\r\n')[0]).toBe('code,text,facet,keying,source,source_note,state,revisions');
+  expect(text).toContain(
+    'RR09,I can fix a puncture and a broken spoke.,Roadside repairs,forward,interviews,,draft,1',
+  );
+  expect(text).toContain(
+    'RP06,I can find a quiet street when my usual route is too busy.,Route planning,forward,own-drafting,,retired,1',
+  );
+
+  await page.locator('.sidebar a[href="#/log"]').click();
+  await expect(page.locator('.log-table tbody tr').first()).toContainText('items imported');
+  await expect(page.locator('.log-table tbody tr').first()).toContainText('file "workshop-items.csv"');
+});

@@ -228,7 +228,7 @@ function ItemStatsRow(props: {
         <td className="item-cell">
           <strong>{item.code}</strong>{' '}
           <span className="muted">
-            {item.facetName ?? 'no facet'} · packet no. {item.packetNumber}
+            {item.facetName ?? 'no facet'} · #{item.packetNumber}
           </span>
           <span className="item-cell-text">{item.text}</span>
           {item.rewordedSince && <span className="tag-note">reworded since this round</span>}
