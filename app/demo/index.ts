@@ -14,12 +14,18 @@ export const DEMO_TITLE = 'Everyday Cycling Confidence — development study (de
  * same code always writes the same study content (timestamps aside).
  */
 export function fillDemoStudy(study: Study): void {
-  fillDemoConstruct(study);
-  signOffPhase(
-    study,
-    'construct',
-    'Definition, facets and planned relations agreed by the project team (demo).',
-  );
-  fillDemoItems(study);
-  fillDemoReview(study);
+  const researcher = study.actor;
+  study.actor = { user: researcher.user, name: DEMO_AUTHOR };
+  try {
+    fillDemoConstruct(study);
+    signOffPhase(
+      study,
+      'construct',
+      'Definition, facets and planned relations agreed by the project team (demo).',
+    );
+    fillDemoItems(study);
+    fillDemoReview(study);
+  } finally {
+    study.actor = researcher;
+  }
 }
