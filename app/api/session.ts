@@ -16,8 +16,17 @@ export class Session {
   constructor(
     public actor: Actor,
     readonly app: string,
-    readonly nativeBinding?: string,
+    private readonly options: {
+      /** A better-sqlite3 addon built for another ABI (the Electron shell passes its own). */
+      nativeBinding?: string;
+      /** Keeps a new display name for the next launch (the user's settings file). */
+      saveDisplayName?: (name: string) => void;
+    } = {},
   ) {}
+
+  private get nativeBinding(): string | undefined {
+    return this.options.nativeBinding;
+  }
 
   get study(): Study {
     if (!this.current) throw new StudyFileError('not-found', 'no study is open; open or create one first');
@@ -56,9 +65,11 @@ export class Session {
     this.current = study;
   }
 
+  /** The name shown in the log rows written from now on; earlier rows keep the name they had. */
   setDisplayName(name: string): void {
     this.actor = { ...this.actor, name };
     if (this.current) this.current.actor = this.actor;
+    this.options.saveDisplayName?.(name);
   }
 
   close(): void {

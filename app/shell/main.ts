@@ -3,7 +3,7 @@ import { BrowserWindow, Menu, app, dialog, ipcMain, session as electronSession, 
 import { STUDY_EXTENSION } from '../../db/study.ts';
 import { dispatch } from '../api/dispatch.ts';
 import { Session } from '../api/session.ts';
-import { currentActor, readSettings, rememberRecent } from '../launch/user-data.ts';
+import { currentActor, readSettings, rememberRecent, writeSettings } from '../launch/user-data.ts';
 
 /**
  * The desktop shell: one window on one study, the application menu, native file dialogs and
@@ -15,11 +15,10 @@ const RENDERER_INDEX = path.join(__dirname, '..', '..', '..', 'renderer', 'dist'
 const PRELOAD = path.join(__dirname, 'preload.cjs');
 const STUDY_FILTER = [{ name: 'Scalewright study', extensions: [STUDY_EXTENSION.slice(1)] }];
 
-const studySession = new Session(
-  currentActor(),
-  APP_NAME,
-  process.env.SCALEWRIGHT_NATIVE_BINDING || undefined,
-);
+const studySession = new Session(currentActor(), APP_NAME, {
+  nativeBinding: process.env.SCALEWRIGHT_NATIVE_BINDING || undefined,
+  saveDisplayName: (displayName) => writeSettings({ displayName }),
+});
 let win: BrowserWindow | undefined;
 
 function studyFromArgs(argv: string[]): string | undefined {

@@ -4,6 +4,7 @@ import { DecisionLogScreen } from '../phases/log/DecisionLogScreen.tsx';
 import { OverviewScreen } from '../phases/overview/OverviewScreen.tsx';
 import { ErrorNote } from '../shared/components.tsx';
 import { StudyRevision, useQuery } from '../shared/use-command.ts';
+import { DisplayName } from './DisplayName.tsx';
 import { PhaseNotYetAvailable } from './PhaseNotYetAvailable.tsx';
 import { PHASE_SCREENS } from './phase-screens.ts';
 
@@ -73,7 +74,7 @@ function Shell() {
         <a href="#/log" className={route.screen === 'log' ? 'nav-item active' : 'nav-item'}>
           Decision log
         </a>
-        <p className="signed-in">Working as {info.data?.actor.name ?? '…'}</p>
+        {info.data && <DisplayName name={info.data.actor.name} user={info.data.actor.user} />}
       </nav>
       <main className="content">
         <ErrorNote message={info.error} />

@@ -80,3 +80,21 @@ describe('construct phase through the command table', () => {
     }
   });
 });
+
+describe('the display name', () => {
+  it('signs the log rows written after a change of name, and is kept for the next launch', async () => {
+    const saved: string[] = [];
+    const named = new Session(TEST_ACTOR, 'test', { saveDisplayName: (name) => saved.push(name) });
+    named.create(path.join(tmp.dir, 'named.scalewright'), 'N');
+    await dispatch(named, 'construct.setText', { field: 'name', value: 'Before' });
+    expect((await dispatch(named, 'settings.setDisplayName', { name: '  ' })).ok).toBe(false);
+    expect((await dispatch(named, 'settings.setDisplayName', { name: 'Dr. Field Lead' })).ok).toBe(true);
+    await dispatch(named, 'construct.setText', { field: 'name', value: 'After' });
+    const [after, before] = named.study.log.list();
+    expect(before.actorName).toBe(TEST_ACTOR.name);
+    expect(after.actorName).toBe('Dr. Field Lead');
+    expect(after.actorUser).toBe(TEST_ACTOR.user);
+    expect(saved).toEqual(['Dr. Field Lead']);
+    named.close();
+  });
+});
