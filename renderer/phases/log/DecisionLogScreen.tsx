@@ -1,5 +1,6 @@
 import { useState } from 'react';
 import { PHASE_TITLES } from '../../../app/phases/titles.ts';
+import type { LogEntry } from '../../../db/decision-log.ts';
 import type { PhaseId } from '../../../db/repos/phase-state.ts';
 import { ErrorNote, formatTime } from '../../shared/components.tsx';
 import { useMutation, useQuery } from '../../shared/use-command.ts';
@@ -64,19 +65,52 @@ export function DecisionLogScreen() {
           </thead>
           <tbody>
             {log.data.entries.map((entry) => (
-              <tr key={entry.seq}>
-                <td className="num">{entry.seq}</td>
-                <td className="nowrap">{formatTime(entry.at)}</td>
-                <td title={entry.actorUser}>{entry.actorName}</td>
-                <td>{PHASE_TITLES[entry.phase as PhaseId] ?? entry.phase}</td>
-                <td>{entry.kind.replaceAll('-', ' ')}</td>
-                <td>{entry.target}</td>
-                <td className="rationale">{entry.rationale}</td>
-              </tr>
+              <LogRow key={entry.seq} entry={entry} />
             ))}
           </tbody>
         </table>
       )}
     </div>
+  );
+}
+
+/** One row; a click shows what changed (before and after), the run it rests on, and its hash. */
+function LogRow({ entry }: { entry: LogEntry }) {
+  const [open, setOpen] = useState(false);
+  return (
+    <>
+      <tr className={open ? 'log-row open' : 'log-row'} onClick={() => setOpen(!open)}>
+        <td className="num">{entry.seq}</td>
+        <td className="nowrap">{formatTime(entry.at)}</td>
+        <td title={entry.actorUser}>{entry.actorName}</td>
+        <td>{PHASE_TITLES[entry.phase as PhaseId] ?? entry.phase}</td>
+        <td>{entry.kind.replaceAll('-', ' ')}</td>
+        <td>{entry.target}</td>
+        <td className="rationale">{entry.rationale}</td>
+      </tr>
+      {open && (
+        <tr className="log-detail">
+          <td />
+          <td colSpan={6}>
+            <dl>
+              {entry.runId !== null && (
+                <>
+                  <dt>Analysis run</dt>
+                  <dd>#{entry.runId}</dd>
+                </>
+              )}
+              <dt>Details</dt>
+              <dd>
+                <pre>{JSON.stringify(entry.detail, null, 2)}</pre>
+              </dd>
+              <dt>Hash</dt>
+              <dd className="hash">{entry.hash}</dd>
+              <dt>Operating-system user</dt>
+              <dd>{entry.actorUser}</dd>
+            </dl>
+          </td>
+        </tr>
+      )}
+    </>
   );
 }
