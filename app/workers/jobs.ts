@@ -1,5 +1,6 @@
 import { EngineError } from '../engine/errors.ts';
 import { type ItemAnalysis, type ItemAnalysisInput, analyseItems } from '../engine/reliability.ts';
+import { readDataFileJob } from '../phases/pilot-read.ts';
 
 type AnalysisJobInput = Omit<ItemAnalysisInput, 'bootstrap'> & {
   bootstrap?: { resamples: number; seed: number };
@@ -23,7 +24,7 @@ export interface JobContext {
 
 /**
  * Every long computation that runs off the main thread, by name. A job is a pure engine call on
- * plain data (structured-clonable in and out); it never touches the study file.
+ * plain data (structured-clonable in and out), or a promise of one; it never touches the study file.
  */
 export const JOBS = {
   /** One purification round, with its bootstrap when asked (the slow part). */
@@ -82,8 +83,10 @@ export const JOBS = {
       }),
     };
   },
+  /** Reads and checks a data file for import (parse, validate, compact columns); nothing is stored. */
+  'import.read': readDataFileJob,
 } satisfies Record<string, (input: never, ctx: JobContext) => unknown>;
 
 export type JobName = keyof typeof JOBS;
 export type JobInput<K extends JobName> = Parameters<(typeof JOBS)[K]>[0];
-export type JobOutput<K extends JobName> = ReturnType<(typeof JOBS)[K]>;
+export type JobOutput<K extends JobName> = Awaited<ReturnType<(typeof JOBS)[K]>>;

@@ -1,6 +1,6 @@
 import { parentPort, workerData } from 'node:worker_threads';
 import { EngineError } from '../engine/errors.ts';
-import { JOBS, type JobName } from './jobs.ts';
+import { type JobContext, JOBS, type JobName } from './jobs.ts';
 
 /** Runs one job in a worker thread; progress and the result go back as messages. */
 interface Start {
@@ -15,23 +15,27 @@ const PROGRESS_INTERVAL_MS = 100;
 const { job, input, stop } = workerData as Start;
 const flag = new Int32Array(stop);
 let lastReport = 0;
-try {
-  const run = JOBS[job] as (input: unknown, ctx: import('./jobs.ts').JobContext) => unknown;
-  if (!run) throw new EngineError(`there is no job named "${job}"`);
-  const value = run(input, {
-    progress(done, total) {
-      const now = Date.now();
-      if (now - lastReport < PROGRESS_INTERVAL_MS && done !== total) return;
-      lastReport = now;
-      parentPort?.postMessage({ type: 'progress', done, total });
-    },
-    shouldStop: () => Atomics.load(flag, 0) === 1,
+const context: JobContext = {
+  progress(done, total) {
+    const now = Date.now();
+    if (now - lastReport < PROGRESS_INTERVAL_MS && done !== total) return;
+    lastReport = now;
+    parentPort?.postMessage({ type: 'progress', done, total });
+  },
+  shouldStop: () => Atomics.load(flag, 0) === 1,
+};
+// A job may return a promise (reading a file is asynchronous); the result is posted once it settles.
+Promise.resolve()
+  .then(() => {
+    const run = JOBS[job] as (input: unknown, ctx: JobContext) => unknown;
+    if (!run) throw new EngineError(`there is no job named "${job}"`);
+    return run(input, context);
+  })
+  .then((value) => parentPort?.postMessage({ type: 'done', value }))
+  .catch((error) => {
+    const e = error as Error & { code?: string };
+    parentPort?.postMessage({
+      type: 'failed',
+      error: { name: e.name, message: e.message, code: e instanceof EngineError ? e.code : 'internal' },
+    });
   });
-  parentPort?.postMessage({ type: 'done', value });
-} catch (error) {
-  const e = error as Error & { code?: string };
-  parentPort?.postMessage({
-    type: 'failed',
-    error: { name: e.name, message: e.message, code: e instanceof EngineError ? e.code : 'internal' },
-  });
-}
