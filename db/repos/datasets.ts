@@ -12,6 +12,10 @@ export interface DatasetReading {
   missingCodes: unknown;
   scaleBounds?: { min: number; max: number };
   header: string[];
+  /** 'workbook' for an .xlsx file (then `sheet` names the sheet read); delimited text otherwise. */
+  kind?: 'delimited' | 'workbook';
+  sheet?: string;
+  quoteChar?: string;
 }
 
 export interface DatasetSummary {
@@ -207,4 +211,34 @@ export function currentExclusions(
   for (const r of rows)
     if (r.excluded === 1) out.set(r.respondent, { reason: r.reason, rule: r.rule, decidedAt: r.decidedAt });
   return out;
+}
+
+export interface ExclusionRecord extends ExclusionDecision {
+  id: number;
+  decidedAt: string;
+}
+
+/** Every exclusion decision on a dataset, oldest first (the history behind currentExclusions). */
+export function listExclusionDecisions(study: Study, datasetId: number): ExclusionRecord[] {
+  return (
+    study.db
+      .prepare(
+        'SELECT id, respondent, excluded, reason, rule, decided_at AS decidedAt FROM respondent_exclusion WHERE dataset_id = ? ORDER BY id',
+      )
+      .all(datasetId) as {
+      id: number;
+      respondent: number;
+      excluded: number;
+      reason: string;
+      rule: string | null;
+      decidedAt: string;
+    }[]
+  ).map((r) => ({
+    id: r.id,
+    respondent: r.respondent,
+    excluded: r.excluded === 1,
+    reason: r.reason,
+    ...(r.rule === null ? {} : { rule: r.rule }),
+    decidedAt: r.decidedAt,
+  }));
 }
