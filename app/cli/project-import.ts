@@ -1,0 +1,280 @@
+import { readFile } from 'node:fs/promises';
+import path from 'node:path';
+import { z } from 'zod';
+import { Study } from '../../db/study.ts';
+import type { ColumnMapping, ColumnRole } from '../import/mapping.ts';
+import { type MissingCodes, parseNumber } from '../import/numbers.ts';
+import { TableError } from '../import/table-error.ts';
+import { currentActor } from '../launch/user-data.ts';
+import {
+  automaticMapping,
+  checkRead,
+  DATASET_ROLES,
+  type ImportCheck,
+  MAX_DATASET_NAME,
+  planImport,
+  respondentCount,
+  storeImport,
+} from '../phases/pilot.ts';
+import { type ImportRead, readDataFile } from '../phases/pilot-read.ts';
+import { RuleError } from '../phases/errors.ts';
+import { parseStrict, resolveUserPath } from './main.ts';
+import { formatTable } from './table.ts';
+import { type CliContext, DataError, UsageError } from './types.ts';
+
+/**
+ * `project import FILE --data CSV --role pilot|validation|retest [--map map.json] [--json]`: reads a
+ * data file (CSV, TSV or .xlsx) into the study through the same steps as the import screen: item
+ * columns matched to the pool by code, id and duration columns by their usual names, the map file's
+ * roles, codes and reading settings on top; declared bounds from the study's response format; one
+ * transaction with its log row. A file with problems (text in a numeric column, values outside the
+ * scale) is refused unless the map file says "acceptProblems": true.
+ *
+ * The map file (all keys optional):
+ *
+ *     { "name": "Spring pilot",
+ *       "columns": { "resp": "id", "q1": { "item": "TR01" }, "att": { "attention": "4" },
+ *                    "trips": "criterion", "district": "group", "code": "retestLink",
+ *                    "secs": "duration", "notes": "ignored" },
+ *       "missing": [-9, "NA"],
+ *       "delimiter": ";", "encoding": "windows-1252", "decimalMark": ",", "sheet": "Responses",
+ *       "acceptProblems": false }
+ */
+
+const CLI_APP = 'the Scalewright command line';
+
+const SIMPLE_ROLES = ['id', 'criterion', 'group', 'retestLink', 'duration', 'ignored'] as const;
+
+const roleSpec = z.union(
+  [
+    z.enum(SIMPLE_ROLES),
+    z.strictObject({ item: z.string().trim().min(1) }),
+    z.strictObject({ attention: z.union([z.string().trim().min(1), z.number()]) }),
+    z.strictObject({ role: z.enum(SIMPLE_ROLES) }),
+    z.strictObject({ role: z.literal('item'), itemCode: z.string().trim().min(1) }),
+    z.strictObject({ role: z.literal('attention'), correctAnswer: z.string().trim().min(1) }),
+  ],
+  {
+    error: `give a role: one of ${SIMPLE_ROLES.map((r) => `"${r}"`).join(', ')}, or {"item": "CODE"}, or {"attention": "CORRECT ANSWER"}`,
+  },
+);
+
+const mapSchema = z.strictObject({
+  name: z.string().max(MAX_DATASET_NAME).optional(),
+  columns: z.record(z.string(), roleSpec).optional(),
+  missing: z.array(z.union([z.string(), z.number()])).optional(),
+  delimiter: z.string().min(1).optional(),
+  encoding: z.string().min(1).optional(),
+  decimalMark: z.enum(['.', ',']).optional(),
+  sheet: z.string().min(1).optional(),
+  acceptProblems: z.boolean().optional(),
+});
+
+type MapFile = z.output<typeof mapSchema>;
+
+function toRole(spec: z.output<typeof roleSpec>): ColumnRole {
+  if (typeof spec === 'string') return { role: spec };
+  if ('item' in spec) return { role: 'item', itemCode: spec.item };
+  if ('attention' in spec) return { role: 'attention', correctAnswer: String(spec.attention) };
+  return spec;
+}
+
+/** Missing-value codes as written in the map file: numbers (or number-like text) and text codes. */
+export function missingCodesOf(list: readonly (string | number)[]): MissingCodes {
+  const codes: MissingCodes = { text: [], numeric: [] };
+  for (const entry of list) {
+    if (typeof entry === 'number') {
+      codes.numeric.push(entry);
+      continue;
+    }
+    const value = parseNumber(entry.trim(), '.');
+    if (value === undefined) codes.text.push(entry);
+    else codes.numeric.push(value);
+  }
+  return codes;
+}
+
+async function readBytes(file: string, what: string): Promise<Uint8Array> {
+  try {
+    return await readFile(file);
+  } catch (error) {
+    const code = (error as NodeJS.ErrnoException).code;
+    const reason =
+      code === 'ENOENT'
+        ? 'no such file'
+        : code === 'EISDIR'
+          ? 'it is a folder, not a file'
+          : code === 'EACCES'
+            ? 'permission denied'
+            : (code ?? 'unreadable');
+    throw new DataError(`cannot read ${what} "${file}": ${reason}`);
+  }
+}
+
+async function readMap(file: string): Promise<MapFile> {
+  const bytes = await readBytes(file, 'map file');
+  let raw: unknown;
+  try {
+    raw = JSON.parse(new TextDecoder().decode(bytes));
+  } catch (error) {
+    throw new UsageError(`map file "${file}" is not JSON: ${(error as Error).message}`);
+  }
+  const parsed = mapSchema.safeParse(raw);
+  if (!parsed.success) {
+    const issue = parsed.error.issues[0];
+    const where = issue.path.length > 0 ? issue.path.join('.') : 'the top level';
+    throw new UsageError(`map file "${file}", at ${where}: ${issue.message}`);
+  }
+  return parsed.data;
+}
+
+function option(values: Record<string, unknown>, name: string): string | undefined {
+  const value = values[name];
+  if (value === true) throw new UsageError(`--${name} needs a value`);
+  return typeof value === 'string' ? value : undefined;
+}
+
+function describeColumns(check: ImportCheck): string {
+  const count = (role: string) => check.columns.filter((c) => c.role === role).length;
+  const some = (role: string, one: string, many: string) =>
+    `${count(role)} ${count(role) === 1 ? one : many}`;
+  const parts = [
+    some('item', 'item', 'items'),
+    count('id') > 0 ? `id '${check.columns.find((c) => c.role === 'id')?.name}'` : 'no id column',
+    some('criterion', 'criterion', 'criteria'),
+    some('group', 'group variable', 'group variables'),
+    some('attention', 'attention check', 'attention checks'),
+    count('duration') > 0 ? 'a duration' : 'no duration',
+    count('retestLink') > 0 ? 'a retest link' : 'no retest link',
+    `${count('ignored')} ignored`,
+  ];
+  return parts.join(', ');
+}
+
+export async function importCommand(args: string[], ctx: CliContext): Promise<number> {
+  const values = parseStrict(
+    args,
+    {
+      data: { type: 'string' },
+      role: { type: 'string' },
+      map: { type: 'string' },
+      json: { type: 'boolean' },
+    },
+    1,
+  );
+  const studyFile = values._[0];
+  if (!studyFile) throw new UsageError('project import needs the study FILE');
+  const data = option(values, 'data');
+  if (data === undefined)
+    throw new UsageError('project import needs --data FILE (a CSV, TSV or .xlsx data file)');
+  const role = option(values, 'role');
+  if (role === undefined || !(DATASET_ROLES as readonly string[]).includes(role)) {
+    throw new UsageError(
+      `project import needs --role pilot, validation or retest${role === undefined ? '' : ` (got "${role}")`}`,
+    );
+  }
+  const mapPath = option(values, 'map');
+  const map: MapFile = mapPath === undefined ? {} : await readMap(resolveUserPath(mapPath, ctx));
+  const dataPath = resolveUserPath(data, ctx);
+  const bytes = await readBytes(dataPath, 'data file');
+  const fileName = path.basename(dataPath);
+  const study = Study.open(resolveUserPath(studyFile, ctx), { actor: currentActor(), app: CLI_APP });
+  try {
+    const overrides: ColumnMapping = Object.fromEntries(
+      Object.entries(map.columns ?? {}).map(([column, spec]) => [column, toRole(spec)]),
+    );
+    const { plan, read } = planImport(study, bytes, {
+      fileName,
+      role: role as (typeof DATASET_ROLES)[number],
+      name: map.name,
+      mapping: automaticMapping(study, overrides),
+      missingCodes: missingCodesOf(map.missing ?? []),
+      reading: {
+        ...(map.delimiter === undefined ? {} : { delimiter: map.delimiter }),
+        ...(map.encoding === undefined ? {} : { encoding: map.encoding }),
+        ...(map.decimalMark === undefined ? {} : { decimalMark: map.decimalMark }),
+        ...(map.sheet === undefined ? {} : { sheet: map.sheet }),
+      },
+    });
+    let result: ImportRead;
+    try {
+      result = await readDataFile(read);
+    } catch (error) {
+      if (error instanceof TableError) throw new DataError(`${data}: ${error.message}`);
+      throw error;
+    }
+    const check = checkRead(study, plan, result);
+    let datasetId: number;
+    try {
+      datasetId = storeImport(study, plan, result, bytes, { acceptProblems: map.acceptProblems === true });
+    } catch (error) {
+      if (error instanceof RuleError && error.code === 'problems') {
+        throw new DataError(
+          `${error.message.replace(/\. Declare missing-value codes.*$/, '')}; declare missing-value codes in the map file ("missing": [-9, "NA"]), or set "acceptProblems": true there to import the values as they are`,
+        );
+      }
+      throw error;
+    }
+    const warnings = [
+      ...check.warnings,
+      ...check.problems.map((p) => p.message),
+      ...(check.poolItemsWithoutColumn.length > 0
+        ? [`no column answers pool item(s) ${check.poolItemsWithoutColumn.join(', ')}`]
+        : []),
+      ...check.alreadyImported.map(
+        (d) => `the same file (same SHA-256) was imported before as dataset ${d.id} "${d.name}" (${d.role})`,
+      ),
+    ];
+    const json = {
+      path: study.path,
+      datasetId,
+      role: check.role,
+      name: check.name,
+      fileName: check.fileName,
+      sha256: check.sha256,
+      bytes: check.byteLength,
+      kind: check.kind,
+      sheet: check.sheet ?? null,
+      encoding: check.encoding,
+      delimiter: check.delimiterName,
+      decimalMark: check.decimalMark,
+      respondents: check.respondents,
+      excluded: 0,
+      columns: check.columns,
+      missingCodes: check.missingCodes,
+      bounds: check.bounds,
+      problemCount: check.problemCount,
+      problems: check.problems,
+      logRows: study.log.count(),
+      warnings,
+    };
+    if (values.json === true) {
+      process.stdout.write(`${JSON.stringify(json)}\n`);
+    } else {
+      const codes = ['blank', ...check.missingCodes.numeric.map(String), ...check.missingCodes.text];
+      const lines = [
+        `imported ${check.role} data "${check.name}" into ${study.path} as dataset ${datasetId}`,
+        `file: ${check.fileName}, ${check.byteLength} bytes, SHA-256 ${check.sha256}`,
+        `read as: ${check.kind === 'workbook' ? `sheet "${check.sheet}"` : `${check.encoding}, ${check.delimiterName}-separated`}, decimal ${check.decimalMark === '.' ? 'point' : 'comma'}`,
+        `${respondentCount(check.respondents, 0)}; columns: ${describeColumns(check)}`,
+        `missing-value codes: ${codes.join(', ')}; declared scale ${check.bounds.min} to ${check.bounds.max}`,
+        '',
+        formatTable(
+          ['column', 'role', 'item', 'missing'],
+          check.columns.map((c) => [
+            c.name,
+            c.role,
+            c.itemCode ?? '',
+            c.missing === undefined ? '' : String(c.missing),
+          ]),
+          ['left', 'left', 'left', 'right'],
+        ),
+      ];
+      process.stdout.write(`${lines.join('\n')}\n`);
+      for (const w of warnings) process.stderr.write(`warning: ${w}\n`);
+    }
+    return 0;
+  } finally {
+    study.close();
+  }
+}
