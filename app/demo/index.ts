@@ -2,6 +2,7 @@ import { signOffPhase } from '../phases/index.ts';
 import type { Study } from '../../db/study.ts';
 import { fillDemoConstruct } from './construct.ts';
 import { fillDemoItems } from './items.ts';
+import { fillDemoPilot } from './pilot.ts';
 import { fillDemoReview } from './review.ts';
 
 /** The demo's log rows are signed by the generator, not by the person who ran it. */
@@ -25,6 +26,7 @@ export function fillDemoStudy(study: Study): void {
     );
     fillDemoItems(study);
     fillDemoReview(study);
+    fillDemoPilot(study);
   } finally {
     study.actor = researcher;
   }
