@@ -3,6 +3,7 @@ import type { Study } from '../../db/study.ts';
 import { fillDemoConstruct } from './construct.ts';
 import { fillDemoItems } from './items.ts';
 import { fillDemoPilot } from './pilot.ts';
+import { fillDemoPurification } from './purification.ts';
 import { fillDemoReview } from './review.ts';
 
 /** The demo's log rows are signed by the generator, not by the person who ran it. */
@@ -27,6 +28,7 @@ export function fillDemoStudy(study: Study): void {
     fillDemoItems(study);
     fillDemoReview(study);
     fillDemoPilot(study);
+    fillDemoPurification(study);
   } finally {
     study.actor = researcher;
   }

@@ -17,7 +17,7 @@ export function ReliabilityPanel({ detail }: { detail: RoundDetail }) {
       title={`Reliability, round ${summary.number}`}
       aside={
         <span className="muted">
-          based on {plural(scale.n, 'respondent')} after {plural(summary.excluded, 'exclusion')} · {missing}
+          n = {scale.n} · {missing}
         </span>
       }
     >
@@ -28,6 +28,12 @@ export function ReliabilityPanel({ detail }: { detail: RoundDetail }) {
           <Band value={scale.alpha} />
         </div>
         <p className="headline-detail">
+          Based on {plural(scale.n, 'respondent')} after {plural(summary.excluded, 'exclusion')} (
+          {summary.respondentsInFile} in the file
+          {scale.missingData.dropped > 0 &&
+            `; ${scale.missingData.dropped} more left out with missing answers`}
+          ).
+          <br />
           {level}% CI {coef(scale.alphaCI.lower)} to {coef(scale.alphaCI.upper)} (Feldt)
           {scale.bootstrapCI && (
             <>
@@ -36,7 +42,7 @@ export function ReliabilityPanel({ detail }: { detail: RoundDetail }) {
               {scale.bootstrapCI.resamples} resamples, seed {scale.bootstrapCI.seed})
             </>
           )}
-          <br />k = {scale.k} items · n = {scale.n} · {scale.missingData.description}
+          <br />k = {scale.k} items · {scale.missingData.description}
         </p>
       </div>
       <dl className="stat-grid">
@@ -69,7 +75,7 @@ export function ReliabilityPanel({ detail }: { detail: RoundDetail }) {
           <dd>{num(scale.measurementError?.mdc95)}</dd>
         </div>
         <div>
-          <dt>Split-half (Spearman–Brown)</dt>
+          <dt title="Odd–even split-half correlation stepped up with Spearman–Brown">Split-half (S–B)</dt>
           <dd>{coef(scale.splitHalf?.spearmanBrown)}</dd>
         </div>
       </dl>

@@ -1,17 +1,23 @@
 import { readFileSync } from 'node:fs';
 import path from 'node:path';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
+import { fillDemoStudy } from '../../../app/demo/index.ts';
+import { DEMO_OFF_DOMAIN_ITEM } from '../../../app/demo/items.ts';
+import { DEMO_STRAIGHT_LINERS } from '../../../app/demo/pilot.ts';
 import { streamDataset } from '../../../app/import/stream-dataset.ts';
 import { analysisData } from '../../../app/phases/analysis-data.ts';
 import { addFacet } from '../../../app/phases/construct.ts';
 import { RuleError } from '../../../app/phases/errors.ts';
-import { phaseOverview, signOffPhase } from '../../../app/phases/index.ts';
+import { phaseOverview, reopenPhase, signOffPhase } from '../../../app/phases/index.ts';
+import { includeRespondents } from '../../../app/phases/pilot.ts';
 import {
+  currentPilot,
   decideItem,
   decisionViews,
   prepareRound,
   purificationView,
   reverseDecision,
+  type RoundSummary,
   roundDetail,
   roundSummaries,
   runRound,
@@ -19,7 +25,7 @@ import {
 } from '../../../app/phases/purification.ts';
 import { JOBS } from '../../../app/workers/jobs.ts';
 import { getRun } from '../../../db/repos/analysis-runs.ts';
-import { insertDataset, insertExclusions } from '../../../db/repos/datasets.ts';
+import { currentExclusions, insertDataset, insertExclusions } from '../../../db/repos/datasets.ts';
 import { insertItem } from '../../../db/repos/items.ts';
 import { setPhaseStatus } from '../../../db/repos/phase-state.ts';
 import { listDecisions, listRounds } from '../../../db/repos/purification.ts';
@@ -540,5 +546,55 @@ describe('decisions and the next round', () => {
       met: false,
       detail: 'round 1 ran before the pilot data or its exclusions changed: run a new round',
     });
+  });
+});
+
+describe('the demo study', () => {
+  let demo: Study;
+  let demoDir: ReturnType<typeof tempDir>;
+  beforeEach(() => {
+    demoDir = tempDir();
+    demo = Study.create(
+      path.join(demoDir.dir, 'demo.scalewright'),
+      { actor: TEST_ACTOR, app: 'test' },
+      {
+        init: fillDemoStudy,
+      },
+    );
+  });
+  afterEach(() => {
+    demo.close();
+    demoDir.cleanup();
+  });
+
+  it('shows the planted off-domain item: low corrected item-total, alpha rises without it; dropped with both reasons', () => {
+    const [first, second] = roundSummaries(demo);
+    const od = roundDetail(demo, first.id).rows.find((r) => r.code === DEMO_OFF_DOMAIN_ITEM);
+    expect(od?.flags.map((f) => f.rule)).toEqual(expect.arrayContaining(['low-item-total', 'alpha-rises']));
+    expect(od?.stats.alphaIfDeleted as number).toBeGreaterThan(first.alpha);
+    expect(second.left).toEqual([DEMO_OFF_DOMAIN_ITEM]);
+    expect(second.alpha).toBeGreaterThan(first.alpha);
+    const [drop] = decisionViews(demo);
+    expect(drop).toMatchObject({ action: 'drop', roundNumber: 1, statisticsOnly: false, inForce: true });
+    expect(drop.domainRationale).toMatch(/construct excludes/);
+    expect(drop.statisticalRationale).toContain(`alpha would rise from ${first.alpha.toFixed(3).slice(1)}`);
+  });
+
+  it('shows how the straight-liners change the item statistics when they are brought back', () => {
+    const pilot = currentPilot(demo);
+    if (!pilot) throw new Error('the demo has no pilot data');
+    const excluded = [...currentExclusions(demo, pilot.id).keys()];
+    expect(excluded).toHaveLength(DEMO_STRAIGHT_LINERS);
+    const before = roundSummaries(demo).at(-1) as RoundSummary;
+    reopenPhase(demo, 'pilot', 'checking what the straight-liners do to the item statistics');
+    includeRespondents(demo, pilot.id, { respondents: excluded, reason: 'comparison for the team' });
+    const after = runRound(demo, { bootstrap: null });
+    expect(after.n).toBe(before.n + DEMO_STRAIGHT_LINERS);
+    const r = (id: number) =>
+      new Map(roundDetail(demo, id).rows.map((row) => [row.code, row.stats.correctedItemTotal as number]));
+    const [rBefore, rAfter] = [r(before.id), r(after.id)];
+    // One identical answer to every item inflates every item-rest correlation.
+    for (const [code, value] of rAfter) expect(value, code).toBeGreaterThan(rBefore.get(code) as number);
+    expect(after.alpha).toBeGreaterThan(before.alpha);
   });
 });

@@ -1,0 +1,116 @@
+import path from 'node:path';
+import type { Page } from '@playwright/test';
+import { expect, SCREENSHOTS, test } from './fixtures.ts';
+
+/** The demo's planted off-domain item (app/demo/items.ts). */
+const OFF_DOMAIN = 'TR09';
+
+async function headlineAlpha(page: Page): Promise<number> {
+  const text = (await page.locator('[data-testid="round-alpha"] .headline-value').textContent()) ?? '';
+  return Number(text.replace('\u2212', '-'));
+}
+
+async function runNextRound(page: Page, number: number): Promise<void> {
+  await page.getByRole('button', { name: `Run round ${number}` }).click();
+  await expect(page.getByRole('button', { name: `Round ${number}`, exact: false }).first()).toBeVisible({
+    timeout: 30_000,
+  });
+  await expect(page.locator('.round-tab.active')).toContainText(`Round ${number}`);
+  await expect(page.locator('.panel-head h2', { hasText: `Reliability, round ${number}` })).toBeVisible();
+}
+
+test('runs purification rounds on the demo: the weak item leaves with its reasons, alpha and the history follow', async ({
+  page,
+  app,
+}) => {
+  await page.goto(app.url);
+  await page.locator('.sidebar a[href="#/phase/purification"]').click();
+
+  // The demo's two rounds are there: the off-domain item left after round 1.
+  await expect(page.locator('.round-tab')).toHaveCount(2);
+  await expect(page.locator('.round-tab.active')).toContainText('Round 2');
+  const history = page.locator('.history-table tbody tr');
+  await expect(history.nth(1)).toContainText(OFF_DOMAIN);
+  await expect(page.locator('.departures tbody tr')).toHaveCount(1);
+  await expect(
+    page.locator('.headline-detail', {
+      hasText:
+        /Based on \d+ respondents after 12 exclusions \(480 in the file; \d+ more left out with missing answers\)/,
+    }),
+  ).toBeVisible();
+
+  // Round 1 shows the planted problem: a flagged, low corrected item-total, and alpha rises without it.
+  await page.locator('.round-tab', { hasText: 'Round 1' }).click();
+  await expect(page.locator('.panel-head h2', { hasText: 'Reliability, round 1' })).toBeVisible();
+  const odRow = page.locator('.item-table tbody tr', {
+    has: page.getByRole('button', { name: `Item ${OFF_DOMAIN}` }),
+  });
+  await expect(odRow.locator('.flag')).toContainText(['low r', 'α rises']);
+  await page.getByLabel('Group by facet').uncheck();
+  await page.getByRole('button', { name: 'Corrected item-total r' }).click();
+  await expect(page.locator('.item-table tbody tr').first()).toContainText(OFF_DOMAIN);
+  await page.mouse.move(0, 0);
+  await page.screenshot({ path: path.join(SCREENSHOTS, 'purification-round1.png'), fullPage: true });
+
+  // Restore it (reversing the demo's drop) and run round 3: it is back, and alpha falls.
+  await page.locator('.round-tab', { hasText: 'Round 2' }).click();
+  const alpha2 = await headlineAlpha(page);
+  await page.locator('.departures').getByRole('button', { name: 'Restore…' }).click();
+  await page
+    .getByLabel(`Domain reason for reversing the drop of ${OFF_DOMAIN}`)
+    .fill('The team wants to see the item once more beside the traffic items before deciding for good.');
+  await page.locator('.departures').getByRole('button', { name: 'Restore', exact: true }).click();
+  await expect(page.locator('.pending-note')).toContainText('1 decision since round 2: run round 3');
+  await runNextRound(page, 3);
+  const alpha3 = await headlineAlpha(page);
+  expect(alpha3).toBeLessThan(alpha2);
+  await expect(page.locator('.history-table tbody tr').nth(2)).toContainText(`back: ${OFF_DOMAIN}`);
+
+  // Drop it again from the workbench, with both reasons, beside the facet's definition.
+  await page.getByRole('button', { name: `Item ${OFF_DOMAIN}` }).click();
+  const panel = page.locator('.decision-panel');
+  await expect(panel.locator('h2')).toContainText(`Item ${OFF_DOMAIN}`);
+  await expect(panel.locator('.facet-definition')).toContainText('Confidence in traffic');
+  await page
+    .locator('#rationale-domain')
+    .fill(
+      'An opinion about cars in the city centre, not the respondent’s belief in their own riding among traffic; outside the construct.',
+    );
+  await page
+    .locator('#rationale-statistics')
+    .fill('Lowest corrected item-total r of the round; alpha rises without it.');
+  await page.getByRole('button', { name: 'Drop', exact: true }).click();
+  await expect(panel.locator('.done-note')).toContainText(
+    `Dropped ${OFF_DOMAIN}. The next round starts from this decision.`,
+  );
+  await expect(page.locator('.item-table tbody tr.dropped')).toContainText(OFF_DOMAIN);
+  await page.mouse.move(0, 0);
+  await panel.screenshot({ path: path.join(SCREENSHOTS, 'purification-decision.png') });
+
+  await runNextRound(page, 4);
+  const alpha4 = await headlineAlpha(page);
+  expect(alpha4).toBeGreaterThan(alpha3);
+  const rounds = page.locator('.history-table tbody tr');
+  await expect(rounds).toHaveCount(4);
+  await expect(rounds.nth(3)).toContainText(OFF_DOMAIN);
+  await expect(rounds.nth(3)).toContainText(alpha4.toFixed(3).replace(/^0/, ''));
+  const departures = page.locator('.departures tbody tr');
+  await expect(departures).toHaveCount(2);
+  await expect(departures.nth(0)).toContainText('restored later');
+  await expect(departures.nth(1)).toContainText('Round 3');
+  await expect(page.locator('figure[aria-label="Alpha across rounds"] .recharts-line-dot')).toHaveCount(4);
+  await page.mouse.move(0, 0);
+  await page.screenshot({ path: path.join(SCREENSHOTS, 'purification.png'), fullPage: true });
+  await page.locator('.panel', { hasText: 'Alpha across rounds' }).screenshot({
+    path: path.join(SCREENSHOTS, 'purification-history.png'),
+  });
+
+  // The decisions are in the decision log, each with both reasons.
+  await page.locator('.sidebar a[href="#/log"]').click();
+  const latest = page.locator('.log-table tbody tr');
+  await expect(latest.first()).toContainText('purification round 4');
+  await expect(latest.nth(1)).toContainText('item dropped');
+  await expect(latest.nth(1)).toContainText('Domain: An opinion about cars');
+  await expect(latest.nth(1)).toContainText('Statistics: Lowest corrected item-total r');
+  await expect(latest.nth(3)).toContainText('item restored');
+});
