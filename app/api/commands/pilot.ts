@@ -184,7 +184,11 @@ export const pilotCommands = {
 
   /** Stores the checked read in one transaction with its log row. */
   'pilot.confirmImport': command(
-    z.object({ readId: text(64), acceptProblems: z.boolean().default(false) }),
+    z.object({
+      readId: text(64),
+      acceptProblems: z.boolean().default(false),
+      name: text(MAX_DATASET_NAME).trim().optional(),
+    }),
     (s, input) => {
       const staged = staging.get(s);
       const checked = staged?.checked;
@@ -195,16 +199,12 @@ export const pilotCommands = {
         );
       }
       stagedFile(s, staged.id);
-      const datasetId = storeImport(s.study, checked.plan, checked.read, staged.bytes, {
+      const plan = input.name ? { ...checked.plan, name: input.name } : checked.plan;
+      const datasetId = storeImport(s.study, plan, checked.read, staged.bytes, {
         acceptProblems: input.acceptProblems,
       });
       staging.delete(s);
-      return {
-        datasetId,
-        name: checked.plan.name,
-        role: checked.plan.role,
-        respondents: checked.read.dataset.n,
-      };
+      return { datasetId, name: plan.name, role: plan.role, respondents: checked.read.dataset.n };
     },
   ),
 
