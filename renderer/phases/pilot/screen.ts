@@ -1,4 +1,5 @@
 import type { ReactElement } from 'react';
+import { PilotScreen } from './PilotScreen.tsx';
 
-/** This phase's screen, once it exists (see renderer/app/phase-screens.ts). */
-export const pilotScreen: (() => ReactElement) | undefined = undefined;
+/** This phase's screen (see renderer/app/phase-screens.ts). */
+export const pilotScreen: (() => ReactElement) | undefined = PilotScreen;
