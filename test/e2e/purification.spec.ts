@@ -54,6 +54,7 @@ test('runs purification rounds on the demo: the weak item leaves with its reason
 
   // Restore it (reversing the demo's drop) and run round 3: it is back, and alpha falls.
   await page.locator('.round-tab', { hasText: 'Round 2' }).click();
+  await expect(page.locator('.panel-head h2', { hasText: 'Reliability, round 2' })).toBeVisible();
   const alpha2 = await headlineAlpha(page);
   await page.locator('.departures').getByRole('button', { name: 'Restore…' }).click();
   await page
@@ -85,7 +86,7 @@ test('runs purification rounds on the demo: the weak item leaves with its reason
   );
   await expect(page.locator('.item-table tbody tr.dropped')).toContainText(OFF_DOMAIN);
   await page.mouse.move(0, 0);
-  await panel.screenshot({ path: path.join(SCREENSHOTS, 'purification-decision.png') });
+  await page.screenshot({ path: path.join(SCREENSHOTS, 'purification-decision.png') });
 
   await runNextRound(page, 4);
   const alpha4 = await headlineAlpha(page);

@@ -152,10 +152,20 @@ export function DecisionPanel(props: {
 
       {props.history.length > 0 && (
         <div className="item-decisions">
-          <p className="eyebrow">Decisions on this item, newest first</p>
-          {[...props.history].reverse().map((d) => (
-            <DecisionNote key={d.id} decision={d} />
-          ))}
+          <DecisionNote decision={props.history[props.history.length - 1]} />
+          {props.history.length > 1 && (
+            <details className="earlier-decisions">
+              <summary>
+                {props.history.length - 1} earlier decision{props.history.length > 2 ? 's' : ''} on this item
+              </summary>
+              {props.history
+                .slice(0, -1)
+                .reverse()
+                .map((d) => (
+                  <DecisionNote key={d.id} decision={d} />
+                ))}
+            </details>
+          )}
         </div>
       )}
 

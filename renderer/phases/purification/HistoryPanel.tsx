@@ -123,8 +123,10 @@ export function HistoryPanel(props: {
               </td>
               <td className="num">{coef(r.omega)}</td>
               <td>
-                {r.left.length > 0 ? r.left.join(', ') : '—'}
-                {r.returned.length > 0 && <span className="muted"> · back: {r.returned.join(', ')}</span>}
+                {r.left.length > 0 && r.left.join(', ')}
+                {r.left.length > 0 && r.returned.length > 0 && ' · '}
+                {r.returned.length > 0 && <span className="muted">back: {r.returned.join(', ')}</span>}
+                {r.left.length === 0 && r.returned.length === 0 && '—'}
               </td>
             </tr>
           ))}

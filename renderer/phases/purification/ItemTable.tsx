@@ -1,4 +1,4 @@
-import { Fragment, useState } from 'react';
+import { Fragment } from 'react';
 import type { FacetResult, FlagRule, RoundItemRow, RuleOfThumb } from '../../../app/phases/purification.ts';
 import { coef, num, pct } from './format.ts';
 
@@ -54,7 +54,12 @@ const COLUMNS: Column[] = [
     title: 'Alpha of the other items if this one were dropped',
     numeric: true,
   },
-  { key: 'flags', label: 'Flags', title: 'Rules of thumb the item meets (see the legend below)' },
+  {
+    key: 'flags',
+    label: 'Flags',
+    title:
+      'The decision in force (out, kept, moved, back), then the rules of thumb the item meets (legend below)',
+  },
 ];
 
 function sortValue(row: RoundItemRow, key: SortKey, index: number): number | string {
@@ -87,7 +92,15 @@ function sortValue(row: RoundItemRow, key: SortKey, index: number): number | str
   }
 }
 
-const DECISION_WORD = { drop: 'dropped', keep: 'kept', move: 'moved', restore: 'restored' } as const;
+/** How the item table is sorted and whether rows are grouped by facet. */
+export interface TableView {
+  sort: { key: SortKey; descending: boolean };
+  grouped: boolean;
+}
+
+export const INITIAL_TABLE_VIEW: TableView = { sort: { key: 'order', descending: false }, grouped: true };
+
+const DECISION_WORD = { drop: 'out', keep: 'kept', move: 'moved', restore: 'back' } as const;
 
 /**
  * The round's items: descriptives, corrected item-total, alpha if deleted and flags, grouped by
@@ -100,12 +113,14 @@ export function ItemTable(props: {
   rules: readonly RuleOfThumb[];
   selected: string | undefined;
   onSelect(code: string): void;
+  /** How the table is sorted and grouped; kept by the screen so it survives a change of round. */
+  view: TableView;
+  onView(view: TableView): void;
 }) {
-  const [sort, setSort] = useState<{ key: SortKey; descending: boolean }>({
-    key: 'order',
-    descending: false,
-  });
-  const [grouped, setGrouped] = useState(true);
+  const { sort, grouped } = props.view;
+  const setSort = (next: TableView['sort'] | ((now: TableView['sort']) => TableView['sort'])) =>
+    props.onView({ grouped, sort: typeof next === 'function' ? next(sort) : next });
+  const setGrouped = (next: boolean) => props.onView({ sort, grouped: next });
   const statement = new Map(props.rules.map((r) => [r.rule, r]));
   const ordered = props.rows
     .map((row, index) => ({ row, index }))
@@ -230,29 +245,26 @@ function ItemRow(props: {
       className={`${props.selected ? 'selected' : ''} ${row.droppedNow ? 'dropped' : ''}`}
       onClick={() => props.onSelect(row.code)}
     >
-      <td className="nowrap">
-        <button
-          type="button"
-          className="item-code"
-          title={row.text}
-          aria-label={`Item ${row.code}`}
-          onClick={(e) => {
-            e.stopPropagation();
-            props.onSelect(row.code);
-          }}
-        >
-          {row.code}
-        </button>
-        {row.keying === 'reverse' && (
-          <span className="keying" title="Reverse-keyed: scored min + max − x">
-            R
-          </span>
-        )}
-        {row.droppedNow ? (
-          <span className="decision-tag tag-drop">dropped</span>
-        ) : last ? (
-          <span className={`decision-tag tag-${last.action}`}>{DECISION_WORD[last.action]}</span>
-        ) : null}
+      <td>
+        <span className="code-cell">
+          <button
+            type="button"
+            className="item-code"
+            title={row.text}
+            aria-label={`Item ${row.code}`}
+            onClick={(e) => {
+              e.stopPropagation();
+              props.onSelect(row.code);
+            }}
+          >
+            {row.code}
+          </button>
+          {row.keying === 'reverse' && (
+            <span className="keying" title="Reverse-keyed: scored min + max − x">
+              R
+            </span>
+          )}
+        </span>
       </td>
       {props.showFacet && (
         <td className="facet-cell" title={row.facetDefinition}>
@@ -275,6 +287,13 @@ function ItemRow(props: {
       <td className={mark('alpha-rises')}>{coef(s.alphaIfDeleted)}</td>
       <td>
         <span className="flags">
+          {row.droppedNow ? (
+            <span className="decision-tag tag-drop" title="Dropped: not in the next round">
+              out
+            </span>
+          ) : last ? (
+            <span className={`decision-tag tag-${last.action}`}>{DECISION_WORD[last.action]}</span>
+          ) : null}
           {row.flags.map((f) => (
             <span
               key={f.rule}

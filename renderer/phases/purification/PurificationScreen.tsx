@@ -7,7 +7,7 @@ import { AlphaIfDeletedChart, DistributionChart, ItemTotalChart } from './charts
 import { DecisionPanel } from './DecisionPanel.tsx';
 import { plural } from './format.ts';
 import { HistoryPanel } from './HistoryPanel.tsx';
-import { ItemTable } from './ItemTable.tsx';
+import { INITIAL_TABLE_VIEW, ItemTable, type TableView } from './ItemTable.tsx';
 import { ReliabilityPanel } from './ReliabilityPanel.tsx';
 import { RoundRunner } from './RoundRunner.tsx';
 import './purification.css';
@@ -23,6 +23,7 @@ export function PurificationScreen() {
   const construct = useQuery('construct.get', {});
   const [chosenRound, setChosenRound] = useState<number | undefined>(undefined);
   const [selected, setSelected] = useState<string | undefined>(undefined);
+  const [tableView, setTableView] = useState<TableView>(INITIAL_TABLE_VIEW);
   const phase = overview.data?.find((p) => p.id === 'purification');
   const latest = view.data?.rounds.at(-1);
   const roundId = chosenRound ?? latest?.id;
@@ -144,6 +145,8 @@ export function PurificationScreen() {
               decisions={data.decisions}
               locked={locked}
               anchors={construct.data?.construct.anchors ?? []}
+              tableView={tableView}
+              onTableView={setTableView}
             />
           )}
 
@@ -177,10 +180,14 @@ function RoundView(props: {
   decisions: DecisionView[];
   locked: boolean;
   anchors: string[];
+  tableView: TableView;
+  onTableView(view: TableView): void;
 }) {
   const round = useQuery('purification.round', { id: props.roundId });
   if (round.error) return <ErrorNote message={round.error} />;
-  if (!round.data) return <p className="loading">Loading round…</p>;
+  // A query keeps its last answer while the next loads: never show one round's numbers under another's tab.
+  if (!round.data || round.data.summary.id !== props.roundId)
+    return <p className="loading">Loading round…</p>;
   const detail = round.data;
   const row = detail.rows.find((r) => r.code === props.selected) ?? undefined;
   return (
@@ -197,6 +204,8 @@ function RoundView(props: {
             rules={detail.rules}
             selected={props.selected}
             onSelect={props.onSelect}
+            view={props.tableView}
+            onView={props.onTableView}
           />
         </Panel>
         <Panel title="Charts">
