@@ -110,7 +110,7 @@ test('imports the demo pilot file through the wizard, screens it and excludes th
     await shownRows.evaluateAll((trs) => trs.map((tr) => Number(tr.getAttribute('data-row'))))
   ).sort((a, b) => a - b);
   expect(rows).toEqual(demo.straightLinerRows);
-  await expect(shownRows.first().locator('.flag-list')).toContainText(
+  await expect(shownRows.first().locator('.respondent-flags')).toContainText(
     'no variation: the same answer to all 31 answered items',
   );
   await chip.getByRole('button', { name: `Exclude all ${DEMO_STRAIGHT_LINERS}…` }).click();

@@ -21,12 +21,8 @@ function DatasetTable(props: {
           <tr>
             <th>Dataset</th>
             <th>Respondents</th>
-            <th className="num">Items</th>
             <th>Imported</th>
             <th>Screening</th>
-            <th>
-              <span className="visually-hidden">Action</span>
-            </th>
           </tr>
         </thead>
         <tbody>
@@ -37,9 +33,19 @@ function DatasetTable(props: {
               className={d.id === props.selected ? 'selected-row' : undefined}
             >
               <td>
-                <strong>{d.name}</strong>
+                {d.id === props.selected ? (
+                  <strong>{d.name}</strong>
+                ) : (
+                  <button type="button" className="link dataset-open" onClick={() => props.onSelect(d.id)}>
+                    {d.name}
+                  </button>
+                )}
+                <div className="muted small-text">
+                  {d.fileName} · {formatBytes(d.fileSize)} · {plural(d.items, 'item')}
+                </div>
                 <div className="dataset-badges">
                   <span className={`badge role-${d.role}`}>{d.roleLabel}</span>
+                  {d.id === props.selected && <span className="badge shown">shown below</span>}
                   {d.current && (
                     <span
                       className="badge current"
@@ -54,25 +60,21 @@ function DatasetTable(props: {
               <td className="nowrap" data-testid="dataset-counts">
                 {d.counts}
               </td>
-              <td className="num">{d.items}</td>
               <td>
-                <span className="nowrap">{formatTime(d.importedAt)}</span>
+                <span className="nowrap" title={formatTime(d.importedAt)}>
+                  {new Date(d.importedAt).toLocaleDateString(undefined, {
+                    year: 'numeric',
+                    month: 'short',
+                    day: 'numeric',
+                  })}
+                </span>
                 <div className="muted small-text">{d.importedBy}</div>
               </td>
               <td>
                 {d.screening ? (
-                  `${plural(d.screening.flagged, 'flag', 'flagged')} `
+                  `${d.screening.flagged.toLocaleString('en')} flagged`
                 ) : (
                   <span className="muted">not yet</span>
-                )}
-              </td>
-              <td>
-                {d.id === props.selected ? (
-                  <span className="muted nowrap">shown below</span>
-                ) : (
-                  <button type="button" className="link" onClick={() => props.onSelect(d.id)}>
-                    Open
-                  </button>
                 )}
               </td>
             </tr>

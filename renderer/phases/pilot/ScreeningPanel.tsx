@@ -255,7 +255,9 @@ export function ScreeningPanel({ datasetId, locked }: { datasetId: number; locke
                     className="secondary small"
                     onClick={() => setForm({ kind: 'rule', check: c.check })}
                   >
-                    Exclude all {c.flagged - c.excluded}…
+                    {c.excluded === 0
+                      ? `Exclude all ${c.flagged}…`
+                      : `Exclude the ${c.flagged - c.excluded} still in…`}
                   </button>
                 )}
               </div>
@@ -432,7 +434,7 @@ export function ScreeningPanel({ datasetId, locked }: { datasetId: number; locke
                     {r.flags.length === 0 ? (
                       <span className="muted">none</span>
                     ) : (
-                      <ul className="flag-list">
+                      <ul className="respondent-flags">
                         {r.flags.map((f) => (
                           <li key={`${f.check}:${f.reason}`} data-check={f.check}>
                             <strong>{f.label}</strong>: {f.reason.replace(`${f.label}: `, '')}
