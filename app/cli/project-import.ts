@@ -151,6 +151,10 @@ function describeColumns(check: ImportCheck): string {
   return parts.join(', ');
 }
 
+/**
+ * Runs `project import` (see the module comment): exit 0 with the stored dataset's summary, 1 when the
+ * data cannot be imported (with the reason, row and column), 2 for a usage mistake or a malformed map file.
+ */
 export async function importCommand(args: string[], ctx: CliContext): Promise<number> {
   const values = parseStrict(
     args,

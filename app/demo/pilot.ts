@@ -56,6 +56,8 @@ const EARLY_STOP_ITEMS = 10;
 const ATTENTION_SLIP = 0.02;
 /** Genuine respondents who rushed through (about a third of the median time). */
 const GENUINE_SPEEDERS = 3;
+/** Even odds (a changed answer goes up or down one point). */
+const HALF = 0.5;
 /** Chance that a second submission changes an answer by one point. */
 const RESUBMISSION_CHANGES = 0.15;
 /** Chance that a criterion diary was not returned (blank criterion). */
@@ -113,6 +115,24 @@ export const DEMO_GROUP_MODEL = {
 /** Median answering time of genuine respondents, in seconds, and its log-scale spread. */
 const MEDIAN_SECONDS = 420;
 const LOG_SPREAD = 0.3;
+/** Genuine speeders take this share of the median time, plus up to SPEEDER_SPREAD more. */
+const SPEEDER_SHARE = 0.25;
+const SPEEDER_SPREAD = 0.1;
+/** The answers straight-liners repeat (drawn evenly from the list; never the attention check's answer). */
+const STRAIGHT_LINE_VALUES = [1, 2, 3, 3, 5, 5];
+/** Straight-liners take this many seconds, plus up to STRAIGHT_LINE_SPREAD more (whole seconds). */
+const STRAIGHT_LINE_SECONDS = 55;
+const STRAIGHT_LINE_SPREAD = 90;
+/** Random responders take this share of the median time, plus up to RANDOM_SPREAD more. */
+const RANDOM_SHARE = 0.6;
+const RANDOM_SPREAD = 0.5;
+/** Careless respondents leave the trip diary out this often; when returned, it holds this mean number of trips. */
+const CARELESS_DIARY_MISSING = 0.5;
+const CARELESS_TRIPS = 3;
+/** A second submission is quicker than the first by this factor. */
+const RESUBMISSION_SPEED = 0.7;
+/** The retest takes this share of the pilot's median time (the items are familiar). */
+const RETEST_TIME_SHARE = 0.9;
 
 export interface DemoItemTruth {
   code: string;
@@ -313,21 +333,21 @@ export function generateDemoPilot(seed: number = DEMO_PILOT_SEED): DemoPilot {
   }
   for (const i of take(GENUINE_SPEEDERS)) {
     people[i].speeder = true;
-    people[i].seconds = Math.round(MEDIAN_SECONDS * (0.25 + 0.1 * rng.next()));
+    people[i].seconds = Math.round(MEDIAN_SECONDS * (SPEEDER_SHARE + SPEEDER_SPREAD * rng.next()));
   }
   const twice = take(DEMO_DUPLICATE_IDS);
   const retested = take(DEMO_RETEST_RESPONDENTS);
 
   const careless: Respondent[] = [];
   for (let s = 0; s < DEMO_STRAIGHT_LINERS; s++) {
-    const value = [1, 2, 3, 3, 5, 5][rng.int(6)];
+    const value = STRAIGHT_LINE_VALUES[rng.int(STRAIGHT_LINE_VALUES.length)];
     careless.push({
       kind: 'straight-liner',
       factors: null,
       answers: new Array(k).fill(value),
       attention: value,
-      seconds: 55 + rng.int(90),
-      trips: rng.next() < 0.5 ? null : poisson(rng, 3),
+      seconds: STRAIGHT_LINE_SECONDS + rng.int(STRAIGHT_LINE_SPREAD),
+      trips: rng.next() < CARELESS_DIARY_MISSING ? null : poisson(rng, CARELESS_TRIPS),
       group: DEMO_GROUP_MODEL.levels[rng.int(3)],
       stoppedEarly: false,
       speeder: true,
@@ -340,8 +360,8 @@ export function generateDemoPilot(seed: number = DEMO_PILOT_SEED): DemoPilot {
       factors: null,
       answers: Array.from({ length: k }, () => SCALE_MIN + rng.int(SCALE_MAX - SCALE_MIN + 1)),
       attention: SCALE_MIN + rng.int(SCALE_MAX - SCALE_MIN + 1),
-      seconds: Math.round(MEDIAN_SECONDS * (0.6 + 0.5 * rng.next())),
-      trips: rng.next() < 0.5 ? null : poisson(rng, 3),
+      seconds: Math.round(MEDIAN_SECONDS * (RANDOM_SHARE + RANDOM_SPREAD * rng.next())),
+      trips: rng.next() < CARELESS_DIARY_MISSING ? null : poisson(rng, CARELESS_TRIPS),
       group: DEMO_GROUP_MODEL.levels[rng.int(3)],
       stoppedEarly: false,
       speeder: false,
@@ -352,14 +372,14 @@ export function generateDemoPilot(seed: number = DEMO_PILOT_SEED): DemoPilot {
     const first = people[i];
     const answers = first.answers.map((a) =>
       a !== null && rng.next() < RESUBMISSION_CHANGES
-        ? Math.min(SCALE_MAX, Math.max(SCALE_MIN, a + (rng.next() < 0.5 ? -1 : 1)))
+        ? Math.min(SCALE_MAX, Math.max(SCALE_MIN, a + (rng.next() < HALF ? -1 : 1)))
         : a,
     );
     return {
       ...first,
       kind: 'second-submission' as const,
       answers,
-      seconds: Math.round(first.seconds * 0.7),
+      seconds: Math.round(first.seconds * RESUBMISSION_SPEED),
     };
   });
 
@@ -417,7 +437,7 @@ export function generateDemoPilot(seed: number = DEMO_PILOT_SEED): DemoPilot {
       csvLine([
         p.retestCode,
         ...answers.map(coded),
-        Math.round(Math.exp(Math.log(MEDIAN_SECONDS * 0.9) + LOG_SPREAD * retestRng.normal())),
+        Math.round(Math.exp(Math.log(MEDIAN_SECONDS * RETEST_TIME_SHARE) + LOG_SPREAD * retestRng.normal())),
       ]),
     );
   }
