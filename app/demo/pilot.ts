@@ -48,8 +48,8 @@ export const DEMO_RETEST_RESPONDENTS = 90;
 
 /** The code written for an unanswered item. */
 export const DEMO_MISSING_CODE = -9;
-/** Chance that a genuine respondent leaves one item unanswered. */
-const MISSING_SHARE = 0.012;
+/** Chance that a genuine respondent leaves one item unanswered (about 9% of them skip at least one of 31). */
+const MISSING_SHARE = 0.003;
 /** Items left unanswered at the end by a respondent who stopped early (more than 20% of 31). */
 const EARLY_STOP_ITEMS = 10;
 /** Chance that a genuine respondent misses the attention check. */
