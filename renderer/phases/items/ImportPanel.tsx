@@ -4,8 +4,9 @@ import type { ItemSource } from '../../../db/repos/items.ts';
 import { call } from '../../api/client.ts';
 import { ErrorNote, Panel } from '../../shared/components.tsx';
 import { useMutation } from '../../shared/use-command.ts';
-import { formatBytes, readFileBase64 } from './files.ts';
+import { formatBytes, readFileBase64 } from '../../shared/files.ts';
 import { SOURCE_OPTIONS } from './ItemRow.tsx';
+import { FileNotes } from '../../shared/file-notes.tsx';
 
 type Preview = CommandOutput<'items.previewImport'>;
 
@@ -92,20 +93,7 @@ export function ImportPanel({ maxBytes, onClose }: { maxBytes: number; onClose()
               ? `${preview.rows.length} item${preview.rows.length === 1 ? '' : 's'} ready to import.`
               : `${preview.problems.length} problem${preview.problems.length === 1 ? '' : 's'} to fix first; nothing will be imported.`}
           </p>
-          {preview.problems.length > 0 && (
-            <ul className="problem-list" aria-label="Problems in the file">
-              {preview.problems.map((p) => (
-                <li key={`${p.row}-${p.column}-${p.message}`}>{p.text}</li>
-              ))}
-            </ul>
-          )}
-          {preview.warnings.length > 0 && (
-            <ul className="warning-list">
-              {preview.warnings.map((w) => (
-                <li key={w}>{w}</li>
-              ))}
-            </ul>
-          )}
+          <FileNotes problems={preview.problems} warnings={preview.warnings} />
           {preview.rows.length > 0 && (
             <div className="preview-scroll">
               <table className="data-table">

@@ -7,7 +7,7 @@ import { call } from '../../api/client.ts';
 import { ErrorNote, Panel } from '../../shared/components.tsx';
 import { PhaseControls } from '../../shared/phase-controls.tsx';
 import { useMutation, useQuery } from '../../shared/use-command.ts';
-import { downloadText } from './files.ts';
+import { downloadText } from '../../shared/files.ts';
 import { ImportPanel } from './ImportPanel.tsx';
 import { ItemRow, SOURCE_OPTIONS } from './ItemRow.tsx';
 import { useLiveWording } from './use-wording.ts';

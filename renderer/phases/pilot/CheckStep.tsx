@@ -1,7 +1,9 @@
 import { useState } from 'react';
 import type { ReadCheck } from '../../../app/api/commands/pilot.ts';
 import { ErrorNote } from '../../shared/components.tsx';
-import { DECIMAL_NAME, formatBytes, plural } from './format.ts';
+import { formatBytes } from '../../shared/files.ts';
+import { plural } from '../../shared/format.ts';
+import { DECIMAL_NAME } from './format.ts';
 
 const ROLE_WORDS: Record<string, [string, string]> = {
   item: ['item', 'items'],

@@ -11,8 +11,7 @@ import { TaskProgress } from '../../shared/task-progress.tsx';
 import { useMutation } from '../../shared/use-command.ts';
 import { CheckStep } from './CheckStep.tsx';
 import { ColumnsStep } from './ColumnsStep.tsx';
-import { readFileBase64 } from './files.ts';
-import { formatBytes } from './format.ts';
+import { formatBytes, readFileBase64 } from '../../shared/files.ts';
 import { type MissingDraft, MissingStep } from './MissingStep.tsx';
 import { PreviewStep } from './PreviewStep.tsx';
 

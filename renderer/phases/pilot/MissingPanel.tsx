@@ -1,6 +1,7 @@
 import type { MissingData } from '../../../app/phases/pilot.ts';
 import { Panel } from '../../shared/components.tsx';
-import { percent, plural } from './format.ts';
+import { plural } from '../../shared/format.ts';
+import { percent } from './format.ts';
 
 /**
  * Missing answers of a dataset, as the analyses see it (the file minus the current exclusions): per

@@ -1,6 +1,7 @@
 import type { DataFilePreview } from '../../../app/phases/pilot.ts';
 import type { ReadSettings } from '../../../app/phases/pilot-read.ts';
-import { DECIMAL_NAME, formatBytes } from './format.ts';
+import { formatBytes } from '../../shared/files.ts';
+import { DECIMAL_NAME } from './format.ts';
 
 const ENCODINGS = ['utf-8', 'windows-1252', 'utf-16le', 'utf-16be'];
 const DELIMITERS = [

@@ -2,7 +2,7 @@ import { useEffect, useState } from 'react';
 import type { DecisionView, RoundDetail, RoundItemRow } from '../../../app/phases/purification.ts';
 import { ErrorNote, formatTime } from '../../shared/components.tsx';
 import { useMutation } from '../../shared/use-command.ts';
-import { coef } from './format.ts';
+import { coef } from '../../shared/format.ts';
 
 type Action = 'drop' | 'keep' | 'move' | 'restore';
 

@@ -3,7 +3,8 @@ import type { DecisionView, RoundSummary } from '../../../app/phases/purificatio
 import { ErrorNote, Panel } from '../../shared/components.tsx';
 import { useMutation } from '../../shared/use-command.ts';
 import { AlphaHistoryChart } from './charts.tsx';
-import { BAND_WORDS, coef, shortDate } from './format.ts';
+import { coef } from '../../shared/format.ts';
+import { BAND_WORDS, shortDate } from './format.ts';
 
 function ReverseAction({ decision, locked }: { decision: DecisionView; locked: boolean }) {
   const reverse = useMutation('purification.reverse');

@@ -1,6 +1,7 @@
 import { Fragment } from 'react';
 import type { FacetResult, FlagRule, RoundItemRow, RuleOfThumb } from '../../../app/phases/purification.ts';
-import { coef, num, pct } from './format.ts';
+import { coef, num } from '../../shared/format.ts';
+import { pct } from './format.ts';
 
 type SortKey =
   | 'order'

@@ -1,7 +1,8 @@
 import type { BandedValue } from '../../../app/engine/reliability/alpha.ts';
 import type { RoundDetail } from '../../../app/phases/purification.ts';
 import { Panel } from '../../shared/components.tsx';
-import { BAND_LEGEND, BAND_WORDS, coef, num, plural } from './format.ts';
+import { coef, num, plural } from '../../shared/format.ts';
+import { BAND_LEGEND, BAND_WORDS } from './format.ts';
 
 function Band({ value }: { value: BandedValue }) {
   return <span className={`band band-${value.band}`}>{BAND_WORDS[value.band]}</span>;

@@ -15,7 +15,7 @@ import {
   YAxis,
 } from 'recharts';
 import type { RoundItemRow, RoundSummary } from '../../../app/phases/purification.ts';
-import { coef, num } from './format.ts';
+import { coef, num } from '../../shared/format.ts';
 
 const INK = '#4a5567';
 const ACCENT = '#2f5d8a';

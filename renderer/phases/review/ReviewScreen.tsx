@@ -3,7 +3,7 @@ import type { CommandOutput } from '../../../app/api/commands.ts';
 import { ErrorNote, Panel } from '../../shared/components.tsx';
 import { PhaseControls } from '../../shared/phase-controls.tsx';
 import { useMutation, useQuery } from '../../shared/use-command.ts';
-import { plural, ratio } from './format.ts';
+import { coef, plural } from '../../shared/format.ts';
 import { ReviewPacket } from './ReviewPacket.tsx';
 import { RatingsPanel, RoundDetail, RoundSummary } from './RoundDetail.tsx';
 import './review.css';
@@ -72,7 +72,7 @@ function ReviewWorkspace() {
                 <span className="round-tab-title">Round {r.number}</span>
                 <span className="round-tab-meta">
                   {plural(r.items.length, 'item')} ·{' '}
-                  {r.report ? `S-CVI/Ave ${ratio(r.report.sCviAve)}` : 'no ratings yet'}
+                  {r.report ? `S-CVI/Ave ${coef(r.report.sCviAve, 2)}` : 'no ratings yet'}
                 </span>
               </button>
             ))}
@@ -221,10 +221,10 @@ function CompareRounds({ comparison }: { comparison: View['comparison'] }) {
                   const flagged = (cell?.flags.length ?? 0) > 0;
                   return [
                     <td key={`${r.number}-i`} className={`num${flagged ? ' cell-flagged' : ''}`}>
-                      {cell === undefined ? '' : ratio(cell?.iCvi)}
+                      {cell === undefined ? '' : coef(cell?.iCvi, 2)}
                     </td>,
                     <td key={`${r.number}-k`} className={`num${flagged ? ' cell-flagged' : ''}`}>
-                      {cell === undefined ? '' : ratio(cell?.modifiedKappa)}
+                      {cell === undefined ? '' : coef(cell?.modifiedKappa, 2)}
                     </td>,
                   ];
                 })}
@@ -236,7 +236,7 @@ function CompareRounds({ comparison }: { comparison: View['comparison'] }) {
               <th>S-CVI/Ave</th>
               {comparison.rounds.map((r) => (
                 <td key={r.number} colSpan={2} className="num">
-                  {ratio(r.sCviAve)}
+                  {coef(r.sCviAve, 2)}
                 </td>
               ))}
             </tr>
@@ -244,7 +244,7 @@ function CompareRounds({ comparison }: { comparison: View['comparison'] }) {
               <th>S-CVI/UA</th>
               {comparison.rounds.map((r) => (
                 <td key={r.number} colSpan={2} className="num">
-                  {ratio(r.sCviUa)}
+                  {coef(r.sCviUa, 2)}
                 </td>
               ))}
             </tr>

@@ -4,8 +4,10 @@ import type { RoundView } from '../../../app/phases/review.ts';
 import { call } from '../../api/client.ts';
 import { ErrorNote, formatTime, Panel, ReasonAction } from '../../shared/components.tsx';
 import { useMutation } from '../../shared/use-command.ts';
-import { downloadText, plural, readFileBase64 } from './format.ts';
+import { downloadText, readFileBase64 } from '../../shared/files.ts';
+import { plural } from '../../shared/format.ts';
 import { StatsPanel } from './StatsPanel.tsx';
+import { FileNotes } from '../../shared/file-notes.tsx';
 
 type Preview = CommandOutput<'review.previewRatings'>;
 
@@ -166,20 +168,7 @@ export function RatingsPanel({ round, maxFileBytes }: { round: RoundView; maxFil
               ? `${plural(preview.ratingCount, 'rating')} from ${plural(preview.experts.length, 'expert')} on ${plural(preview.itemCount, 'item')}, ready to import.`
               : `${plural(preview.problems.length, 'problem')} to fix first; nothing will be imported.`}
           </p>
-          {preview.problems.length > 0 && (
-            <ul className="problem-list" aria-label="Problems in the file">
-              {preview.problems.map((p) => (
-                <li key={`${p.row}-${p.column}-${p.message}`}>{p.text}</li>
-              ))}
-            </ul>
-          )}
-          {preview.warnings.length > 0 && (
-            <ul className="warning-list">
-              {preview.warnings.map((w) => (
-                <li key={w}>{w}</li>
-              ))}
-            </ul>
-          )}
+          <FileNotes problems={preview.problems} warnings={preview.warnings} />
           {preview.rows.length > 0 && (
             <div className="preview-scroll">
               <table className="data-table">

@@ -3,7 +3,7 @@ import type { RoundItemView, RoundView } from '../../../app/phases/review.ts';
 import type { Decision } from '../../../db/repos/review.ts';
 import { ErrorNote, Panel } from '../../shared/components.tsx';
 import { useMutation } from '../../shared/use-command.ts';
-import { plural, ratio } from './format.ts';
+import { coef, plural } from '../../shared/format.ts';
 
 const DECISION_LABEL: Record<Decision, string> = { keep: 'Kept', revise: 'Revised', retire: 'Retired' };
 
@@ -38,13 +38,13 @@ export function StatsPanel(props: {
       <div className="stat-tiles">
         <Tile
           label="S-CVI/Ave"
-          value={ratio(report.sCviAve)}
-          note={`mean I-CVI; benchmark ${ratio(benchmarks.sCviAve)} (Polit & Beck 2006)`}
+          value={coef(report.sCviAve, 2)}
+          note={`mean I-CVI; benchmark ${coef(benchmarks.sCviAve, 2)} (Polit & Beck 2006)`}
           state={report.flags.length > 0 ? 'bad' : 'good'}
         />
         <Tile
           label="S-CVI/UA"
-          value={ratio(report.sCviUa)}
+          value={coef(report.sCviUa, 2)}
           note="share of items every expert rated relevant"
         />
         <Tile
@@ -58,7 +58,7 @@ export function StatsPanel(props: {
         {report.facetSorting && (
           <Tile
             label="Facet sorting"
-            value={ratio(report.facetSorting.fleissKappa)}
+            value={coef(report.facetSorting.fleissKappa, 2)}
             note={
               report.facetSorting.fleissKappa === null
                 ? 'Fleiss’ kappa not computed (see notes)'
@@ -68,7 +68,7 @@ export function StatsPanel(props: {
         )}
         <Tile
           label="Critical CVR"
-          value={round.form.asksEssential ? ratio(report.cvrCritical, 3) : 'not asked'}
+          value={round.form.asksEssential ? coef(report.cvrCritical, 3) : 'not asked'}
           note={
             round.form.asksEssential
               ? `exact binomial, one-tailed .05, for ${plural(panel, 'expert')}`
@@ -106,15 +106,15 @@ export function StatsPanel(props: {
                 <td
                   className={`num${f.sCviAve < benchmarks.sCviAve - benchmarks.precision ? ' cell-flagged' : ''}`}
                 >
-                  {ratio(f.sCviAve)}
+                  {coef(f.sCviAve, 2)}
                 </td>
-                <td className="num">{ratio(f.sCviUa)}</td>
+                <td className="num">{coef(f.sCviUa, 2)}</td>
               </tr>
             ))}
           </tbody>
         </table>
       )}
-      <div className="item-filters">
+      <div className="review-filters">
         <label className="inline-check">
           <input type="checkbox" checked={flaggedOnly} onChange={(e) => setFlaggedOnly(e.target.checked)} />{' '}
           Only flagged items
@@ -246,8 +246,8 @@ function ItemStatsRow(props: {
           )}
         </td>
         <td className="num nowrap">{s ? `${s.rated}/${props.panel}` : '–'}</td>
-        <td className="num">{ratio(s?.iCvi)}</td>
-        <td className="num">{ratio(s?.modifiedKappa)}</td>
+        <td className="num">{coef(s?.iCvi, 2)}</td>
+        <td className="num">{coef(s?.modifiedKappa, 2)}</td>
         <td>{s?.kappaBand ? <span className={`band band-${s.kappaBand}`}>{s.kappaBand}</span> : '–'}</td>
         {props.hasCvr && (
           <td
@@ -255,14 +255,14 @@ function ItemStatsRow(props: {
             title={
               s?.cvrCritical === null
                 ? 'no critical value for this number of answers'
-                : `critical ${ratio(s?.cvrCritical, 3)}`
+                : `critical ${coef(s?.cvrCritical, 3)}`
             }
           >
-            {ratio(s?.cvr)}
+            {coef(s?.cvr, 2)}
           </td>
         )}
-        <td className="num">{ratio(s?.aikenV)}</td>
-        {props.hasPlacement && <td className="num">{ratio(s?.facetAgreement)}</td>}
+        <td className="num">{coef(s?.aikenV, 2)}</td>
+        {props.hasPlacement && <td className="num">{coef(s?.facetAgreement, 2)}</td>}
         <td className="flag-cell">
           {flags.length === 0 ? (
             <span className="muted">meets the benchmarks</span>

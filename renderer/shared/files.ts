@@ -11,7 +11,7 @@ export async function readFileBase64(file: File): Promise<string> {
   return btoa(binary);
 }
 
-/** Offers text as a file download (the pool export). */
+/** Offers text as a file download (exports). */
 export function downloadText(fileName: string, text: string, type = 'text/csv;charset=utf-8'): void {
   const url = URL.createObjectURL(new Blob([text], { type }));
   const link = document.createElement('a');
@@ -21,7 +21,7 @@ export function downloadText(fileName: string, text: string, type = 'text/csv;ch
   setTimeout(() => URL.revokeObjectURL(url), 0);
 }
 
-/** "12.3 KB" for messages about file sizes. */
+/** "12.3 KB" for file sizes. */
 export function formatBytes(bytes: number): string {
   if (bytes < 1024) return `${bytes} bytes`;
   if (bytes < 1024 * 1024) return `${(bytes / 1024).toFixed(1)} KB`;
