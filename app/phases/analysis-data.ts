@@ -1,6 +1,14 @@
-import { currentExclusions, getDatasetSummary, loadEncodedDataset } from '../../db/repos/datasets.ts';
+import { getConstruct } from '../../db/repos/construct.ts';
+import {
+  type DatasetSummary,
+  currentExclusions,
+  getDatasetSummary,
+  listDatasets,
+  loadEncodedDataset,
+} from '../../db/repos/datasets.ts';
 import type { Study } from '../../db/study.ts';
 import { decodeColumn } from '../engine/columnar.ts';
+import type { ScaleBounds } from '../engine/scoring.ts';
 import { RuleError } from './errors.ts';
 
 /** The responses an analysis runs on, and exactly where they came from. */
@@ -63,4 +71,15 @@ export function analysisData(study: Study, datasetId: number, itemCodes: string[
       excludedRespondents: [...excluded.keys()].sort((a, b) => a - b),
     },
   };
+}
+
+/** The pilot data analyses use: the latest dataset imported with the role "pilot". */
+export function currentPilotDataset(study: Study): DatasetSummary | undefined {
+  return listDatasets(study, 'pilot').at(-1);
+}
+
+/** The response format's declared bounds (never the observed ones): reverse scores and range checks use them. */
+export function declaredBounds(study: Study): ScaleBounds {
+  const c = getConstruct(study);
+  return { min: c.responseMin, max: c.responseMin + c.responsePoints - 1 };
 }

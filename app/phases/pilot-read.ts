@@ -10,7 +10,7 @@ import {
 import type { ColumnMapping } from '../import/mapping.ts';
 import type { DecimalMark, MissingCodes } from '../import/numbers.ts';
 import { type ParsedTable, parseTable } from '../import/parse-table.ts';
-import { streamDataset } from '../import/stream-dataset.ts';
+import { isPlainText, streamDataset } from '../import/stream-dataset.ts';
 import { TableError } from '../import/table-error.ts';
 import { readWorkbook } from '../import/workbook.ts';
 import type { JobContext } from '../workers/jobs.ts';
@@ -191,6 +191,7 @@ export async function readDataFile(request: ReadRequest, control?: JobContext): 
       delimiter: request.reading.delimiter,
       encoding: request.reading.encoding,
       maxBytes: request.maxBytes,
+      plainText: isPlainText(request.bytes),
       onProgress: (p) => control?.progress(p.bytes, total),
     },
   );

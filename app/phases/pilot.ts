@@ -36,6 +36,7 @@ import { previewTable } from '../import/preview.ts';
 import { TableError } from '../import/table-error.ts';
 import { readWorkbook } from '../import/workbook.ts';
 import { changeInPhase, recordRun } from './change.ts';
+import { currentPilotDataset, declaredBounds } from './analysis-data.ts';
 import { RuleError } from './errors.ts';
 import {
   type DataFileKind,
@@ -126,16 +127,6 @@ export function respondentCount(respondents: number, excluded: number): string {
 function fileError(fileName: string, error: TableError): RuleError {
   const message = error.message.includes(fileName) ? error.message : `${fileName}: ${error.message}`;
   return new RuleError(message, 'file');
-}
-
-/** The pilot dataset the phase works on: the most recently imported one (as purification uses it). */
-export function currentPilotDataset(study: Study): DatasetSummary | undefined {
-  return listDatasets(study, 'pilot').at(-1);
-}
-
-function declaredBounds(study: Study): { min: number; max: number } {
-  const c = getConstruct(study);
-  return { min: c.responseMin, max: c.responseMin + c.responsePoints - 1 };
 }
 
 function requireDataset(study: Study, id: number): DatasetSummary {

@@ -1,12 +1,7 @@
 import { canonicalJson } from '../../db/canonical-json.ts';
 import { getRun } from '../../db/repos/analysis-runs.ts';
-import { type FacetRecord, getConstruct, listFacets } from '../../db/repos/construct.ts';
-import {
-  currentExclusions,
-  type DatasetSummary,
-  listDatasets,
-  loadEncodedDataset,
-} from '../../db/repos/datasets.ts';
+import { type FacetRecord, listFacets } from '../../db/repos/construct.ts';
+import { currentExclusions, type DatasetSummary, loadEncodedDataset } from '../../db/repos/datasets.ts';
 import { getItemByCode, type ItemRecord, listItems } from '../../db/repos/items.ts';
 import { getPhaseStatus } from '../../db/repos/phase-state.ts';
 import {
@@ -29,6 +24,7 @@ import { reverseScore, type ScaleBounds } from '../engine/scoring.ts';
 import { JOBS, type RoundJobInput, type RoundJobOutput } from '../workers/jobs.ts';
 import { analysisData } from './analysis-data.ts';
 import { changeInPhase, recordRun } from './change.ts';
+import { currentPilotDataset, declaredBounds } from './analysis-data.ts';
 import { RuleError } from './errors.ts';
 import { PHASE_TITLES } from './titles.ts';
 import type { ChecklistItem, PhaseRules } from './types.ts';
@@ -185,16 +181,6 @@ function requireOpen(study: Study): void {
   }
 }
 
-/** The pilot dataset purification works on: the most recently imported one. */
-export function currentPilot(study: Study): DatasetSummary | undefined {
-  return listDatasets(study, 'pilot').at(-1);
-}
-
-function declaredBounds(study: Study): ScaleBounds {
-  const c = getConstruct(study);
-  return { min: c.responseMin, max: c.responseMin + c.responsePoints - 1 };
-}
-
 /** Where each item stands after every decision so far. */
 export interface ItemStanding {
   item: ItemRecord;
@@ -247,7 +233,7 @@ interface WorkingSet {
 }
 
 function workingSet(study: Study): WorkingSet {
-  const pilot = currentPilot(study);
+  const pilot = currentPilotDataset(study);
   if (!pilot) {
     throw new RuleError(
       'no pilot data has been imported yet; import the pilot responses in the Pilot data phase first',
@@ -587,7 +573,7 @@ function storedRound(study: Study, round: RoundRecord) {
 
 /** Every round with its headline numbers, oldest first. */
 export function roundSummaries(study: Study): RoundSummary[] {
-  const pilot = currentPilot(study);
+  const pilot = currentPilotDataset(study);
   const excludedNow = pilot ? [...currentExclusions(study, pilot.id).keys()].sort((a, b) => a - b) : [];
   let before: string[] = [];
   return listRounds(study).map((round) => {
@@ -999,7 +985,7 @@ export interface PoolItemView {
 
 /** Everything the workbench shows besides one round's detail. */
 export function purificationView(study: Study) {
-  const pilot = currentPilot(study);
+  const pilot = currentPilotDataset(study);
   const facets = listFacets(study, { includeRetired: true });
   const names = new Map(facets.map((f) => [f.id, f.name]));
   const decisions = decisionViews(study);
@@ -1067,7 +1053,7 @@ function plural(n: number, one: string, many = `${one}s`): string {
 }
 
 function checklist(study: Study): ChecklistItem[] {
-  const pilot = currentPilot(study);
+  const pilot = currentPilotDataset(study);
   const rounds = roundSummaries(study);
   const last = rounds.at(-1);
   const decisions = decisionViews(study);
@@ -1167,7 +1153,7 @@ export const purificationRules: PhaseRules = {
     const last = rounds.at(-1);
     if (!last) return [];
     const dropped = decisionViews(study).filter((d) => d.action === 'drop' && d.inForce).length;
-    const retained = currentPilot(study) ? workingSet(study).items.length : last.k;
+    const retained = currentPilotDataset(study) ? workingSet(study).items.length : last.k;
     return [
       plural(rounds.length, 'round'),
       `α = ${fmt(last.alpha, 2)} (${last.band}) in round ${last.number}`,

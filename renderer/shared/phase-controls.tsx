@@ -1,6 +1,6 @@
 import { useState } from 'react';
 import type { PhaseOverview } from '../../app/phases/index.ts';
-import { Checklist, ErrorNote, StatusBadge } from './components.tsx';
+import { Checklist, ErrorNote, Panel, StatusBadge } from './components.tsx';
 import { useMutation } from './use-command.ts';
 
 /** Sign-off and reopen for one phase, each asking for the note that goes into the log. */
@@ -65,5 +65,16 @@ export function PhaseControls({ phase, compact = false }: { phase: PhaseOverview
       )}
       {!compact && <Checklist items={phase.checklist} />}
     </div>
+  );
+}
+
+/** The sign-off column beside every phase screen. */
+export function SignOffAside({ phase }: { phase: PhaseOverview }) {
+  return (
+    <aside className="column-side">
+      <Panel title="Sign-off">
+        <PhaseControls phase={phase} />
+      </Panel>
+    </aside>
   );
 }

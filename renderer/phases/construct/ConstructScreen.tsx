@@ -2,7 +2,7 @@ import { useState } from 'react';
 import type { RelationInput } from '../../../app/phases/construct.ts';
 import type { FacetRecord, RelationRecord } from '../../../db/repos/construct.ts';
 import { AutosaveField, ErrorNote, Panel, ReasonAction } from '../../shared/components.tsx';
-import { PhaseControls } from '../../shared/phase-controls.tsx';
+import { SignOffAside } from '../../shared/phase-controls.tsx';
 import { useMutation, useQuery } from '../../shared/use-command.ts';
 import { ResponseFormatEditor } from './ResponseFormatEditor.tsx';
 
@@ -96,11 +96,7 @@ export function ConstructScreen() {
             <RelationsPanel relations={relations} />
           </fieldset>
         </div>
-        <aside className="column-side">
-          <Panel title="Sign-off">
-            <PhaseControls phase={phase} />
-          </Panel>
-        </aside>
+        <SignOffAside phase={phase} />
       </div>
     </div>
   );

@@ -5,7 +5,7 @@ import type { FacetRecord } from '../../../db/repos/construct.ts';
 import type { ItemKeying, ItemSource } from '../../../db/repos/items.ts';
 import { call } from '../../api/client.ts';
 import { ErrorNote, Panel } from '../../shared/components.tsx';
-import { PhaseControls } from '../../shared/phase-controls.tsx';
+import { SignOffAside } from '../../shared/phase-controls.tsx';
 import { useMutation, useQuery } from '../../shared/use-command.ts';
 import { downloadText } from '../../shared/files.ts';
 import { ImportPanel } from './ImportPanel.tsx';
@@ -74,11 +74,7 @@ export function ItemsScreen() {
             minimum={view.data.minItemsPerFacet}
           />
         </div>
-        <aside className="column-side">
-          <Panel title="Sign-off">
-            <PhaseControls phase={phase} />
-          </Panel>
-        </aside>
+        <SignOffAside phase={phase} />
       </div>
       <fieldset disabled={locked} className="plain">
         <ItemsPanel view={view.data} locked={locked} />

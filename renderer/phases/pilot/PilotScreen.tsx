@@ -1,7 +1,7 @@
 import { useContext, useState } from 'react';
 import type { DatasetListEntry } from '../../../app/phases/pilot.ts';
 import { ErrorNote, formatTime, Panel } from '../../shared/components.tsx';
-import { PhaseControls } from '../../shared/phase-controls.tsx';
+import { SignOffAside } from '../../shared/phase-controls.tsx';
 import { StudyRevision, useQuery } from '../../shared/use-command.ts';
 import { formatBytes } from '../../shared/files.ts';
 import { plural } from '../../shared/format.ts';
@@ -223,11 +223,7 @@ export function PilotScreen() {
             )}
           </Panel>
         </div>
-        <aside className="column-side">
-          <Panel title="Sign-off">
-            <PhaseControls phase={phase} />
-          </Panel>
-        </aside>
+        <SignOffAside phase={phase} />
       </div>
       {selected !== undefined && selectedEntry && (
         <>

@@ -1,7 +1,7 @@
 import { useCallback, useState } from 'react';
 import type { DecisionView, RoundSummary } from '../../../app/phases/purification.ts';
 import { ErrorNote, Panel } from '../../shared/components.tsx';
-import { PhaseControls } from '../../shared/phase-controls.tsx';
+import { PhaseControls, SignOffAside } from '../../shared/phase-controls.tsx';
 import { useQuery } from '../../shared/use-command.ts';
 import { AlphaIfDeletedChart, DistributionChart, ItemTotalChart } from './charts.tsx';
 import { DecisionPanel } from './DecisionPanel.tsx';
@@ -63,11 +63,7 @@ export function PurificationScreen() {
               the pool that the data maps to a column.
             </p>
           </Panel>
-          <aside className="column-side">
-            <Panel title="Sign-off">
-              <PhaseControls phase={phase} />
-            </Panel>
-          </aside>
+          <SignOffAside phase={phase} />
         </div>
       ) : (
         <>
@@ -130,11 +126,7 @@ export function PurificationScreen() {
                   {plural(next.respondents, 'respondent')}. It runs in the background; you can cancel it.
                 </p>
               </Panel>
-              <aside className="column-side">
-                <Panel title="Sign-off">
-                  <PhaseControls phase={phase} />
-                </Panel>
-              </aside>
+              <SignOffAside phase={phase} />
             </div>
           ) : (
             <RoundView

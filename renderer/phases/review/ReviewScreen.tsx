@@ -1,7 +1,7 @@
 import { useEffect, useState } from 'react';
 import type { CommandOutput } from '../../../app/api/commands.ts';
 import { ErrorNote, Panel } from '../../shared/components.tsx';
-import { PhaseControls } from '../../shared/phase-controls.tsx';
+import { SignOffAside } from '../../shared/phase-controls.tsx';
 import { useMutation, useQuery } from '../../shared/use-command.ts';
 import { coef, plural } from '../../shared/format.ts';
 import { ReviewPacket } from './ReviewPacket.tsx';
@@ -95,11 +95,7 @@ function ReviewWorkspace() {
             </Panel>
           )}
         </div>
-        <aside className="column-side">
-          <Panel title="Sign-off">
-            <PhaseControls phase={phase} />
-          </Panel>
-        </aside>
+        <SignOffAside phase={phase} />
       </div>
       {round && (
         <RoundDetail

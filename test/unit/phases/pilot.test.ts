@@ -21,14 +21,13 @@ import { decodeColumn } from '../../../app/engine/columnar.ts';
 import type { ScreeningResult } from '../../../app/engine/screening.ts';
 import type { ColumnMapping } from '../../../app/import/mapping.ts';
 import { NO_MISSING_CODES, type MissingCodes } from '../../../app/import/numbers.ts';
-import { analysisData } from '../../../app/phases/analysis-data.ts';
+import { analysisData, currentPilotDataset } from '../../../app/phases/analysis-data.ts';
 import { addFacet } from '../../../app/phases/construct.ts';
 import { RuleError } from '../../../app/phases/errors.ts';
 import { phaseOverview, reopenPhase, signOffPhase } from '../../../app/phases/index.ts';
 import { addItem } from '../../../app/phases/items.ts';
 import {
   automaticMapping,
-  currentPilotDataset,
   datasetDetail,
   excludeRespondents,
   includeRespondents,

@@ -5,13 +5,12 @@ import { fillDemoStudy } from '../../../app/demo/index.ts';
 import { DEMO_OFF_DOMAIN_ITEM } from '../../../app/demo/items.ts';
 import { DEMO_STRAIGHT_LINERS } from '../../../app/demo/pilot.ts';
 import { streamDataset } from '../../../app/import/stream-dataset.ts';
-import { analysisData } from '../../../app/phases/analysis-data.ts';
+import { analysisData, currentPilotDataset } from '../../../app/phases/analysis-data.ts';
 import { addFacet } from '../../../app/phases/construct.ts';
 import { RuleError } from '../../../app/phases/errors.ts';
 import { phaseOverview, reopenPhase, signOffPhase } from '../../../app/phases/index.ts';
 import { includeRespondents } from '../../../app/phases/pilot.ts';
 import {
-  currentPilot,
   decideItem,
   decisionViews,
   prepareRound,
@@ -581,7 +580,7 @@ describe('the demo study', () => {
   });
 
   it('shows how the straight-liners change the item statistics when they are brought back', () => {
-    const pilot = currentPilot(demo);
+    const pilot = currentPilotDataset(demo);
     if (!pilot) throw new Error('the demo has no pilot data');
     const excluded = [...currentExclusions(demo, pilot.id).keys()];
     expect(excluded).toHaveLength(DEMO_STRAIGHT_LINERS);
