@@ -12,6 +12,8 @@ const USAGE = `usage: scalewright <command> [options]
   stats <analysis> --data FILE [options]   analyses over a CSV or TSV file (${Object.keys(STATS_ANALYSES).join(', ')})
   project new FILE [--demo]                create a study file
   project status FILE [--json]             phases, states, counts, open gates
+  project import FILE --data CSV --role pilot|validation|retest [--map map.json]
+                                           import a data file into the study
   project verify FILE                      check the file and its decision log
 
 Run from the project root as: npm run -s cli -- <command> [options]`;
