@@ -9,7 +9,9 @@ import { type CliContext, DataError, UsageError } from './types.ts';
 
 const USAGE = `usage: scalewright <command> [options]
 
-  stats <analysis> --data FILE [options]   analyses over a CSV or TSV file (${Object.keys(STATS_ANALYSES).join(', ')})
+  stats reliability --data FILE --items a,b,c [options]
+                                           alpha, omega and item statistics from a CSV or TSV file
+  stats content --ratings FILE [options]   content validity from expert ratings
   project new FILE [--demo]                create a study file
   project status FILE [--json]             phases, states, counts, open gates
   project import FILE --data CSV --role pilot|validation|retest [--map map.json]
