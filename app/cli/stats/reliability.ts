@@ -9,7 +9,10 @@ import { integerOption, type LoadedItems, loadItemData, numberOption, seedOption
 export const MAX_BOOTSTRAP_RESAMPLES = 100_000;
 
 function round(x: number | null | undefined, digits = 3): string {
-  return x === null || x === undefined ? '—' : x.toFixed(digits);
+  if (x === null || x === undefined) return '—';
+  const text = x.toFixed(digits);
+  // A value that rounds to zero prints as 0.00, not -0.00.
+  return Number(text) === 0 ? text.replace('-', '') : text;
 }
 
 function percent(x: number | null): string {
