@@ -1,4 +1,3 @@
-import { readFile } from 'node:fs/promises';
 import path from 'node:path';
 import { z } from 'zod';
 import { Study } from '../../db/study.ts';
@@ -18,6 +17,7 @@ import {
 } from '../phases/pilot.ts';
 import { type ImportRead, readDataFile } from '../phases/pilot-read.ts';
 import { RuleError } from '../phases/errors.ts';
+import { readUserFile } from './files.ts';
 import { parseStrict, resolveUserPath } from './main.ts';
 import { formatTable } from './table.ts';
 import { type CliContext, DataError, UsageError } from './types.ts';
@@ -94,25 +94,8 @@ export function missingCodesOf(list: readonly (string | number)[]): MissingCodes
   return codes;
 }
 
-async function readBytes(file: string, what: string): Promise<Uint8Array> {
-  try {
-    return await readFile(file);
-  } catch (error) {
-    const code = (error as NodeJS.ErrnoException).code;
-    const reason =
-      code === 'ENOENT'
-        ? 'no such file'
-        : code === 'EISDIR'
-          ? 'it is a folder, not a file'
-          : code === 'EACCES'
-            ? 'permission denied'
-            : (code ?? 'unreadable');
-    throw new DataError(`cannot read ${what} "${file}": ${reason}`);
-  }
-}
-
-async function readMap(file: string): Promise<MapFile> {
-  const bytes = await readBytes(file, 'map file');
+async function readMap(file: string, ctx: CliContext): Promise<MapFile> {
+  const bytes = await readUserFile(file, 'map file', ctx);
   let raw: unknown;
   try {
     raw = JSON.parse(new TextDecoder().decode(bytes));
@@ -178,9 +161,9 @@ export async function importCommand(args: string[], ctx: CliContext): Promise<nu
     );
   }
   const mapPath = option(values, 'map');
-  const map: MapFile = mapPath === undefined ? {} : await readMap(resolveUserPath(mapPath, ctx));
+  const map: MapFile = mapPath === undefined ? {} : await readMap(mapPath, ctx);
   const dataPath = resolveUserPath(data, ctx);
-  const bytes = await readBytes(dataPath, 'data file');
+  const bytes = await readUserFile(data, 'data file', ctx);
   const fileName = path.basename(dataPath);
   const study = Study.open(resolveUserPath(studyFile, ctx), { actor: currentActor(), app: CLI_APP });
   try {

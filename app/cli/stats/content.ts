@@ -1,5 +1,3 @@
-import { readFile } from 'node:fs/promises';
-import { resolve } from 'node:path';
 import {
   analyzeContentValidity,
   CVR_ALPHA,
@@ -15,8 +13,9 @@ import {
   type RatingsFile,
   readRatings,
 } from '../../import/ratings.ts';
+import { readUserFile } from '../files.ts';
 import { formatTable } from '../table.ts';
-import { type CliContext, DataError, type OptionValues, type StatsAnalysis, UsageError } from '../types.ts';
+import { DataError, type OptionValues, type StatsAnalysis, UsageError } from '../types.ts';
 import { integerOption } from './data.ts';
 
 /** Widest relevance scale accepted on the command line (a rating scale, not a measurement range). */
@@ -38,21 +37,6 @@ function stringOption(values: OptionValues, name: string): string | undefined {
   if (value === undefined || value === false) return undefined;
   if (value === true) throw new UsageError(`--${name} needs a value`);
   return value;
-}
-
-async function readUserFile(file: string, what: string, ctx: CliContext): Promise<Uint8Array> {
-  try {
-    return await readFile(resolve(ctx.cwd, file));
-  } catch (error) {
-    const code = (error as NodeJS.ErrnoException).code;
-    const reason =
-      code === 'ENOENT'
-        ? 'no such file'
-        : code === 'EISDIR'
-          ? 'it is a folder, not a file'
-          : (code ?? 'unreadable');
-    throw new DataError(`cannot read ${what} "${file}": ${reason}`);
-  }
 }
 
 function firstProblem(file: string, problems: RatingsFile['problems'], header: readonly string[]): DataError {

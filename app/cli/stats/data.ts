@@ -1,10 +1,9 @@
 import { createHash } from 'node:crypto';
-import { readFile } from 'node:fs/promises';
-import { resolve } from 'node:path';
 import type { MissingMethod } from '../../engine/item-stats.ts';
 import { DEFAULT_SEED } from '../../engine/rng.ts';
 import { type ResponseMatrix, reverseScore, type ScaleBounds } from '../../engine/scoring.ts';
 import { columnLabel, parseTable, TableError } from '../../import/parse-table.ts';
+import { readUserFile } from '../files.ts';
 import { type CliContext, DataError, type OptionValues, UsageError } from '../types.ts';
 
 /** Item responses read from a data file, checked, with missing codes blanked and reverse keys applied. */
@@ -108,23 +107,6 @@ function boundsOption(values: OptionValues): ScaleBounds | null {
   return { min, max };
 }
 
-async function readBytes(file: string, ctx: CliContext): Promise<Uint8Array> {
-  try {
-    return await readFile(resolve(ctx.cwd, file));
-  } catch (error) {
-    const code = (error as NodeJS.ErrnoException).code;
-    const reason =
-      code === 'ENOENT'
-        ? 'no such file'
-        : code === 'EISDIR'
-          ? 'it is a folder, not a file'
-          : code === 'EACCES'
-            ? 'permission denied'
-            : (code ?? 'unreadable');
-    throw new DataError(`cannot read data file "${file}": ${reason}`);
-  }
-}
-
 /**
  * The shared loader of every `stats` analysis: reads --data with parseTable, picks the --items columns
  * (or another option's), turns empty cells and --missing-codes into missing values, parses numbers
@@ -166,7 +148,7 @@ export async function loadItemData(
   const missingCodes = codesRaw === undefined ? [] : list(codesRaw, 'missing-codes');
   const numericCodes = missingCodes.filter((c) => NUMBER.test(c)).map(Number);
 
-  const bytes = await readBytes(file, ctx);
+  const bytes = await readUserFile(file, 'data file', ctx);
   const sha256 = createHash('sha256').update(bytes).digest('hex');
   let table: ReturnType<typeof parseTable>;
   try {
