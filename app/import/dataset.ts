@@ -120,6 +120,23 @@ interface NumericSlot {
 }
 
 /**
+ * Data records of one batch as field offsets into ASCII bytes, so that a reader that splits the bytes
+ * itself need not make a string of every cell (see DatasetAssembler.addFieldRows). With w the header's
+ * width, record i has w + 1 offsets from starts[i · (w + 1)]: field f spans the bytes from offset f up
+ * to one before offset f + 1 (the byte there is the delimiter or line end that closes the field).
+ */
+export interface FieldRows {
+  /** Number of records. */
+  n: number;
+  /** File row of each record (header = row 1). */
+  rowNumbers: readonly number[];
+  bytes: Uint8Array;
+  starts: Int32Array;
+  /** The bytes from `from` up to `to` (exclusive) as text. */
+  text(from: number, to: number): string;
+}
+
+/**
  * Turns data records into a dataset one batch at a time, so a file can be read in chunks and its
  * numeric columns built directly in the compact layout. `addRows` expects records already fitted to
  * the header's width (see fitRecord). Cost O(cells).
@@ -274,17 +291,51 @@ export class DatasetAssembler {
    * then column).
    */
   addRows(records: readonly (readonly string[])[], rowNumbers: readonly number[]): void {
-    const r = this.resolved;
     const n = records.length;
+    this.addBatch(
+      n,
+      rowNumbers,
+      (i, column) => records[i][column],
+      (block, slow) => fillFastCells(records, n, this.slotColumns, this.fastDigit, block, slow),
+    );
+  }
+
+  /**
+   * Adds data records given as field offsets into ASCII bytes (see FieldRows), with the same rules,
+   * values and problems as addRows on the same records as strings: single-digit cells are read
+   * straight from the bytes, and only the other cells become strings.
+   */
+  addFieldRows(rows: FieldRows): void {
+    const stride = this.header.length + 1;
+    const { bytes, starts } = rows;
+    this.addBatch(
+      rows.n,
+      rows.rowNumbers,
+      (i, column) => rows.text(starts[i * stride + column], starts[i * stride + column + 1] - 1),
+      (block, slow) =>
+        fillFastFields(bytes, starts, stride, rows.n, this.slotColumns, this.fastDigit, block, slow),
+    );
+  }
+
+  /**
+   * The body of addRows and addFieldRows: `cell(i, column)` is the raw text of record i in a column,
+   * `fill` the first pass that puts the plain digits in the int8 block (see fillFastCells).
+   */
+  private addBatch(
+    n: number,
+    rowNumbers: readonly number[],
+    cell: (record: number, column: number) => string,
+    fill: (block: Int8Array, slow: Int32Array) => number,
+  ): void {
+    const r = this.resolved;
     const firstProblem = this.pending.length;
     for (let i = 0; i < n; i++) {
-      const record = records[i];
       const rowNumber = rowNumbers[i];
       this.rowNumbers.push(rowNumber);
       if (r.idColumn === undefined) {
         this.ids.push(`row ${rowNumber}`);
       } else {
-        const id = record[r.idColumn].trim();
+        const id = cell(i, r.idColumn).trim();
         if (id === '') {
           this.note(rowNumber, r.idColumn, `the respondent id is empty; named 'row ${rowNumber}' instead`);
           this.ids.push(`row ${rowNumber}`);
@@ -296,19 +347,18 @@ export class DatasetAssembler {
     const k = this.slots.length;
     if (this.scratch.length < n * k) this.scratch = new Int8Array(Math.max(n * k, this.scratch.length * 2));
     const scratch = this.scratch;
-    const fastDigit = this.fastDigit;
     const columns = this.slotColumns;
     // Per slot, the batch's values as doubles once one of them does not fit int8 (then the column is
     // appended from these instead of the int8 block).
     const wide: (Float64Array | undefined)[] = new Array(k);
-    // Pass 1 (fillFastCells) takes the plain digits; pass 2 reads the few other cells one by one.
+    // Pass 1 (fill) takes the plain digits; pass 2 reads the few other cells one by one.
     if (this.slow.length < n * k) this.slow = new Int32Array(Math.max(n * k, this.slow.length * 2));
-    const slowCount = fillFastCells(records, n, columns, fastDigit, scratch, this.slow);
+    const slowCount = fill(scratch, this.slow);
     for (let c = 0; c < slowCount; c++) {
-      const cell = this.slow[c];
-      const s = cell % k;
-      const i = (cell - s) / k;
-      const value = this.readSlow(records[i][columns[s]], s, rowNumbers[i]);
+      const at = this.slow[c];
+      const s = at % k;
+      const i = (at - s) / k;
+      const value = this.readSlow(cell(i, columns[s]), s, rowNumbers[i]);
       const fits = Number.isInteger(value) && value > INT8_MISSING && value <= -INT8_MISSING - 1;
       scratch[s * n + i] = fits ? value : INT8_MISSING;
       let values = wide[s];
@@ -334,16 +384,15 @@ export class DatasetAssembler {
     }
     const reader = this.reader;
     for (let i = 0; i < n; i++) {
-      const record = records[i];
       for (let g = 0; g < r.groups.length; g++) {
-        const raw = record[r.groups[g]].trim();
+        const raw = cell(i, r.groups[g]).trim();
         this.groups[g].values.push(raw === '' || reader.isMissing(raw) ? '' : raw);
       }
       if (this.retestLinks && r.retestLink !== undefined)
-        this.retestLinks.values.push(record[r.retestLink].trim());
+        this.retestLinks.values.push(cell(i, r.retestLink).trim());
       for (let a = 0; a < this.attentionReaders.length; a++) {
         const check = this.attentionReaders[a];
-        const raw = record[check.column].trim();
+        const raw = cell(i, check.column).trim();
         const value = reader.read(raw);
         let outcome: AttentionOutcome;
         if (reader.status === CELL_MISSING) outcome = 'missing';
@@ -418,6 +467,40 @@ function fillFastCells(
       const raw = record[columns[s]];
       if (raw.length === 1) {
         const digit = raw.charCodeAt(0) - 48;
+        if (digit >= 0 && digit <= 9 && fastDigit[s * 10 + digit] === 1) {
+          block[s * n + i] = digit;
+          continue;
+        }
+      }
+      slow[slowCount++] = i * k + s;
+    }
+  }
+  return slowCount;
+}
+
+/**
+ * fillFastCells for records given as field offsets into ASCII bytes (see FieldRows): a cell is a
+ * single digit when its field is one byte long. Cost O(n · slots).
+ */
+function fillFastFields(
+  bytes: Uint8Array,
+  starts: Int32Array,
+  stride: number,
+  n: number,
+  columns: Int32Array,
+  fastDigit: Uint8Array,
+  block: Int8Array,
+  slow: Int32Array,
+): number {
+  const k = columns.length;
+  let slowCount = 0;
+  for (let i = 0; i < n; i++) {
+    const base = i * stride;
+    for (let s = 0; s < k; s++) {
+      const at = starts[base + columns[s]];
+      // One byte and its delimiter: the next field starts two bytes on.
+      if (starts[base + columns[s] + 1] - at === 2) {
+        const digit = bytes[at] - 48;
         if (digit >= 0 && digit <= 9 && fastDigit[s * 10 + digit] === 1) {
           block[s * n + i] = digit;
           continue;

@@ -1,3 +1,4 @@
+import { isAscii } from 'node:buffer';
 import { createHash } from 'node:crypto';
 import { Readable } from 'node:stream';
 import Papa from 'papaparse';
@@ -29,6 +30,12 @@ export interface StreamDatasetOptions extends DatasetOptions {
   onProgress?: (progress: { bytes: number; rows: number }) => void;
   /** Expected number of respondents, to size the columns once (a guess is fine). */
   expectedRows?: number;
+  /**
+   * The caller has checked the whole file with isPlainText. Its records are then split from the
+   * bytes directly instead of by papaparse, with the same records and the same outcome, when the
+   * file is read as UTF-8 or Windows-1252 (every other encoding still goes through papaparse).
+   */
+  plainText?: boolean;
 }
 
 /** A dataset read from a stream, with what storage needs to keep beside it. */
@@ -99,6 +106,56 @@ function detectFormat(prefix: Uint8Array, complete: boolean, options: StreamData
   };
 }
 
+const LINE_FEED = 0x0a;
+const CARRIAGE_RETURN = 0x0d;
+const DOUBLE_QUOTE = 0x22;
+const SINGLE_QUOTE = 0x27;
+const UTF8_BOM = [0xef, 0xbb, 0xbf];
+/** First byte that is not ASCII. */
+const NON_ASCII = 0x80;
+
+/** The ASCII bytes String.prototype.trim removes, apart from line breaks: tab, VT, FF and space. */
+const TRIMMED_BYTES = new Uint8Array(256);
+for (const b of [0x09, 0x0b, 0x0c, 0x20]) TRIMMED_BYTES[b] = 1;
+
+function asBuffer(bytes: Uint8Array): Buffer {
+  return Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength);
+}
+
+function plainBytes(bytes: Uint8Array): boolean {
+  const view = asBuffer(bytes);
+  return (
+    isAscii(view) &&
+    view.indexOf(DOUBLE_QUOTE) < 0 &&
+    view.indexOf(SINGLE_QUOTE) < 0 &&
+    view.indexOf(CARRIAGE_RETURN) < 0
+  );
+}
+
+/**
+ * Whether a file is plain text for the reader: after an optional UTF-8 byte-order mark, only ASCII
+ * bytes, no quote character (double or single) and no carriage return. Papaparse splits such a file at
+ * every line feed and delimiter and nowhere else, so streamDataset (option plainText) can split it
+ * from the bytes. Cost O(file size), with native scans.
+ */
+export function isPlainText(bytes: Uint8Array): boolean {
+  const bom = UTF8_BOM.every((b, i) => bytes[i] === b);
+  return plainBytes(bom ? bytes.subarray(UTF8_BOM.length) : bytes);
+}
+
+/** `tail` followed by `chunk`: a view when they lie next to each other in one buffer, else a copy. */
+function joinBytes(tail: Uint8Array, chunk: Uint8Array): Uint8Array {
+  if (tail.length === 0) return chunk;
+  if (tail.buffer === chunk.buffer && tail.byteOffset + tail.length === chunk.byteOffset) {
+    return new Uint8Array(chunk.buffer, tail.byteOffset, tail.length + chunk.length);
+  }
+  return Buffer.concat([tail, chunk]);
+}
+
+function isBlankFields(fields: readonly string[]): boolean {
+  return fields.length === 1 ? fields[0].trim() === '' : fields.every((f) => f.trim() === '');
+}
+
 function listRows(rows: number[]): string {
   const shown = rows.slice(0, MAX_LISTED_ROWS).join(', ');
   return rows.length > MAX_LISTED_ROWS ? `${shown} and ${rows.length - MAX_LISTED_ROWS} more` : shown;
@@ -112,7 +169,10 @@ function listRows(rows: number[]): string {
  * are then listed as problems); then
  * papaparse parses chunk by chunk and each record goes to a DatasetAssembler. Same rules and messages
  * as parseTable + buildDataset, except that the first ragged row stops the import (later ones are not
- * counted). Also computes the SHA-256 and byte length, and hands each raw chunk to `onBytes`.
+ * counted). With the option plainText (a file isPlainText accepts, read as UTF-8 or Windows-1252) the
+ * records are split from the bytes without papaparse, and only cells that are not a single digit
+ * become strings; the outcome is the same. Also computes the SHA-256 and byte length, and hands each
+ * raw chunk to `onBytes`.
  * `mapping` may be a function of the checked header (for instance proposeMapping's result).
  * Cost O(file size) time; memory O(columns × rows) in the compact layout plus one chunk.
  * Throws TableError for the same bad files as parseTable, and for a bad mapping (see resolveMapping).
@@ -228,7 +288,7 @@ export async function streamDataset(
     const batchRows: number[] = [];
     for (const fields of rows) {
       record++;
-      const blank = fields.length === 1 ? fields[0].trim() === '' : fields.every((f) => f.trim() === '');
+      const blank = isBlankFields(fields);
       if (!header) {
         if (blank) leadingBlank++;
         else startTable(fields, record);
@@ -249,36 +309,141 @@ export async function streamDataset(
     if (batch.length > 0) assembler?.addRows(batch, batchRows);
   };
 
-  await new Promise<void>((resolve, reject) => {
-    const readable = Readable.from(text(), { objectMode: true });
-    Papa.parse(readable, {
-      delimiter: format.delimiter,
-      quoteChar: format.quoteChar,
-      header: false,
-      skipEmptyLines: false,
-      chunk(results: Papa.ParseResult<string[]>, parser: Papa.Parser) {
-        if (failure) return;
-        try {
-          onRows(results.data, results.errors);
-          options.onProgress?.({ bytes: byteLength, rows: assembler?.n ?? 0 });
-        } catch (e) {
-          failure = e;
-          parser.abort();
-          readable.destroy();
-          reject(e);
-        }
-      },
-      complete() {
-        if (!failure) resolve();
-      },
-      error(e: Error) {
-        if (!failure) {
-          failure = e;
-          reject(e);
-        }
-      },
+  const readWithPapaparse = () =>
+    new Promise<void>((resolve, reject) => {
+      const readable = Readable.from(text(), { objectMode: true });
+      Papa.parse(readable, {
+        delimiter: format.delimiter,
+        quoteChar: format.quoteChar,
+        header: false,
+        skipEmptyLines: false,
+        chunk(results: Papa.ParseResult<string[]>, parser: Papa.Parser) {
+          if (failure) return;
+          try {
+            onRows(results.data, results.errors);
+            options.onProgress?.({ bytes: byteLength, rows: assembler?.n ?? 0 });
+          } catch (e) {
+            failure = e;
+            parser.abort();
+            readable.destroy();
+            reject(e);
+          }
+        },
+        complete() {
+          if (!failure) resolve();
+        },
+        error(e: Error) {
+          if (!failure) {
+            failure = e;
+            reject(e);
+          }
+        },
+      });
     });
-  });
+
+  /** Field offsets of the current piece's records (see FieldRows), reused from piece to piece. */
+  let starts = new Int32Array(0);
+  /**
+   * Splits the lines of a piece of plain text (see isPlainText) as papaparse would: each line feed
+   * ends a record, each delimiter a field. The unfinished last line counts only when `final`. Returns
+   * where the part not yet read starts.
+   */
+  const splitPlain = (bytes: Buffer, final: boolean): number => {
+    const delimiter = format.delimiter.charCodeAt(0);
+    const rowNumbers: number[] = [];
+    let n = 0;
+    let at = 0;
+    while (at < bytes.length) {
+      let end = bytes.indexOf(LINE_FEED, at);
+      if (end < 0) {
+        if (!final) break;
+        end = bytes.length;
+      }
+      record++;
+      if (!header) {
+        const fields = bytes.toString('latin1', at, end).split(format.delimiter);
+        if (isBlankFields(fields)) leadingBlank++;
+        else startTable(fields, record);
+        at = end + 1;
+        continue;
+      }
+      const width = header.length;
+      const stride = width + 1;
+      if ((n + 1) * stride > starts.length) {
+        const grown = new Int32Array(Math.max((n + 1) * stride, starts.length * 2));
+        grown.set(starts);
+        starts = grown;
+      }
+      const base = n * stride;
+      starts[base] = at;
+      let fields = 1;
+      let content = false;
+      for (let i = at; i < end; i++) {
+        const b = bytes[i];
+        if (b === delimiter) {
+          if (fields <= width) starts[base + fields] = i + 1;
+          fields++;
+        } else if (!content && TRIMMED_BYTES[b] === 0) {
+          content = true;
+        }
+      }
+      if (fields <= width) starts[base + fields] = end + 1;
+      if (!content) {
+        pendingBlank.push(record);
+        at = end + 1;
+        continue;
+      }
+      if (pendingBlank.length > 0) {
+        blankInside.push(...pendingBlank);
+        pendingBlank = [];
+      }
+      if (fields !== width) {
+        // Throws unless the fields beyond the header are empty; those are then left out.
+        fitRecord(bytes.toString('latin1', at, end).split(format.delimiter), header, record);
+        if (fields > rawWidth) trimmed++;
+      }
+      rowNumbers.push(record);
+      n++;
+      at = end + 1;
+    }
+    if (n > 0) {
+      assembler?.addFieldRows({
+        n,
+        rowNumbers,
+        bytes,
+        starts,
+        text: (from, to) => bytes.toString('latin1', from, to),
+      });
+    }
+    return Math.min(at, bytes.length);
+  };
+
+  const readPlain = async () => {
+    let piece: Uint8Array = prefix.subarray(format.bomLength);
+    let final = ended;
+    let checked = plainBytes(piece);
+    for (;;) {
+      if (!checked) throw new Error('streamDataset was told the file is plain text, but it is not');
+      const rest = piece.subarray(splitPlain(asBuffer(piece), final));
+      options.onProgress?.({ bytes: byteLength, rows: assembler?.n ?? 0 });
+      if (final) return;
+      const chunk = await take();
+      if (chunk) {
+        checked = plainBytes(chunk);
+        piece = joinBytes(rest, chunk);
+      } else {
+        piece = rest;
+        final = true;
+      }
+    }
+  };
+
+  const plain =
+    options.plainText === true &&
+    (format.encoding === 'utf-8' || format.encoding === 'windows-1252') &&
+    format.delimiter.charCodeAt(0) < NON_ASCII;
+  if (plain) await readPlain();
+  else await readWithPapaparse();
 
   if (!header || !assembler) throw new TableError(`${label} has no header row`);
   const dataset = assembler.finish();
