@@ -42,6 +42,11 @@ const SENTINELS = { int8: -128, int16: -32768, int32: -2147483648 } as const;
 /** The int8 value that marks a missing value (see the module comment). */
 export const INT8_MISSING = SENTINELS.int8;
 const POWERS = [1, 10, 100, 1000];
+/**
+ * Whether this machine stores numbers little-endian, as the byte form does: then integer columns are
+ * copied to and from the byte form in one piece instead of value by value.
+ */
+const LITTLE_ENDIAN = new Uint8Array(new Uint16Array([1]).buffer)[0] === 1;
 const INITIAL_CAPACITY = 1024;
 
 type IntKind = keyof typeof INT_LIMITS;
@@ -314,6 +319,10 @@ export function columnToBytes(column: EncodedColumn): Uint8Array {
   view.setUint8(5, column.scale);
   view.setUint32(8, column.length, true);
   const { data } = column;
+  if (LITTLE_ENDIAN && column.kind !== 'float32' && column.kind !== 'float64') {
+    bytes.set(new Uint8Array(data.buffer, data.byteOffset, column.length * width), HEADER_BYTES);
+    return bytes;
+  }
   let offset = HEADER_BYTES;
   switch (column.kind) {
     case 'int8':
@@ -357,6 +366,13 @@ export function columnFromBytes(bytes: Uint8Array): EncodedColumn {
     throw new EngineError(
       `stored column is damaged: ${length} ${kind} values need ${HEADER_BYTES + length * width} bytes, found ${bytes.length}`,
     );
+  }
+  if (LITTLE_ENDIAN && kind !== 'float32' && kind !== 'float64') {
+    const start = bytes.byteOffset + HEADER_BYTES;
+    const copy = bytes.buffer.slice(start, start + length * width);
+    const data =
+      kind === 'int8' ? new Int8Array(copy) : kind === 'int16' ? new Int16Array(copy) : new Int32Array(copy);
+    return { kind, scale, length, data };
   }
   const data = allocate(kind, length);
   let offset = HEADER_BYTES;
