@@ -123,15 +123,16 @@ interface NumericSlot {
  * Data records of one batch as field offsets into ASCII bytes, so that a reader that splits the bytes
  * itself need not make a string of every cell (see DatasetAssembler.addFieldRows). With w the header's
  * width, record i has w + 1 offsets from starts[i · (w + 1)]: field f spans the bytes from offset f up
- * to one before offset f + 1 (the byte there is the delimiter or line end that closes the field).
+ * to one before offset f + 1 (the byte there is the delimiter or line end that closes the field); and
+ * w entries from digits[i · w]: the field's value when it is a single digit, else −1.
  */
 export interface FieldRows {
   /** Number of records. */
   n: number;
   /** File row of each record (header = row 1). */
   rowNumbers: readonly number[];
-  bytes: Uint8Array;
   starts: Int32Array;
+  digits: Int8Array;
   /** The bytes from `from` up to `to` (exclusive) as text. */
   text(from: number, to: number): string;
 }
@@ -306,14 +307,14 @@ export class DatasetAssembler {
    * straight from the bytes, and only the other cells become strings.
    */
   addFieldRows(rows: FieldRows): void {
-    const stride = this.header.length + 1;
-    const { bytes, starts } = rows;
+    const width = this.header.length;
+    const { starts, digits } = rows;
+    const stride = width + 1;
     this.addBatch(
       rows.n,
       rows.rowNumbers,
       (i, column) => rows.text(starts[i * stride + column], starts[i * stride + column + 1] - 1),
-      (block, slow) =>
-        fillFastFields(bytes, starts, stride, rows.n, this.slotColumns, this.fastDigit, block, slow),
+      (block, slow) => fillFastFields(digits, width, rows.n, this.slotColumns, this.fastDigit, block, slow),
     );
   }
 
@@ -479,13 +480,12 @@ function fillFastCells(
 }
 
 /**
- * fillFastCells for records given as field offsets into ASCII bytes (see FieldRows): a cell is a
- * single digit when its field is one byte long. Cost O(n · slots).
+ * fillFastCells for records given as FieldRows, from their single digits (−1 for any other field).
+ * Cost O(n · slots).
  */
 function fillFastFields(
-  bytes: Uint8Array,
-  starts: Int32Array,
-  stride: number,
+  digits: Int8Array,
+  width: number,
   n: number,
   columns: Int32Array,
   fastDigit: Uint8Array,
@@ -495,18 +495,14 @@ function fillFastFields(
   const k = columns.length;
   let slowCount = 0;
   for (let i = 0; i < n; i++) {
-    const base = i * stride;
+    const row = i * width;
     for (let s = 0; s < k; s++) {
-      const at = starts[base + columns[s]];
-      // One byte and its delimiter: the next field starts two bytes on.
-      if (starts[base + columns[s] + 1] - at === 2) {
-        const digit = bytes[at] - 48;
-        if (digit >= 0 && digit <= 9 && fastDigit[s * 10 + digit] === 1) {
-          block[s * n + i] = digit;
-          continue;
-        }
+      const digit = digits[row + columns[s]];
+      if (digit >= 0 && fastDigit[s * 10 + digit] === 1) {
+        block[s * n + i] = digit;
+      } else {
+        slow[slowCount++] = i * k + s;
       }
-      slow[slowCount++] = i * k + s;
     }
   }
   return slowCount;
