@@ -92,6 +92,8 @@ export class ColumnBuilder {
   private kind: ColumnKind = 'int8';
   private scale = 0;
   private maxAbs = 0;
+  /** True when appendInt8 added values without updating maxAbs; widenFor computes it when needed. */
+  private maxAbsPending = false;
   private data: EncodedColumn['data'];
   private count = 0;
   /** Largest magnitude the fast path may store: the integer limit at scale 0, else 0 (no fast path). */
@@ -191,13 +193,8 @@ export class ColumnBuilder {
     }
     (this.data as Int8Array).set(block, this.count);
     this.count += block.length;
-    let maxAbs = this.maxAbs;
-    for (let i = 0; i < block.length; i++) {
-      const v = block[i];
-      const abs = v < 0 ? (v === INT8_MISSING ? 0 : -v) : v;
-      if (abs > maxAbs) maxAbs = abs;
-    }
-    this.maxAbs = maxAbs;
+    // Only widening needs the largest magnitude; it is found then (see widenFor), not block by block.
+    this.maxAbsPending = true;
     return true;
   }
 
@@ -214,6 +211,17 @@ export class ColumnBuilder {
   }
 
   private widenFor(v: number): void {
+    if (this.maxAbsPending) {
+      let maxAbs = 0;
+      const sentinel = SENTINELS[this.kind as IntKind];
+      for (let i = 0; i < this.count; i++) {
+        const raw = this.data[i];
+        const abs = raw === sentinel ? 0 : raw < 0 ? -raw : raw;
+        if (abs > maxAbs) maxAbs = abs;
+      }
+      this.maxAbs = maxAbs;
+      this.maxAbsPending = false;
+    }
     const s = exactScale(v, this.scale);
     if (s !== undefined) {
       const factor = POWERS[s] / POWERS[this.scale];
@@ -261,6 +269,7 @@ export class ColumnBuilder {
     this.kind = kind;
     this.scale = scale;
     this.maxAbs = maxAbs;
+    this.maxAbsPending = false;
     this.data = next;
     this.intLimit = scale === 0 && kind !== 'float32' && kind !== 'float64' ? INT_LIMITS[kind] : 0;
   }

@@ -124,8 +124,14 @@ interface NumericSlot {
  * itself need not make a string of every cell (see DatasetAssembler.addFieldRows). With w the header's
  * width, record i has w + 1 offsets from starts[i · (w + 1)]: field f spans the bytes from offset f up
  * to one before offset f + 1 (the byte there is the delimiter or line end that closes the field); and
- * w entries from digits[i · w]: the field's value when it is a single digit, else −1.
+ * w entries from digits[i · w]: the field's value when it is a single digit, FIELD_EMPTY when it has
+ * no bytes at all, else FIELD_OTHER.
  */
+/** FieldRows.digits of a field that has no bytes at all (a missing value). */
+export const FIELD_EMPTY = -2;
+/** FieldRows.digits of a field that is neither a single digit nor empty. */
+export const FIELD_OTHER = -1;
+
 export interface FieldRows {
   /** Number of records. */
   n: number;
@@ -160,6 +166,8 @@ export class DatasetAssembler {
   private scratch = new Int8Array(0);
   /** Cells of the current batch (row · slots + slot) that need the general reader. */
   private slow = new Int32Array(0);
+  /** Per slot, the empty cells of the current batch (missing, taken on the fast path). */
+  private readonly emptyCells: Int32Array;
   private readonly bounds?: { min: number; max: number };
   private readonly maxProblems: number;
   private readonly missingCodes: MissingCodes;
@@ -200,6 +208,7 @@ export class DatasetAssembler {
       ...(r.duration === undefined ? [] : [slot(r.duration, 'duration')]),
     ].sort((a, b) => a.column - b.column);
     this.slotColumns = Int32Array.from(this.slots, (sl) => sl.column);
+    this.emptyCells = new Int32Array(this.slots.length);
     const codes = new Set(this.missingCodes.numeric);
     this.fastDigit = new Uint8Array(this.slots.length * 10);
     this.slots.forEach((sl, s) => {
@@ -297,7 +306,7 @@ export class DatasetAssembler {
       n,
       rowNumbers,
       (i, column) => records[i][column],
-      (block, slow) => fillFastCells(records, n, this.slotColumns, this.fastDigit, block, slow),
+      (block, slow, empty) => fillFastCells(records, n, this.slotColumns, this.fastDigit, block, slow, empty),
     );
   }
 
@@ -314,7 +323,8 @@ export class DatasetAssembler {
       rows.n,
       rows.rowNumbers,
       (i, column) => rows.text(starts[i * stride + column], starts[i * stride + column + 1] - 1),
-      (block, slow) => fillFastFields(digits, width, rows.n, this.slotColumns, this.fastDigit, block, slow),
+      (block, slow, empty) =>
+        fillFastFields(digits, width, rows.n, this.slotColumns, this.fastDigit, block, slow, empty),
     );
   }
 
@@ -326,7 +336,7 @@ export class DatasetAssembler {
     n: number,
     rowNumbers: readonly number[],
     cell: (record: number, column: number) => string,
-    fill: (block: Int8Array, slow: Int32Array) => number,
+    fill: (block: Int8Array, slow: Int32Array, empty: Int32Array) => number,
   ): void {
     const r = this.resolved;
     const firstProblem = this.pending.length;
@@ -354,7 +364,9 @@ export class DatasetAssembler {
     const wide: (Float64Array | undefined)[] = new Array(k);
     // Pass 1 (fill) takes the plain digits; pass 2 reads the few other cells one by one.
     if (this.slow.length < n * k) this.slow = new Int32Array(Math.max(n * k, this.slow.length * 2));
-    const slowCount = fill(scratch, this.slow);
+    const empty = this.emptyCells.fill(0);
+    const slowCount = fill(scratch, this.slow, empty);
+    for (let s = 0; s < k; s++) this.slots[s].missing += empty[s];
     for (let c = 0; c < slowCount; c++) {
       const at = this.slow[c];
       const s = at % k;
@@ -447,10 +459,11 @@ export class DatasetAssembler {
 
 /**
  * First pass over a batch of records: every cell that is a single digit allowed by `fastDigit`
- * (slot · 10 + digit) goes straight into the column-major int8 block; the others are listed in `slow`
- * as row · slots + slot for the general reader. Rows outside, columns inside, so each record is read
- * while it is in cache. A small function on its own, so the engine optimizes this loop by itself.
- * Returns the number of cells listed in `slow`. Cost O(n · slots).
+ * (slot · 10 + digit) goes straight into the column-major int8 block, and every empty cell into it as
+ * missing (counted per slot in `empty`); the others are listed in `slow` as row · slots + slot for the
+ * general reader. Rows outside, columns inside, so each record is read while it is in cache. A small
+ * function on its own, so the engine optimizes this loop by itself. Returns the number of cells listed
+ * in `slow`. Cost O(n · slots).
  */
 function fillFastCells(
   records: readonly (readonly string[])[],
@@ -459,6 +472,7 @@ function fillFastCells(
   fastDigit: Uint8Array,
   block: Int8Array,
   slow: Int32Array,
+  empty: Int32Array,
 ): number {
   const k = columns.length;
   let slowCount = 0;
@@ -472,6 +486,10 @@ function fillFastCells(
           block[s * n + i] = digit;
           continue;
         }
+      } else if (raw.length === 0) {
+        block[s * n + i] = INT8_MISSING;
+        empty[s]++;
+        continue;
       }
       slow[slowCount++] = i * k + s;
     }
@@ -479,10 +497,7 @@ function fillFastCells(
   return slowCount;
 }
 
-/**
- * fillFastCells for records given as FieldRows, from their single digits (−1 for any other field).
- * Cost O(n · slots).
- */
+/** fillFastCells for records given as FieldRows, from their digits entries. Cost O(n · slots). */
 function fillFastFields(
   digits: Int8Array,
   width: number,
@@ -491,6 +506,7 @@ function fillFastFields(
   fastDigit: Uint8Array,
   block: Int8Array,
   slow: Int32Array,
+  empty: Int32Array,
 ): number {
   const k = columns.length;
   let slowCount = 0;
@@ -500,6 +516,9 @@ function fillFastFields(
       const digit = digits[row + columns[s]];
       if (digit >= 0 && fastDigit[s * 10 + digit] === 1) {
         block[s * n + i] = digit;
+      } else if (digit === FIELD_EMPTY) {
+        block[s * n + i] = INT8_MISSING;
+        empty[s]++;
       } else {
         slow[slowCount++] = i * k + s;
       }

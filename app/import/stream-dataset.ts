@@ -8,6 +8,8 @@ import {
   DatasetAssembler,
   type DatasetOptions,
   type EncodedDataset,
+  FIELD_EMPTY,
+  FIELD_OTHER,
   numericColumns,
 } from './dataset.ts';
 import { delimiterName, detectDelimiter, detectQuote, sniffRecords } from './detect-format.ts';
@@ -113,8 +115,6 @@ const SINGLE_QUOTE = 0x27;
 const UTF8_BOM = [0xef, 0xbb, 0xbf];
 const DIGIT_ZERO = 0x30;
 const DIGIT_NINE = 0x39;
-/** FieldRows.digits entry of a field that is not a single digit. */
-const NOT_A_DIGIT = -1;
 /** First byte that is not ASCII. */
 const NON_ASCII = 0x80;
 
@@ -204,7 +204,7 @@ function splitLine(
         if (c === delimiter) break;
         if (!content && TRIMMED_BYTES[c] === 0) content = true;
       }
-      if (fields < width) digits[digitBase + fields] = NOT_A_DIGIT;
+      if (fields < width) digits[digitBase + fields] = q === p ? FIELD_EMPTY : FIELD_OTHER;
     }
     fields++;
     if (q >= end) break;

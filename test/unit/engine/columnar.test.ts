@@ -55,6 +55,38 @@ describe('compact column layout', () => {
     );
   });
 
+  it('builds the same column from int8 blocks as value by value, widening included (property)', () => {
+    const int8 = fc.oneof(fc.integer({ min: -127, max: 127 }), fc.constant(-128));
+    const step = fc.oneof(
+      fc.array(int8, { maxLength: 40 }).map((block) => ({ block })),
+      fc
+        .oneof(fc.integer({ min: -40000, max: 40000 }), fc.constantFrom(2.5, -0.25, 0.001, 1.5e9, Number.NaN))
+        .map((value) => ({ value })),
+    );
+    fc.assert(
+      fc.property(fc.array(step, { maxLength: 12 }), (steps) => {
+        const builder = new ColumnBuilder(4);
+        const values: number[] = [];
+        for (const s of steps) {
+          if ('block' in s) {
+            const block = Int8Array.from(s.block);
+            const asValues = s.block.map((v) => (v === -128 ? Number.NaN : v));
+            if (!builder.appendInt8(block)) for (const v of asValues) builder.push(v);
+            values.push(...asValues);
+          } else {
+            builder.push(s.value);
+            values.push(s.value);
+          }
+        }
+        const col = builder.finish();
+        const reference = encodeColumn(values);
+        expect([col.kind, col.scale]).toEqual([reference.kind, reference.scale]);
+        expect(sameValues(decodeColumn(col), values)).toBe(true);
+      }),
+      { numRuns: 300 },
+    );
+  });
+
   it('grows past its initial capacity', () => {
     const builder = new ColumnBuilder(2);
     for (let i = 0; i < 1000; i++) builder.push(i % 7);
