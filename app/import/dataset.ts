@@ -497,7 +497,12 @@ function fillFastCells(
   return slowCount;
 }
 
-/** fillFastCells for records given as FieldRows, from their digits entries. Cost O(n · slots). */
+/**
+ * fillFastCells for records given as FieldRows, from their digits entries. Columns outside, rows
+ * inside: a batch's digits are small enough to stay in cache, and each slot's block is then written in
+ * order (the slow cells are listed slot by slot; addBatch does not depend on their order).
+ * Cost O(n · slots).
+ */
 function fillFastFields(
   digits: Int8Array,
   width: number,
@@ -510,19 +515,23 @@ function fillFastFields(
 ): number {
   const k = columns.length;
   let slowCount = 0;
-  for (let i = 0; i < n; i++) {
-    const row = i * width;
-    for (let s = 0; s < k; s++) {
-      const digit = digits[row + columns[s]];
-      if (digit >= 0 && fastDigit[s * 10 + digit] === 1) {
-        block[s * n + i] = digit;
+  for (let s = 0; s < k; s++) {
+    const column = columns[s];
+    const out = s * n;
+    const allowed = s * 10;
+    let blanks = 0;
+    for (let i = 0; i < n; i++) {
+      const digit = digits[i * width + column];
+      if (digit >= 0 && fastDigit[allowed + digit] === 1) {
+        block[out + i] = digit;
       } else if (digit === FIELD_EMPTY) {
-        block[s * n + i] = INT8_MISSING;
-        empty[s]++;
+        block[out + i] = INT8_MISSING;
+        blanks++;
       } else {
         slow[slowCount++] = i * k + s;
       }
     }
+    empty[s] += blanks;
   }
   return slowCount;
 }

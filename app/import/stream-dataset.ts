@@ -275,7 +275,8 @@ export async function streamDataset(
     prefixLength += chunk.length;
   }
   if (byteLength === 0) throw new TableError(`${label} is empty (0 bytes)`);
-  const prefix = Buffer.concat(prefixChunks);
+  // One chunk is used as it is, so that the pieces after it can stay views of the caller's bytes.
+  const prefix = prefixChunks.length === 1 ? prefixChunks[0] : Buffer.concat(prefixChunks);
   const format = detectFormat(prefix, ended, options);
   const decoder = makeDecoder(format.encoding);
   const decode = (bytes: Uint8Array, stream: boolean): string => {
