@@ -28,12 +28,12 @@ import Papa from 'papaparse';
 import { addFacet } from '../../app/phases/construct.ts';
 import { addItem } from '../../app/phases/items.ts';
 import { automaticMapping, planImport, storeImport } from '../../app/phases/pilot.ts';
-import { readDataFile } from '../../app/phases/pilot-read.ts';
+import { READ_CHUNK_BYTES, readDataFile } from '../../app/phases/pilot-read.ts';
 import { Study } from '../../db/study.ts';
 
 const RESPONDENTS = Number(process.argv[2] ?? 100_000);
 const ITEMS = Number(process.argv[3] ?? 60);
-const REPEATS = 5;
+const REPEATS = 7;
 const TIME_TARGET = 1.5;
 const MEMORY_TARGET = 4;
 /** Fixed seed of the linear congruential generator that fills the file (bench data only). */
@@ -116,7 +116,7 @@ function papaStream(path: string): Promise<number> {
   const started = performance.now();
   return new Promise((resolve, reject) => {
     let rows = 0;
-    Papa.parse(createReadStream(path, { encoding: 'utf8', highWaterMark: 1 << 20 }), {
+    Papa.parse(createReadStream(path, { encoding: 'utf8', highWaterMark: READ_CHUNK_BYTES }), {
       delimiter: ',',
       chunk: (results: Papa.ParseResult<string[]>) => {
         rows += results.data.length;

@@ -1,10 +1,13 @@
 /**
  * Import speed and memory: a 100,000 × 60 Likert CSV (plus id and duration) is written to a temp
  * folder, then in the same run
- *   1. our import (streamDataset: decode, detect, parse, validate, build the compact columns, SHA-256)
- *      with the peak resident-memory increase sampled during the run;
- *   2. papaparse alone, streaming the same file with a chunk callback that keeps nothing;
- *   3. papaparse alone on the whole decoded string;
+ *   1. our reading as readDataFile does it (read the file, streamDataset in READ_CHUNK_BYTES pieces:
+ *      detect, split, validate, build the compact columns, SHA-256; the file is plain, so it is split
+ *      from the bytes), with the peak resident-memory increase sampled during the run;
+ *   2. the same reading through papaparse (plainText off), for comparison;
+ *   3. papaparse alone, streaming the same file in pieces of the same size, with a chunk callback that
+ *      keeps nothing;
+ *   4. papaparse alone on the whole decoded string;
  * after one untimed warm-up run of each, timed REPEATS times, alternating, and the medians printed
  * with the ratios. Run it on an otherwise idle machine: other load changes the figures.
  * Targets (issue 4): import ≤ 1.5 × papaparse alone; memory increase ≤ 4 × the file size.
@@ -17,7 +20,8 @@ import { join } from 'node:path';
 import { performance } from 'node:perf_hooks';
 import Papa from 'papaparse';
 import type { ColumnMapping } from '../../app/import/mapping.ts';
-import { streamDataset } from '../../app/import/stream-dataset.ts';
+import { isPlainText, streamDataset } from '../../app/import/stream-dataset.ts';
+import { READ_CHUNK_BYTES } from '../../app/phases/pilot-read.ts';
 
 const RESPONDENTS = Number(process.argv[2] ?? 100_000);
 const ITEMS = Number(process.argv[3] ?? 60);
@@ -61,9 +65,15 @@ const mapping: ColumnMapping = {
   ),
 };
 
-async function ours(path: string, sampleRss?: () => void): Promise<number> {
+async function* pieces(bytes: Uint8Array): AsyncGenerator<Uint8Array> {
+  for (let at = 0; at < bytes.length; at += READ_CHUNK_BYTES) yield bytes.subarray(at, at + READ_CHUNK_BYTES);
+}
+
+async function ours(path: string, plain: boolean, sampleRss?: () => void): Promise<number> {
   const started = performance.now();
-  const dataset = await streamDataset(createReadStream(path, { highWaterMark: 1 << 20 }), mapping, {
+  const bytes = readFileSync(path);
+  const dataset = await streamDataset(pieces(bytes), mapping, {
+    plainText: plain && isPlainText(bytes),
     fileName: 'bench.csv',
     scaleMin: 1,
     scaleMax: 5,
@@ -79,7 +89,7 @@ function papaStream(path: string): Promise<number> {
   const started = performance.now();
   return new Promise((resolve, reject) => {
     let rows = 0;
-    Papa.parse(createReadStream(path, { encoding: 'utf8', highWaterMark: 1 << 20 }), {
+    Papa.parse(createReadStream(path, { encoding: 'utf8', highWaterMark: READ_CHUNK_BYTES }), {
       delimiter: ',',
       chunk: (results: Papa.ParseResult<string[]>) => {
         rows += results.data.length;
@@ -113,21 +123,24 @@ async function main(): Promise<void> {
       const rss = process.memoryUsage().rss;
       if (rss > peak) peak = rss;
     };
-    const first = await ours(path, sample);
+    const first = await ours(path, true, sample);
     sample();
     const rssDelta = peak - before;
 
     // The first run of each (ours above) also compiles the code; one untimed papaparse run each
     // gives the baselines the same warm start before the timed, alternating repeats.
+    await ours(path, false);
     await papaStream(path);
     papaString(path);
     const oursTimes: number[] = [];
+    const papaPathTimes: number[] = [];
     const streamTimes: number[] = [];
     const stringTimes: number[] = [];
     for (let r = 0; r < REPEATS; r++) {
       streamTimes.push(await papaStream(path));
       stringTimes.push(papaString(path));
-      oursTimes.push(await ours(path));
+      oursTimes.push(await ours(path, true));
+      papaPathTimes.push(await ours(path, false));
     }
     console.log(`first (cold) run of our import: ${first.toFixed(0)} ms`);
     const t = median(oursTimes);
@@ -136,6 +149,9 @@ async function main(): Promise<void> {
     console.log(`papaparse alone, streaming the file:  ${s.toFixed(0)} ms (median of ${REPEATS})`);
     console.log(`papaparse alone, whole string:        ${w.toFixed(0)} ms (median of ${REPEATS})`);
     console.log(`our import (parse, validate, columns): ${t.toFixed(0)} ms (median of ${oursTimes.length})`);
+    console.log(
+      `the same through papaparse:           ${median(papaPathTimes).toFixed(0)} ms (median of ${papaPathTimes.length})`,
+    );
     console.log(
       `ratio to papaparse streaming: ${(t / s).toFixed(2)}×, to whole string: ${(t / w).toFixed(2)}× (target ≤ ${TIME_TARGET}×)`,
     );
