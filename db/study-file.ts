@@ -52,7 +52,12 @@ export function inspectStudyFile(path: string): HeaderFacts {
         `${path} is damaged: its header gives an impossible page size (${pageSize})`,
       );
     }
-    if (size % pageSize !== 0 || (pageCountValid && pageCount > 0 && size < pageCount * pageSize)) {
+    // A process stopped during a checkpoint leaves page 1 (with the new page count) written but the
+    // file not yet grown to it; the write-ahead log beside it still holds every page, and SQLite
+    // finishes the checkpoint on the next open. The page count proves truncation only without one.
+    const walSize = fs.statSync(`${path}-wal`, { throwIfNoEntry: false })?.size ?? 0;
+    const truncated = pageCountValid && pageCount > 0 && size < pageCount * pageSize && walSize === 0;
+    if (size % pageSize !== 0 || truncated) {
       throw new StudyFileError(
         'corrupt',
         `${path} is damaged or truncated: ${size} bytes, but its header promises ${pageCount} pages of ${pageSize} bytes`,
