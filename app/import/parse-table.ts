@@ -46,6 +46,41 @@ export function normalizeDelimiter(delimiter: string): string {
   return d;
 }
 
+/**
+ * The delimiter (as given, or detected from the text) and the quote character, with a warning
+ * where the choice is not certain. Shared by the whole-file and the streaming readers.
+ */
+export function chooseDelimiterAndQuote(
+  text: string,
+  requested: string | undefined,
+  warnings: string[],
+): { delimiter: string; quoteChar: string } {
+  let delimiter: string;
+  if (requested !== undefined) {
+    delimiter = normalizeDelimiter(requested);
+  } else {
+    const guess = detectDelimiter(text);
+    if (guess) {
+      delimiter = guess.delimiter;
+      if (guess.alsoPlausible.length > 0) {
+        warnings.push(
+          `the ${delimiterName(delimiter)} was taken as the delimiter; ${guess.alsoPlausible
+            .map(delimiterName)
+            .join(' and ')} would also fit: check the preview`,
+        );
+      }
+    } else {
+      delimiter = ',';
+      warnings.push(
+        'no comma, semicolon, tab or pipe splits the header row, so the file was read as a single column',
+      );
+    }
+  }
+  const quoteChar = detectQuote(text, delimiter);
+  if (quoteChar !== '"') warnings.push('fields are quoted with single quotes');
+  return { delimiter, quoteChar };
+}
+
 /** "column 3 ('q2')" or "column 3" when the header is not known. */
 export function columnLabel(index: number, header?: readonly string[]): string {
   const name = header?.[index];
@@ -182,29 +217,7 @@ export function parseTable(bytes: Uint8Array, options: ParseTableOptions = {}): 
   const text = decoded.text;
   if (text.trim() === '') throw new TableError(`${label} holds only blank space, no header row`);
 
-  let delimiter: string;
-  if (options.delimiter !== undefined) {
-    delimiter = normalizeDelimiter(options.delimiter);
-  } else {
-    const guess = detectDelimiter(text);
-    if (guess) {
-      delimiter = guess.delimiter;
-      if (guess.alsoPlausible.length > 0) {
-        warnings.push(
-          `the ${delimiterName(delimiter)} was taken as the delimiter; ${guess.alsoPlausible
-            .map(delimiterName)
-            .join(' and ')} would also fit: check the preview`,
-        );
-      }
-    } else {
-      delimiter = ',';
-      warnings.push(
-        'no comma, semicolon, tab or pipe splits the header row, so the file was read as a single column',
-      );
-    }
-  }
-  const quoteChar = detectQuote(text, delimiter);
-  if (quoteChar !== '"') warnings.push('fields are quoted with single quotes');
+  const { delimiter, quoteChar } = chooseDelimiterAndQuote(text, options.delimiter, warnings);
 
   const result = Papa.parse<string[]>(text, { delimiter, quoteChar, header: false, skipEmptyLines: false });
   const records = result.data;

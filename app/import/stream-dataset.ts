@@ -12,10 +12,16 @@ import {
   FIELD_OTHER,
   numericColumns,
 } from './dataset.ts';
-import { delimiterName, detectDelimiter, detectQuote, sniffRecords } from './detect-format.ts';
+import { sniffRecords } from './detect-format.ts';
 import { DEFAULT_MAX_BYTES, MAX_LISTED_ROWS, SNIFF_BYTES } from './limits.ts';
 import type { ColumnMapping } from './mapping.ts';
-import { checkHeader, columnLabel, fitRecord, normalizeDelimiter, quoteErrorMessage } from './parse-table.ts';
+import {
+  checkHeader,
+  chooseDelimiterAndQuote,
+  columnLabel,
+  fitRecord,
+  quoteErrorMessage,
+} from './parse-table.ts';
 import { TableError } from './table-error.ts';
 
 export interface StreamDatasetOptions extends DatasetOptions {
@@ -75,29 +81,7 @@ function detectFormat(prefix: Uint8Array, complete: boolean, options: StreamData
   assertTextual(sniffText, label);
   if (sniffText.trim() === '' && complete)
     throw new TableError(`${label} holds only blank space, no header row`);
-  let delimiter: string;
-  if (options.delimiter !== undefined) {
-    delimiter = normalizeDelimiter(options.delimiter);
-  } else {
-    const guess = detectDelimiter(sniffText);
-    if (guess) {
-      delimiter = guess.delimiter;
-      if (guess.alsoPlausible.length > 0) {
-        warnings.push(
-          `the ${delimiterName(delimiter)} was taken as the delimiter; ${guess.alsoPlausible
-            .map(delimiterName)
-            .join(' and ')} would also fit: check the preview`,
-        );
-      }
-    } else {
-      delimiter = ',';
-      warnings.push(
-        'no comma, semicolon, tab or pipe splits the header row, so the file was read as a single column',
-      );
-    }
-  }
-  const quoteChar = detectQuote(sniffText, delimiter);
-  if (quoteChar !== '"') warnings.push('fields are quoted with single quotes');
+  const { delimiter, quoteChar } = chooseDelimiterAndQuote(sniffText, options.delimiter, warnings);
   return {
     encoding: choice.encoding,
     bomLength: choice.bomLength,
