@@ -12,23 +12,15 @@
  *
  *     npx tsx test/bench/import-store.ts [respondents] [items]
  */
-import {
-  copyFileSync,
-  createReadStream,
-  mkdtempSync,
-  readFileSync,
-  rmSync,
-  statSync,
-  writeFileSync,
-} from 'node:fs';
+import { copyFileSync, mkdtempSync, readFileSync, rmSync, statSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { performance } from 'node:perf_hooks';
-import Papa from 'papaparse';
+import { median, papaStream, papaString, writeBenchCsv } from './import-baseline.ts';
 import { addFacet } from '../../app/phases/construct.ts';
 import { addItem } from '../../app/phases/items.ts';
 import { automaticMapping, planImport, storeImport } from '../../app/phases/pilot.ts';
-import { READ_CHUNK_BYTES, readDataFile } from '../../app/phases/pilot-read.ts';
+import { readDataFile } from '../../app/phases/pilot-read.ts';
 import { Study } from '../../db/study.ts';
 
 const RESPONDENTS = Number(process.argv[2] ?? 100_000);
@@ -36,30 +28,7 @@ const ITEMS = Number(process.argv[3] ?? 60);
 const REPEATS = 7;
 const TIME_TARGET = 1.5;
 const MEMORY_TARGET = 4;
-/** Fixed seed of the linear congruential generator that fills the file (bench data only). */
-const DATA_SEED = 20261201;
 const ACTOR = { user: 'bench', name: 'Import bench' };
-
-function writeData(path: string): void {
-  let state = DATA_SEED;
-  const next = () => {
-    state = (Math.imul(state, 1664525) + 1013904223) >>> 0;
-    return state / 4294967296;
-  };
-  const header = ['id', ...Array.from({ length: ITEMS }, (_, j) => `tc${j + 1}`), 'duration'].join(',');
-  const lines = [header];
-  for (let i = 0; i < RESPONDENTS; i++) {
-    const cells = [`r${i + 1}`];
-    const trait = next();
-    for (let j = 0; j < ITEMS; j++) {
-      const u = next();
-      cells.push(u < 0.01 ? '' : String(1 + Math.min(4, Math.floor(trait * 3 + u * 2.5))));
-    }
-    cells.push(String(200 + Math.floor(next() * 600)));
-    lines.push(cells.join(','));
-  }
-  writeFileSync(path, `${lines.join('\n')}\n`);
-}
 
 function emptyStudy(path: string): void {
   const study = Study.create(path, { actor: ACTOR, app: 'the import bench' });
@@ -75,11 +44,6 @@ function emptyStudy(path: string): void {
     });
   }
   study.close();
-}
-
-function median(xs: number[]): number {
-  const s = [...xs].sort((a, b) => a - b);
-  return s[s.length >> 1];
 }
 
 async function ours(
@@ -112,29 +76,6 @@ async function ours(
   }
 }
 
-function papaStream(path: string): Promise<number> {
-  const started = performance.now();
-  return new Promise((resolve, reject) => {
-    let rows = 0;
-    Papa.parse(createReadStream(path, { encoding: 'utf8', highWaterMark: READ_CHUNK_BYTES }), {
-      delimiter: ',',
-      chunk: (results: Papa.ParseResult<string[]>) => {
-        rows += results.data.length;
-      },
-      complete: () =>
-        rows > RESPONDENTS ? resolve(performance.now() - started) : reject(new Error('short parse')),
-      error: reject,
-    });
-  });
-}
-
-function papaString(path: string): number {
-  const started = performance.now();
-  const result = Papa.parse<string[]>(readFileSync(path, 'utf8'), { delimiter: ',' });
-  if (result.data.length <= RESPONDENTS) throw new Error('short parse');
-  return performance.now() - started;
-}
-
 async function main(): Promise<void> {
   const dir = mkdtempSync(join(tmpdir(), 'scalewright-bench-'));
   const dataPath = join(dir, 'responses.csv');
@@ -146,7 +87,7 @@ async function main(): Promise<void> {
     return path;
   };
   try {
-    writeData(dataPath);
+    writeBenchCsv(dataPath, RESPONDENTS, ITEMS);
     emptyStudy(template);
     const size = statSync(dataPath).size;
     console.log(`file: ${RESPONDENTS} respondents × ${ITEMS} items, ${(size / 1e6).toFixed(1)} MB`);
@@ -161,15 +102,15 @@ async function main(): Promise<void> {
     const first = await ours(dataPath, freshStudy(), sample);
     const rssDelta = peak - before;
 
-    await papaStream(dataPath);
-    papaString(dataPath);
+    await papaStream(dataPath, RESPONDENTS);
+    papaString(dataPath, RESPONDENTS);
     const oursTimes: number[] = [];
     const storeTimes: number[] = [];
     const streamTimes: number[] = [];
     const stringTimes: number[] = [];
     for (let r = 0; r < REPEATS; r++) {
-      streamTimes.push(await papaStream(dataPath));
-      stringTimes.push(papaString(dataPath));
+      streamTimes.push(await papaStream(dataPath, RESPONDENTS));
+      stringTimes.push(papaString(dataPath, RESPONDENTS));
       const path = freshStudy();
       global.gc?.();
       const run = await ours(dataPath, path);

@@ -14,11 +14,11 @@
  *
  *     npx tsx test/bench/import.ts [respondents] [items]
  */
-import { createReadStream, mkdtempSync, readFileSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, rmSync, statSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { performance } from 'node:perf_hooks';
-import Papa from 'papaparse';
+import { median, papaStream, papaString, writeBenchCsv } from './import-baseline.ts';
 import type { ColumnMapping } from '../../app/import/mapping.ts';
 import { isPlainText, streamDataset } from '../../app/import/stream-dataset.ts';
 import { READ_CHUNK_BYTES } from '../../app/phases/pilot-read.ts';
@@ -28,34 +28,6 @@ const ITEMS = Number(process.argv[3] ?? 60);
 const REPEATS = 5;
 const TIME_TARGET = 1.5;
 const MEMORY_TARGET = 4;
-/** Fixed seed of the linear congruential generator that fills the file (bench data only). */
-const DATA_SEED = 20261201;
-
-function writeFile(path: string): void {
-  let state = DATA_SEED;
-  const next = () => {
-    state = (Math.imul(state, 1664525) + 1013904223) >>> 0;
-    return state / 4294967296;
-  };
-  const header = ['id', ...Array.from({ length: ITEMS }, (_, j) => `tc${j + 1}`), 'duration'].join(',');
-  const lines = [header];
-  for (let i = 0; i < RESPONDENTS; i++) {
-    const cells = [`r${i + 1}`];
-    const trait = next();
-    for (let j = 0; j < ITEMS; j++) {
-      const u = next();
-      cells.push(u < 0.01 ? '' : String(1 + Math.min(4, Math.floor(trait * 3 + u * 2.5))));
-    }
-    cells.push(String(200 + Math.floor(next() * 600)));
-    lines.push(cells.join(','));
-  }
-  writeFileSync(path, `${lines.join('\n')}\n`);
-}
-
-function median(xs: number[]): number {
-  const s = [...xs].sort((a, b) => a - b);
-  return s[s.length >> 1];
-}
 
 const mapping: ColumnMapping = {
   id: { role: 'id' },
@@ -85,34 +57,11 @@ async function ours(path: string, plain: boolean, sampleRss?: () => void): Promi
   return elapsed;
 }
 
-function papaStream(path: string): Promise<number> {
-  const started = performance.now();
-  return new Promise((resolve, reject) => {
-    let rows = 0;
-    Papa.parse(createReadStream(path, { encoding: 'utf8', highWaterMark: READ_CHUNK_BYTES }), {
-      delimiter: ',',
-      chunk: (results: Papa.ParseResult<string[]>) => {
-        rows += results.data.length;
-      },
-      complete: () =>
-        rows > RESPONDENTS ? resolve(performance.now() - started) : reject(new Error('short parse')),
-      error: reject,
-    });
-  });
-}
-
-function papaString(path: string): number {
-  const started = performance.now();
-  const result = Papa.parse<string[]>(readFileSync(path, 'utf8'), { delimiter: ',' });
-  if (result.data.length <= RESPONDENTS) throw new Error('short parse');
-  return performance.now() - started;
-}
-
 async function main(): Promise<void> {
   const dir = mkdtempSync(join(tmpdir(), 'scalewright-bench-'));
   const path = join(dir, 'responses.csv');
   try {
-    writeFile(path);
+    writeBenchCsv(path, RESPONDENTS, ITEMS);
     const size = statSync(path).size;
     console.log(`file: ${RESPONDENTS} respondents × ${ITEMS} items, ${(size / 1e6).toFixed(1)} MB`);
 
@@ -130,15 +79,15 @@ async function main(): Promise<void> {
     // The first run of each (ours above) also compiles the code; one untimed papaparse run each
     // gives the baselines the same warm start before the timed, alternating repeats.
     await ours(path, false);
-    await papaStream(path);
-    papaString(path);
+    await papaStream(path, RESPONDENTS);
+    papaString(path, RESPONDENTS);
     const oursTimes: number[] = [];
     const papaPathTimes: number[] = [];
     const streamTimes: number[] = [];
     const stringTimes: number[] = [];
     for (let r = 0; r < REPEATS; r++) {
-      streamTimes.push(await papaStream(path));
-      stringTimes.push(papaString(path));
+      streamTimes.push(await papaStream(path, RESPONDENTS));
+      stringTimes.push(papaString(path, RESPONDENTS));
       oursTimes.push(await ours(path, true));
       papaPathTimes.push(await ours(path, false));
     }

@@ -9,10 +9,12 @@ import { fileURLToPath } from 'node:url';
 
 const here = path.dirname(fileURLToPath(import.meta.url));
 const tsx = path.join(here, '..', '..', 'node_modules', 'tsx', 'dist', 'cli.mjs');
+/** Files here that are not benchmarks: this runner and what the import benchmarks share. */
+const SHARED = new Set(['run.ts', 'import-baseline.ts']);
 const only = process.argv[2];
 const benches = fs
   .readdirSync(here)
-  .filter((f) => f.endsWith('.ts') && f !== 'run.ts' && (!only || f.includes(only)))
+  .filter((f) => f.endsWith('.ts') && !SHARED.has(f) && (!only || f.includes(only)))
   .sort();
 let failed = 0;
 for (const file of benches) {
