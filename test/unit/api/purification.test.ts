@@ -3,13 +3,11 @@ import path from 'node:path';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { dispatch } from '../../../app/api/dispatch.ts';
 import { Session } from '../../../app/api/session.ts';
-import { streamDataset } from '../../../app/import/stream-dataset.ts';
 import { addFacet } from '../../../app/phases/construct.ts';
 import type { RoundDetail, RoundSummary } from '../../../app/phases/purification.ts';
 import type { TaskStatus } from '../../../app/workers/tasks.ts';
-import { insertDataset } from '../../../db/repos/datasets.ts';
-import { insertItem } from '../../../db/repos/items.ts';
 import { listRounds } from '../../../db/repos/purification.ts';
+import { insertFixturePool, responsesCsv, storeCsv } from '../../helpers/study-data.ts';
 import { TEST_ACTOR, tempDir } from '../../helpers/tmp.ts';
 
 /** Invented pilot responses and their expected round-1 values: test/reference/purification.py (numpy + scipy). */
@@ -35,58 +33,14 @@ afterEach(async () => {
   tmp.cleanup();
 });
 
-async function* chunks(bytes: Uint8Array) {
-  yield bytes;
-}
-
 /** Facets, the item pool and the pilot file of the fixture, put into the open study. */
 async function fillStudy(): Promise<void> {
   const study = session.study;
   const facets: Record<string, number> = {};
   for (const prefix of ['TR', 'RP', 'BH', 'RR']) facets[prefix] = addFacet(study, `Facet ${prefix}`, '');
-  study.change({ phase: 'items', kind: 'imported', target: 'test pool' }, () => {
-    for (const code of fixture.codes) {
-      insertItem(
-        study,
-        {
-          code,
-          text: `Test wording of ${code}`,
-          facetId: facets[code === fixture.offDomain ? 'TR' : code.slice(0, 2)],
-          keying: fixture.reverse.includes(code) ? 'reverse' : 'forward',
-          sourceType: 'own-drafting',
-          sourceNote: '',
-          state: 'kept',
-        },
-        'drafted',
-        new Date().toISOString(),
-      );
-    }
-  });
-  const csv = `rid,${fixture.codes.join(',')}\n${fixture.rows.map((row, r) => `p${r + 1},${row.map((x) => x ?? '').join(',')}`).join('\n')}\n`;
-  const bytes = new TextEncoder().encode(csv);
-  const mapping: Record<string, { role: 'id' } | { role: 'item'; itemCode: string }> = {
-    rid: { role: 'id' },
-  };
-  for (const code of fixture.codes) mapping[code] = { role: 'item', itemCode: code };
-  const dataset = await streamDataset(chunks(bytes), mapping, { fileName: 'pilot.csv' });
-  study.change({ phase: 'pilot', kind: 'imported', target: 'pilot.csv' }, () =>
-    insertDataset(study, {
-      role: 'pilot',
-      name: 'Pilot',
-      fileName: 'pilot.csv',
-      fileSha256: dataset.sha256,
-      fileBytes: bytes,
-      reading: {
-        encoding: dataset.encoding,
-        delimiter: dataset.delimiter,
-        decimalMark: dataset.decimalMark,
-        missingCodes: dataset.missingCodes,
-        header: dataset.header,
-      },
-      mapping,
-      dataset,
-    }),
-  );
+  insertFixturePool(study, fixture, facets);
+  const { csv, mapping } = responsesCsv(fixture.codes, fixture.rows);
+  await storeCsv(study, csv, mapping);
 }
 
 async function ok<T>(name: string, input: unknown): Promise<T> {

@@ -1,21 +1,12 @@
 import path from 'node:path';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
-import { streamDataset } from '../../../app/import/stream-dataset.ts';
 import { analysisData } from '../../../app/phases/analysis-data.ts';
-import {
-  currentExclusions,
-  insertDataset,
-  insertExclusions,
-  loadDatasetFile,
-} from '../../../db/repos/datasets.ts';
+import { currentExclusions, insertExclusions, loadDatasetFile } from '../../../db/repos/datasets.ts';
 import { Study } from '../../../db/study.ts';
+import { storeCsv } from '../../helpers/study-data.ts';
 import { TEST_ACTOR, tempDir } from '../../helpers/tmp.ts';
 
 const CSV = 'rid,q1,q2,q3,grp\nr1,1,2,3,a\nr2,4,-9,5,b\nr3,2,2,,a\nr4,5,4,3,b\n';
-
-async function* chunks(bytes: Uint8Array) {
-  yield bytes;
-}
 
 let tmp: ReturnType<typeof tempDir>;
 let study: Study;
@@ -28,44 +19,24 @@ afterEach(() => {
   tmp.cleanup();
 });
 
-async function storeCsv(): Promise<number> {
-  const bytes = new TextEncoder().encode(CSV);
-  const mapping = {
-    rid: { role: 'id' as const },
-    q1: { role: 'item' as const, itemCode: 'Q1' },
-    q2: { role: 'item' as const, itemCode: 'Q2' },
-    q3: { role: 'item' as const, itemCode: 'Q3' },
-    grp: { role: 'group' as const },
-  };
-  const dataset = await streamDataset(chunks(bytes), mapping, {
-    fileName: 'pilot.csv',
-    missingCodes: { text: [], numeric: [-9] },
-    scaleMin: 1,
-    scaleMax: 5,
-  });
-  return study.change({ phase: 'pilot', kind: 'imported', target: 'pilot.csv' }, () =>
-    insertDataset(study, {
-      role: 'pilot',
-      name: 'Pilot',
-      fileName: 'pilot.csv',
-      fileSha256: dataset.sha256,
-      fileBytes: bytes,
-      reading: {
-        encoding: dataset.encoding,
-        delimiter: dataset.delimiter,
-        decimalMark: dataset.decimalMark,
-        missingCodes: dataset.missingCodes,
-        header: dataset.header,
-      },
-      mapping,
-      dataset,
-    }),
+function storePilot(): Promise<number> {
+  return storeCsv(
+    study,
+    CSV,
+    {
+      rid: { role: 'id' },
+      q1: { role: 'item', itemCode: 'Q1' },
+      q2: { role: 'item', itemCode: 'Q2' },
+      q3: { role: 'item', itemCode: 'Q3' },
+      grp: { role: 'group' },
+    },
+    { missingCodes: { text: [], numeric: [-9] }, scaleMin: 1, scaleMax: 5 },
   );
 }
 
 describe('stored datasets and the data an analysis reads', () => {
   it('gives back the responses as imported, with missing codes as null, in the order asked', async () => {
-    const id = await storeCsv();
+    const id = await storePilot();
     const read = analysisData(study, id, ['Q3', 'Q1']);
     expect(read.data).toEqual([
       [3, 1],
@@ -82,7 +53,7 @@ describe('stored datasets and the data an analysis reads', () => {
   });
 
   it('leaves out the respondents excluded now, and a later decision reverses an exclusion', async () => {
-    const id = await storeCsv();
+    const id = await storePilot();
     study.change({ phase: 'pilot', kind: 'excluded', target: 'r2' }, () =>
       insertExclusions(study, id, [{ respondent: 1, excluded: true, reason: 'straight-lining' }]),
     );
@@ -99,7 +70,7 @@ describe('stored datasets and the data an analysis reads', () => {
   });
 
   it('names items the dataset does not have', async () => {
-    const id = await storeCsv();
+    const id = await storePilot();
     expect(() => analysisData(study, id, ['Q1', 'Q9'])).toThrow(
       'dataset "Pilot" has no column mapped to item Q9',
     );

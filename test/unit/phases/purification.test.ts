@@ -4,7 +4,6 @@ import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { fillDemoStudy } from '../../../app/demo/index.ts';
 import { DEMO_OFF_DOMAIN_ITEM } from '../../../app/demo/items.ts';
 import { DEMO_STRAIGHT_LINERS } from '../../../app/demo/pilot.ts';
-import { streamDataset } from '../../../app/import/stream-dataset.ts';
 import { analysisData, currentPilotDataset } from '../../../app/phases/analysis-data.ts';
 import { addFacet } from '../../../app/phases/construct.ts';
 import { RuleError } from '../../../app/phases/errors.ts';
@@ -24,11 +23,11 @@ import {
 } from '../../../app/phases/purification.ts';
 import { JOBS } from '../../../app/workers/jobs.ts';
 import { getRun } from '../../../db/repos/analysis-runs.ts';
-import { currentExclusions, insertDataset, insertExclusions } from '../../../db/repos/datasets.ts';
-import { insertItem } from '../../../db/repos/items.ts';
+import { currentExclusions, insertExclusions } from '../../../db/repos/datasets.ts';
 import { setPhaseStatus } from '../../../db/repos/phase-state.ts';
 import { listDecisions, listRounds } from '../../../db/repos/purification.ts';
 import { Study } from '../../../db/study.ts';
+import { insertFixturePool, responsesCsv, storeCsv } from '../../helpers/study-data.ts';
 import { TEST_ACTOR, tempDir } from '../../helpers/tmp.ts';
 
 /**
@@ -78,63 +77,17 @@ beforeEach(() => {
   tmp = tempDir();
   study = Study.create(path.join(tmp.dir, 's.scalewright'), { actor: TEST_ACTOR, app: 'test' });
   for (const [prefix, name, definition] of FACETS) facetIds[prefix] = addFacet(study, name, definition);
-  study.change({ phase: 'items', kind: 'imported', target: 'test pool' }, () => {
-    for (const code of fixture.codes) {
-      insertItem(
-        study,
-        {
-          code,
-          text: `Test wording of ${code}`,
-          facetId: facetIds[code === fixture.offDomain ? 'TR' : code.slice(0, 2)],
-          keying: fixture.reverse.includes(code) ? 'reverse' : 'forward',
-          sourceType: 'own-drafting',
-          sourceNote: '',
-          state: 'kept',
-        },
-        'drafted',
-        new Date().toISOString(),
-      );
-    }
-  });
+  insertFixturePool(study, fixture, facetIds);
 });
 afterEach(() => {
   study.close();
   tmp.cleanup();
 });
 
-async function* chunks(bytes: Uint8Array) {
-  yield bytes;
-}
-
+/** Stores the given respondents × items as the pilot dataset (no missing codes: blanks only). */
 async function storePilot(rows: (number | null)[][], codes: string[], name = 'Pilot'): Promise<number> {
-  const csv = `rid,${codes.join(',')}\n${rows.map((row, r) => `p${r + 1},${row.map((x) => x ?? '').join(',')}`).join('\n')}\n`;
-  const bytes = new TextEncoder().encode(csv);
-  const mapping: Record<string, { role: 'id' } | { role: 'item'; itemCode: string }> = {
-    rid: { role: 'id' },
-  };
-  for (const code of codes) mapping[code] = { role: 'item', itemCode: code };
-  const dataset = await streamDataset(chunks(bytes), mapping, {
-    fileName: `${name}.csv`,
-    missingCodes: { text: [], numeric: [] },
-  });
-  return study.change({ phase: 'pilot', kind: 'imported', target: `${name}.csv` }, () =>
-    insertDataset(study, {
-      role: 'pilot',
-      name,
-      fileName: `${name}.csv`,
-      fileSha256: dataset.sha256,
-      fileBytes: bytes,
-      reading: {
-        encoding: dataset.encoding,
-        delimiter: dataset.delimiter,
-        decimalMark: dataset.decimalMark,
-        missingCodes: dataset.missingCodes,
-        header: dataset.header,
-      },
-      mapping,
-      dataset,
-    }),
-  );
+  const { csv, mapping } = responsesCsv(codes, rows);
+  return storeCsv(study, csv, mapping, { name, missingCodes: { text: [], numeric: [] } });
 }
 
 function excludeStraightLiners(datasetId: number) {

@@ -1,0 +1,95 @@
+import { streamDataset } from '../../app/import/stream-dataset.ts';
+import type { ColumnMapping } from '../../app/import/mapping.ts';
+import type { MissingCodes } from '../../app/import/numbers.ts';
+import { type DatasetRole, insertDataset } from '../../db/repos/datasets.ts';
+import { insertItem } from '../../db/repos/items.ts';
+import type { Study } from '../../db/study.ts';
+
+async function* once(bytes: Uint8Array) {
+  yield bytes;
+}
+
+/**
+ * Stores a CSV in a study as a dataset, read by the streaming reader and logged, without the
+ * import screens: for tests of what analyses do with stored data. Returns the dataset id.
+ */
+export async function storeCsv(
+  study: Study,
+  csv: string,
+  mapping: ColumnMapping,
+  options: {
+    name?: string;
+    role?: DatasetRole;
+    missingCodes?: MissingCodes;
+    scaleMin?: number;
+    scaleMax?: number;
+  } = {},
+): Promise<number> {
+  const name = options.name ?? 'Pilot';
+  const fileName = `${name}.csv`;
+  const bytes = new TextEncoder().encode(csv);
+  const dataset = await streamDataset(once(bytes), mapping, {
+    fileName,
+    missingCodes: options.missingCodes,
+    scaleMin: options.scaleMin,
+    scaleMax: options.scaleMax,
+  });
+  return study.change({ phase: 'pilot', kind: 'imported', target: fileName }, () =>
+    insertDataset(study, {
+      role: options.role ?? 'pilot',
+      name,
+      fileName,
+      fileSha256: dataset.sha256,
+      fileBytes: bytes,
+      reading: {
+        encoding: dataset.encoding,
+        delimiter: dataset.delimiter,
+        decimalMark: dataset.decimalMark,
+        missingCodes: dataset.missingCodes,
+        header: dataset.header,
+      },
+      mapping,
+      dataset,
+    }),
+  );
+}
+
+/** Respondents × items as a CSV with an id column `rid` (p1, p2, …), blank where missing, and its mapping. */
+export function responsesCsv(
+  codes: string[],
+  rows: (number | null)[][],
+): { csv: string; mapping: ColumnMapping } {
+  const csv = `rid,${codes.join(',')}\n${rows.map((row, r) => `p${r + 1},${row.map((x) => x ?? '').join(',')}`).join('\n')}\n`;
+  const mapping: ColumnMapping = { rid: { role: 'id' } };
+  for (const code of codes) mapping[code] = { role: 'item', itemCode: code };
+  return { csv, mapping };
+}
+
+/**
+ * The item pool of test/reference/fixtures/purification.json: one item per code, filed under the
+ * facet its prefix names (the off-domain item under TR), reverse-keyed where the fixture says.
+ */
+export function insertFixturePool(
+  study: Study,
+  fixture: { codes: string[]; reverse: string[]; offDomain: string },
+  facetIds: Record<string, number>,
+): void {
+  study.change({ phase: 'items', kind: 'imported', target: 'test pool' }, () => {
+    for (const code of fixture.codes) {
+      insertItem(
+        study,
+        {
+          code,
+          text: `Test wording of ${code}`,
+          facetId: facetIds[code === fixture.offDomain ? 'TR' : code.slice(0, 2)],
+          keying: fixture.reverse.includes(code) ? 'reverse' : 'forward',
+          sourceType: 'own-drafting',
+          sourceNote: '',
+          state: 'kept',
+        },
+        'drafted',
+        new Date().toISOString(),
+      );
+    }
+  });
+}
