@@ -1,0 +1,74 @@
+import { EngineError } from '../errors.ts';
+import { RELIABILITY_METHODS } from './reliability.ts';
+import type { Reference, RegistryEntry } from './types.ts';
+
+export type { MethodEntry, Reference, RegistryEntry, RuleEntry } from './types.ts';
+
+/**
+ * Every entry of the methods registry, by id. Each area of the engine keeps its entries in a file of
+ * its own beside this one and lists them here.
+ */
+export const METHODS: ReadonlyMap<string, RegistryEntry> = buildRegistry([...RELIABILITY_METHODS]);
+
+function buildRegistry(entries: RegistryEntry[]): ReadonlyMap<string, RegistryEntry> {
+  const map = new Map<string, RegistryEntry>();
+  for (const entry of entries) {
+    if (map.has(entry.id)) throw new EngineError(`methods registry: id "${entry.id}" appears twice`);
+    if (entry.references.length === 0 && !(entry.kind === 'rule' && entry.commonPractice))
+      throw new EngineError(`methods registry: "${entry.id}" has no reference`);
+    map.set(entry.id, entry);
+  }
+  return map;
+}
+
+/** The entry for an id; throws EngineError for an id the registry does not hold. */
+export function methodEntry(id: string): RegistryEntry {
+  const entry = METHODS.get(id);
+  if (!entry) throw new EngineError(`methods registry has no entry "${id}"`);
+  return entry;
+}
+
+/**
+ * One reference in the registry's one style (author–year, sentence-case title, journal in full):
+ * `Cronbach, L. J. (1951). Coefficient alpha and the internal structure of tests. Psychometrika,
+ * 16(3), 297–334. https://doi.org/10.1007/BF02310555`. Plain text; a renderer adds italics.
+ */
+export function formatReference(ref: Reference): string {
+  const parts = [`${authorList(ref.authors)} (${ref.year}). ${ref.title}.`];
+  if (ref.container) {
+    let where = ref.container;
+    if (ref.volume) where += `, ${ref.volume}${ref.issue ? `(${ref.issue})` : ''}`;
+    if (ref.pages) where += `, ${ref.pages}`;
+    parts.push(`${where}.`);
+  }
+  if (ref.edition) parts.push(`${ref.edition} ed.`);
+  if (ref.publisher) parts.push(`${ref.publisher}.`);
+  if (ref.doi) parts.push(`https://doi.org/${ref.doi}`);
+  if (ref.fromMemory) parts.push('[Details from memory.]');
+  return parts.join(' ');
+}
+
+function authorList(authors: string[]): string {
+  if (authors.length <= 1) return authors.join('');
+  return `${authors.slice(0, -1).join(', ')}, & ${authors[authors.length - 1]}`;
+}
+
+/** Short in-text citation: "Cronbach (1951)", "Polit & Beck (2006)", "Polit et al. (2007)". */
+export function citation(ref: Reference): string {
+  const surnames = ref.authors.map((a) => a.split(',')[0].trim());
+  const who =
+    surnames.length === 1
+      ? surnames[0]
+      : surnames.length === 2
+        ? `${surnames[0]} & ${surnames[1]}`
+        : `${surnames[0]} et al.`;
+  return `${who} (${ref.year})`;
+}
+
+/** The `methods` field of an analysis's JSON: each id with its references in the one style. */
+export function methodsField(ids: readonly string[]): { id: string; reference: string }[] {
+  return [...new Set(ids)].map((id) => ({
+    id,
+    reference: methodEntry(id).references.map(formatReference).join(' '),
+  }));
+}
