@@ -5,8 +5,8 @@ export const Z_95 = 1.96;
 
 /** Standard error of measurement and the minimal detectable change built on it. */
 export interface MeasurementError {
-  /** Which reliability coefficient the SEM uses. */
-  basis: 'alpha';
+  /** Which reliability coefficient the SEM uses: alpha, or an intraclass correlation (test–retest). */
+  basis: 'alpha' | 'icc';
   reliability: number;
   sdTotal: number;
   sem: number;
@@ -22,7 +22,11 @@ export interface MeasurementError {
  * Throws EngineError when SD is negative or not finite, or rₓₓ is above 1 or not finite. A negative
  * reliability is accepted (SEM then exceeds SD); callers warn about it.
  */
-export function measurementError(sdTotal: number, reliability: number): MeasurementError {
+export function measurementError(
+  sdTotal: number,
+  reliability: number,
+  basis: MeasurementError['basis'] = 'alpha',
+): MeasurementError {
   if (!Number.isFinite(sdTotal) || sdTotal < 0) {
     throw new EngineError(`the SEM needs a non-negative standard deviation (got ${sdTotal})`);
   }
@@ -30,5 +34,5 @@ export function measurementError(sdTotal: number, reliability: number): Measurem
     throw new EngineError(`the SEM needs a reliability of at most 1 (got ${reliability})`, 'reliability');
   }
   const sem = sdTotal * Math.sqrt(1 - reliability);
-  return { basis: 'alpha', reliability, sdTotal, sem, mdc95: Z_95 * Math.SQRT2 * sem };
+  return { basis, reliability, sdTotal, sem, mdc95: Z_95 * Math.SQRT2 * sem };
 }
