@@ -99,7 +99,8 @@ export function iccAnova(data: (number | null)[][]): IccAnova {
  * @example intraclassCorrelations([[9, 2, 5, 8], [6, 1, 3, 2], …]).forms[1].value // ≈ 0.29
  */
 export function intraclassCorrelations(data: (number | null)[][], level = DEFAULT_ICC_LEVEL): IccResult {
-  if (!(level > 0 && level < 1)) throw new EngineError(`a confidence level must lie strictly between 0 and 1 (got ${level})`);
+  if (!(level > 0 && level < 1))
+    throw new EngineError(`a confidence level must lie strictly between 0 and 1 (got ${level})`);
   const a = iccAnova(data);
   const { n, k, bms, wms, jms, ems } = a;
   const q = 1 - (1 - level) / 2;
@@ -151,7 +152,8 @@ export function intraclassCorrelations(data: (number | null)[][], level = DEFAUL
     const value = (bms - ems) / (bms + (k - 1) * ems + (k * (jms - ems)) / n);
     const aa = (k * value) / (n * (1 - value));
     const bb = 1 + (k * value * (n - 1)) / (n * (1 - value));
-    const v = (aa * jms + bb * ems) ** 2 / ((aa * jms) ** 2 / (k - 1) + (bb * ems) ** 2 / ((n - 1) * (k - 1)));
+    const v =
+      (aa * jms + bb * ems) ** 2 / ((aa * jms) ** 2 / (k - 1) + (bb * ems) ** 2 / ((n - 1) * (k - 1)));
     const fStar = fQuantile(q, n - 1, v);
     const fStar2 = fQuantile(q, v, n - 1);
     const lower = (n * (bms - fStar * ems)) / (fStar * (k * jms + (k * n - k - n) * ems) + n * bms);
@@ -224,7 +226,7 @@ export function intraclassCorrelations(data: (number | null)[][], level = DEFAUL
 /**
  * Standard error of measurement and minimal detectable change from an intraclass correlation, for
  * test–retest data: SD is pooled over the occasions (the root mean of the column variances, divisor
- * n − 1), SEM = SD·√(1 − ICC), MDC95 = 1.96·√2·SEM. Registry: `sem.classical`, `mdc.95`.
+ * n − 1), SEM = SD·√(1 − ICC), MDC95 = 1.96·√2·SEM. Registry: `icc.sem`, `icc.mdc95`.
  *
  * Cost: O(n·k). Throws EngineError as iccAnova does, and when the ICC is above 1.
  */

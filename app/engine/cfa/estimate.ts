@@ -37,9 +37,9 @@ interface GroupState {
 
 /** dΣ = x·yᵀ + y·xᵀ and dμ of one parameter in one group. */
 interface Term {
-  x: number[];
-  y: number[];
-  mu: number[] | null;
+  x: Vec;
+  y: Vec;
+  mu: Vec;
 }
 
 /** The result of minimizing F_ML. */
@@ -144,52 +144,74 @@ function evaluateGroup(m: GroupMatrices, g: PreparedGroup, meanStructure: boolea
   return { m, lp, sigma, mu, w: inv.inv, f };
 }
 
-function unit(p: number, i: number, scale = 1): number[] {
-  const v = new Array<number>(p).fill(0);
-  v[i] = scale;
-  return v;
+/**
+ * A derivative vector: dense, a scaled unit vector (most parameters touch one item), or zero. Keeping
+ * unit vectors sparse turns the O(p) products of the information matrix into O(1) lookups.
+ */
+type Vec = number[] | { at: number; scale: number } | null;
+
+/** aᵀb for a dense (or zero) a. */
+function vdot(a: number[] | null, b: Vec): number {
+  if (a === null || b === null) return 0;
+  if (Array.isArray(b)) return dot(a, b);
+  return a[b.at] * b.scale;
+}
+
+/** W·b (W symmetric), dense, or null for a zero b. */
+function wv(w: number[][], b: Vec): number[] | null {
+  if (b === null) return null;
+  if (Array.isArray(b)) return matVec(w, b);
+  return w[b.at].map((v) => v * b.scale);
 }
 
 /** The derivative of Σ and μ with respect to the entry a slot fills. */
-function slotTerm(matrix: MatrixName, row: number, col: number, st: GroupState, meanStructure: boolean): Term {
-  const p = st.sigma.length;
+function slotTerm(
+  matrix: MatrixName,
+  row: number,
+  col: number,
+  st: GroupState,
+  meanStructure: boolean,
+): Term {
   const lambdaCol = (j: number) => st.m.lambda.map((r) => r[j]);
   switch (matrix) {
     case 'lambda':
       return {
-        x: unit(p, row),
+        x: { at: row, scale: 1 },
         y: st.lp.map((r) => r[col]),
-        mu: meanStructure && st.m.alpha[col] !== 0 ? unit(p, row, st.m.alpha[col]) : null,
+        mu: meanStructure && st.m.alpha[col] !== 0 ? { at: row, scale: st.m.alpha[col] } : null,
       };
     case 'phi':
       return row === col
         ? { x: lambdaCol(row), y: lambdaCol(row).map((v) => v / 2), mu: null }
         : { x: lambdaCol(row), y: lambdaCol(col), mu: null };
     case 'theta':
-      return row === col ? { x: unit(p, row), y: unit(p, row, 0.5), mu: null } : { x: unit(p, row), y: unit(p, col), mu: null };
+      return { x: { at: row, scale: 1 }, y: { at: col, scale: row === col ? 0.5 : 1 }, mu: null };
     case 'nu':
-      return { x: new Array<number>(p).fill(0), y: new Array<number>(p).fill(0), mu: unit(p, row) };
+      return { x: null, y: null, mu: { at: row, scale: 1 } };
     case 'alpha':
-      return { x: new Array<number>(p).fill(0), y: new Array<number>(p).fill(0), mu: lambdaCol(row) };
+      return { x: null, y: null, mu: lambdaCol(row) };
   }
 }
 
 /** A term with its Σ⁻¹-products precomputed, for the information matrix. */
 interface WTerm extends Term {
-  wx: number[];
-  wy: number[];
+  wx: number[] | null;
+  wy: number[] | null;
   wmu: number[] | null;
 }
 
 function withW(t: Term, w: number[][]): WTerm {
-  return { ...t, wx: matVec(w, t.x), wy: matVec(w, t.y), wmu: t.mu ? matVec(w, t.mu) : null };
+  return { ...t, wx: wv(w, t.x), wy: wv(w, t.y), wmu: wv(w, t.mu) };
 }
 
 /** Expected Hessian entry of F_g between two terms: tr(W dΣ_a W dΣ_b) + 2 dμ_aᵀ W dμ_b. */
 function termProduct(a: WTerm, b: Term): number {
-  let v = 2 * (dot(a.wx, b.x) * dot(a.wy, b.y) + dot(a.wx, b.y) * dot(a.wy, b.x));
-  if (a.wmu && b.mu) v += 2 * dot(a.wmu, b.mu);
-  return v;
+  return 2 * (vdot(a.wx, b.x) * vdot(a.wy, b.y) + vdot(a.wx, b.y) * vdot(a.wy, b.x) + vdot(a.wmu, b.mu));
+}
+
+/** dF_g for one term: tr(G dΣ) + hᵀdμ = 2xᵀGy + hᵀdμ. */
+function termGradient(t: Term, G: number[][], h: number[] | null): number {
+  return 2 * vdot(wv(G, t.y), t.x) + vdot(h, t.mu);
 }
 
 /** Everything the optimizer and the modification hints evaluate at one parameter vector. */
@@ -246,7 +268,7 @@ export class Objective {
           if (s.group !== g) continue;
           const t = withW(slotTerm(s.matrix, s.row, s.col, st, this.table.meanStructure), st.w);
           terms.push({ a, t });
-          gradient[a] += weight * (2 * dot(t.x, matVec(G, t.y)) + (h && t.mu ? dot(h, t.mu) : 0));
+          gradient[a] += weight * termGradient(t, G, h);
         }
       });
       for (let r = 0; r < terms.length; r++) {
@@ -276,7 +298,8 @@ export class Objective {
       const free: { a: number; t: Term }[] = [];
       this.table.params.forEach((param, a) => {
         for (const s of param.slots) {
-          if (s.group === g) free.push({ a, t: slotTerm(s.matrix, s.row, s.col, st, this.table.meanStructure) });
+          if (s.group === g)
+            free.push({ a, t: slotTerm(s.matrix, s.row, s.col, st, this.table.meanStructure) });
         }
       });
       return { G, h, free };
@@ -286,7 +309,7 @@ export class Objective {
       const { G, h, free } = perGroup[slot.group];
       const weight = this.groups[slot.group].weight;
       const t = withW(slotTerm(slot.matrix, slot.row, slot.col, st, this.table.meanStructure), st.w);
-      const gradient = weight * (2 * dot(t.x, matVec(G, t.y)) + (h && t.mu ? dot(h, t.mu) : 0));
+      const gradient = weight * termGradient(t, G, h);
       const cross = new Array<number>(this.q).fill(0);
       for (const f of free) cross[f.a] += weight * termProduct(t, f.t);
       return { gradient, self: weight * termProduct(t, t), cross };
@@ -333,7 +356,10 @@ export function solveSpd(h: number[][], b: number[]): number[] {
 export function minimizeMl(objective: Objective, start: number[]): Estimate {
   let theta = [...start];
   let states = objective.states(theta);
-  if (!states) throw new EngineError('the starting values give an implied covariance matrix that is not positive definite');
+  if (!states)
+    throw new EngineError(
+      'the starting values give an implied covariance matrix that is not positive definite',
+    );
   let f = objective.value(states);
   let converged = false;
   let iterations = 0;

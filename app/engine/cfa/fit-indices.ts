@@ -98,18 +98,20 @@ export function fitIndices(
 /**
  * Standardized residuals s_ij/√(s_ii s_jj) − σ_ij/√(σ_ii σ_jj) (the observed minus the implied
  * correlations) and SRMR, the root mean square over the p(p + 1)/2 entries on and below the diagonal
- * (Bentler 1995, from memory; the diagonal entries are zero). Registry: `fit.srmr`.
+ * (Hu & Bentler 1999; the diagonal entries are zero). Registry: `fit.srmr`.
  *
  * Cost: O(p²).
  */
-export function standardizedResiduals(s: number[][], sigma: number[][]): { residuals: number[][]; srmr: number } {
+export function standardizedResiduals(
+  s: number[][],
+  sigma: number[][],
+): { residuals: number[][]; srmr: number } {
   const p = s.length;
   const residuals = Array.from({ length: p }, () => new Array<number>(p).fill(0));
   let sum = 0;
   for (let i = 0; i < p; i++) {
     for (let j = 0; j < i; j++) {
-      const r =
-        s[i][j] / Math.sqrt(s[i][i] * s[j][j]) - sigma[i][j] / Math.sqrt(sigma[i][i] * sigma[j][j]);
+      const r = s[i][j] / Math.sqrt(s[i][i] * s[j][j]) - sigma[i][j] / Math.sqrt(sigma[i][i] * sigma[j][j]);
       residuals[i][j] = r;
       residuals[j][i] = r;
       sum += r * r;

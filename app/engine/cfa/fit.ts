@@ -90,7 +90,9 @@ function startMatrices(table: ParameterTable, s: number[][], means: number[] | u
     let load: number[];
     if (k >= 3) {
       const block = idx.map((a) => idx.map((b) => s[a][b]));
-      const diag = idx.map((a, r) => Math.max(...idx.filter((b) => b !== a).map((b) => Math.abs(s[a][b]))) || 0.5 * block[r][r]);
+      const diag = idx.map(
+        (a, r) => Math.max(...idx.filter((b) => b !== a).map((b) => Math.abs(s[a][b]))) || 0.5 * block[r][r],
+      );
       load = new Array<number>(k).fill(0);
       for (let iter = 0; iter < 10; iter++) {
         const reduced = block.map((row, r) => row.map((v, c) => (r === c ? diag[r] : v)));
@@ -144,7 +146,13 @@ function startMatrices(table: ParameterTable, s: number[][], means: number[] | u
       for (let j = 0; j < m; j++) for (let k = 0; k < m; k++) if (j !== k) phi[j][k] *= 0.5;
     }
   }
-  return { lambda, phi, theta, nu: means ? [...means] : new Array<number>(p).fill(0), alpha: new Array<number>(m).fill(0) };
+  return {
+    lambda,
+    phi,
+    theta,
+    nu: means ? [...means] : new Array<number>(p).fill(0),
+    alpha: new Array<number>(m).fill(0),
+  };
 }
 
 function slotValue(m: GroupMatrices, s: Slot): number {
@@ -156,7 +164,11 @@ function slotValue(m: GroupMatrices, s: Slot): number {
 }
 
 /** Standardized loadings (p × m), factor correlations and standardized residual variances of one group. */
-function standardize(m: GroupMatrices): { loadings: number[][]; correlations: number[][]; residual: number[] } {
+function standardize(m: GroupMatrices): {
+  loadings: number[][];
+  correlations: number[][];
+  residual: number[];
+} {
   const { sigma } = impliedMoments(m);
   const sdF = m.phi.map((r, j) => Math.sqrt(Math.max(r[j], 0)));
   const loadings = m.lambda.map((row, i) => row.map((v, j) => (v * sdF[j]) / Math.sqrt(sigma[i][i])));
@@ -197,7 +209,11 @@ function prepare(groups: GroupMoments[], p: number): PreparedGroup[] {
  *
  * @example fitCfa({ factors: [{ name: 'F', items: ['a', 'b', 'c'] }] }, [moments]).cfi
  */
-export function fitCfa(model: CfaModel, groups: GroupMoments[], constraint: Constraint = 'single'): CfaResult {
+export function fitCfa(
+  model: CfaModel,
+  groups: GroupMoments[],
+  constraint: Constraint = 'single',
+): CfaResult {
   const table = buildParameterTable(model, groups.length, constraint);
   const p = table.items.length;
   const G = groups.length;
@@ -216,7 +232,8 @@ export function fitCfa(model: CfaModel, groups: GroupMoments[], constraint: Cons
   }
   const starts = groups.map((g) => startMatrices(table, g.cov, g.means));
   const start = table.params.map(
-    (param) => param.slots.reduce((s, slot) => s + slotValue(starts[slot.group], slot), 0) / param.slots.length,
+    (param) =>
+      param.slots.reduce((s, slot) => s + slotValue(starts[slot.group], slot), 0) / param.slots.length,
   );
   const objective = new Objective(table, prepared);
   const est = minimizeMl(objective, start);
@@ -261,7 +278,8 @@ function assemble(
     return mats.flatMap((m) => {
       const s = standardize(m).loadings;
       const out: number[] = [];
-      for (let i = 0; i < p; i++) for (let j = 0; j < table.factors.length; j++) if (table.pattern[i][j]) out.push(s[i][j]);
+      for (let i = 0; i < p; i++)
+        for (let j = 0; j < table.factors.length; j++) if (table.pattern[i][j]) out.push(s[i][j]);
       return out;
     });
   };
@@ -319,7 +337,9 @@ function assemble(
     m.theta.forEach((row, i) => {
       if (row[i] < 0) {
         improper = true;
-        warnings.push(`improper solution: item "${table.items[i]}" has a negative residual variance${where} (a Heywood case)`);
+        warnings.push(
+          `improper solution: item "${table.items[i]}" has a negative residual variance${where} (a Heywood case)`,
+        );
       }
     });
     std.loadings.forEach((row, i) =>
@@ -364,7 +384,9 @@ function assemble(
     };
   });
   if (!est.converged) {
-    warnings.push(`the estimation did not converge in ${est.iterations} steps; the estimates are not trustworthy`);
+    warnings.push(
+      `the estimation did not converge in ${est.iterations} steps; the estimates are not trustworthy`,
+    );
   }
   if (est.unidentified.length > 0) {
     warnings.push(
@@ -396,18 +418,28 @@ function assemble(
  * cross-loading and residual covariance, with c the conditional expected Hessian (Sörbom 1989).
  * Registry: `cfa.modification-indices`.
  */
-function modificationHints(table: ParameterTable, objective: Objective, est: Estimate, N: number): ModificationHint[] {
+function modificationHints(
+  table: ParameterTable,
+  objective: Objective,
+  est: Estimate,
+  N: number,
+): ModificationHint[] {
   const states = objective.states(est.theta);
   if (!states) return [];
   const hInv = inverse(est.hessian);
   const p = table.items.length;
   const m = table.factors.length;
   const free = new Set<string>();
-  for (const param of table.params) for (const s of param.slots) free.add(`${s.group}:${s.matrix}:${s.row}:${s.col}`);
+  for (const param of table.params)
+    for (const s of param.slots) free.add(`${s.group}:${s.matrix}:${s.row}:${s.col}`);
   const slots: Slot[] = [];
   for (let g = 0; g < table.groups; g++) {
-    for (let i = 0; i < p; i++) for (let j = 0; j < m; j++) if (!table.pattern[i][j]) slots.push({ group: g, matrix: 'lambda', row: i, col: j });
-    for (let i = 0; i < p; i++) for (let j = 0; j < i; j++) if (!free.has(`${g}:theta:${i}:${j}`)) slots.push({ group: g, matrix: 'theta', row: i, col: j });
+    for (let i = 0; i < p; i++)
+      for (let j = 0; j < m; j++)
+        if (!table.pattern[i][j]) slots.push({ group: g, matrix: 'lambda', row: i, col: j });
+    for (let i = 0; i < p; i++)
+      for (let j = 0; j < i; j++)
+        if (!free.has(`${g}:theta:${i}:${j}`)) slots.push({ group: g, matrix: 'theta', row: i, col: j });
   }
   const hints: ModificationHint[] = [];
   for (const [slot, c] of objective.candidates(states, slots).entries()) {
@@ -420,7 +452,7 @@ function modificationHints(table: ParameterTable, objective: Objective, est: Est
       conditional -= c.cross[a] * v;
     }
     if (!(conditional > 1e-12 * Math.max(1, c.self))) continue;
-    const mi = (N / 2) * (c.gradient * c.gradient) / conditional;
+    const mi = ((N / 2) * (c.gradient * c.gradient)) / conditional;
     if (!(mi >= HINT_MIN_MI)) continue;
     const epc = -c.gradient / conditional;
     const mats = est.matrices[s.group];

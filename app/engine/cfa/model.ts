@@ -92,7 +92,9 @@ export function modelItems(model: CfaModel): string[] {
   for (const rc of model.residualCovariances ?? []) {
     for (const name of [rc.a, rc.b]) {
       if (!items.includes(name)) {
-        throw new EngineError(`the residual covariance ${rc.a} ~ ${rc.b} names "${name}", which no factor lists`);
+        throw new EngineError(
+          `the residual covariance ${rc.a} ~ ${rc.b} names "${name}", which no factor lists`,
+        );
       }
     }
     if (rc.a === rc.b) throw new EngineError(`a residual covariance pairs "${rc.a}" with itself`);
@@ -135,7 +137,10 @@ export function buildParameterTable(model: CfaModel, groups: number, constraint:
   };
   const perGroup = (label: string, matrix: MatrixName, row: number, col: number, from = 0) => {
     for (let g = from; g < groups; g++) {
-      params.push({ label: groups > 1 ? `${label} [group ${g + 1}]` : label, slots: [{ group: g, matrix, row, col }] });
+      params.push({
+        label: groups > 1 ? `${label} [group ${g + 1}]` : label,
+        slots: [{ group: g, matrix, row, col }],
+      });
     }
   };
   const equalLoadings = constraint === 'metric' || constraint === 'scalar';
@@ -164,7 +169,8 @@ export function buildParameterTable(model: CfaModel, groups: number, constraint:
       if (constraint === 'scalar') shared(`int(${items[i]})`, 'nu', i, 0);
       else perGroup(`int(${items[i]})`, 'nu', i, 0);
     }
-    if (constraint === 'scalar') for (let j = 0; j < m; j++) perGroup(`mean(${factors[j]})`, 'alpha', j, 0, 1);
+    if (constraint === 'scalar')
+      for (let j = 0; j < m; j++) perGroup(`mean(${factors[j]})`, 'alpha', j, 0, 1);
   }
   return { items, factors, pattern, groups, meanStructure, fixed, params };
 }

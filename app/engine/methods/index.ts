@@ -1,6 +1,7 @@
 import { EngineError } from '../errors.ts';
 import { RELIABILITY_METHODS } from './reliability.ts';
 import type { Reference, RegistryEntry } from './types.ts';
+import { VALIDITY_METHODS } from './validity.ts';
 
 export type { MethodEntry, Reference, RegistryEntry, RuleEntry } from './types.ts';
 
@@ -8,7 +9,10 @@ export type { MethodEntry, Reference, RegistryEntry, RuleEntry } from './types.t
  * Every entry of the methods registry, by id. Each area of the engine keeps its entries in a file of
  * its own beside this one and lists them here.
  */
-export const METHODS: ReadonlyMap<string, RegistryEntry> = buildRegistry([...RELIABILITY_METHODS]);
+export const METHODS: ReadonlyMap<string, RegistryEntry> = buildRegistry([
+  ...RELIABILITY_METHODS,
+  ...VALIDITY_METHODS,
+]);
 
 function buildRegistry(entries: RegistryEntry[]): ReadonlyMap<string, RegistryEntry> {
   const map = new Map<string, RegistryEntry>();
