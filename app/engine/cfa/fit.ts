@@ -342,7 +342,7 @@ function assemble(
         );
       }
     });
-    std.loadings.forEach((row, i) =>
+    std.loadings.forEach((row, i) => {
       row.forEach((v, j) => {
         if (Math.abs(v) > 1) {
           improper = true;
@@ -350,9 +350,9 @@ function assemble(
             `improper solution: the standardized loading of "${table.items[i]}" on "${table.factors[j]}" is ${v.toFixed(3)}${where}`,
           );
         }
-      }),
-    );
-    std.correlations.forEach((row, j) =>
+      });
+    });
+    std.correlations.forEach((row, j) => {
       row.forEach((v, c) => {
         if (c < j && Math.abs(v) > 1) {
           improper = true;
@@ -360,8 +360,8 @@ function assemble(
             `improper solution: factors "${table.factors[c]}" and "${table.factors[j]}" correlate ${v.toFixed(3)}${where}`,
           );
         }
-      }),
-    );
+      });
+    });
     m.phi.forEach((row, j) => {
       if (row[j] <= 0) {
         improper = true;
