@@ -49,7 +49,8 @@ export interface IccResult extends IccAnova {
  * occasions), as laid out by Shrout & Fleiss (1979, Table 1). Registry: `icc.shrout-fleiss`.
  *
  * Cost: O(n·k). Throws EngineError with fewer than two targets or two raters, on ragged rows or
- * missing or non-finite values (naming row and column), or when every target has the same ratings.
+ * missing or non-finite values (naming row and column), when every target has the same mean rating,
+ * or when there is no residual variation (perfect agreement or consistency).
  */
 export function iccAnova(data: (number | null)[][]): IccAnova {
   const n = data.length;
@@ -77,13 +78,20 @@ export function iccAnova(data: (number | null)[][]): IccAnova {
   const ssError = Math.max(0, ssTotal - ssRows - ssCols);
   const bms = ssRows / (n - 1);
   if (!(bms > 0)) throw new EngineError('every target has the same mean rating; the ICC is undefined');
+  const ems = ssError / ((n - 1) * (k - 1));
+  if (!(ems > 0)) {
+    throw new EngineError(
+      'the ratings have no residual variation (the raters agree exactly or differ by a constant); ' +
+        'the two-way ICCs are 1 and have no interval',
+    );
+  }
   return {
     n,
     k,
     bms,
     wms: Math.max(0, ssWithin) / (n * (k - 1)),
     jms: ssCols / (k - 1),
-    ems: ssError / ((n - 1) * (k - 1)),
+    ems,
   };
 }
 

@@ -15,6 +15,8 @@ export const MAX_ITERATIONS = 500;
 export const DECREMENT_TOL = 1e-14;
 /** Smallest eigenvalue of the scaled information matrix, relative to the largest, that counts as identified. */
 export const IDENTIFICATION_TOL = 1e-9;
+/** A squared Cholesky pivot of the unit-diagonal information matrix above this needs no closer look. */
+const CLEAR_PIVOT = 1e-4;
 
 /** What the optimizer needs of each group, precomputed once. */
 export interface PreparedGroup {
@@ -59,7 +61,7 @@ export interface Estimate {
   unidentified: string[];
 }
 
-function spdInverse(a: number[][]): { inv: number[][]; logDet: number } | null {
+export function spdInverse(a: number[][]): { inv: number[][]; logDet: number } | null {
   let l: number[][];
   try {
     l = cholesky(a);
@@ -415,6 +417,16 @@ export function minimizeMl(objective: Objective, start: number[]): Estimate {
 function identificationCheck(objective: Objective, h: number[][]): string[] {
   const d = h.map((r, i) => 1 / Math.sqrt(Math.max(r[i], 1e-300)));
   const scaled = h.map((r, i) => r.map((v, j) => v * d[i] * d[j]));
+  // Fast path: a Cholesky factor whose pivots are all far from zero proves the matrix well away from
+  // singular; only a doubtful matrix pays for the eigendecomposition that names the parameters.
+  if (h.every((r, i) => r[i] > 0)) {
+    try {
+      const l = cholesky(scaled);
+      if (l.every((row, i) => row[i] * row[i] > CLEAR_PIVOT)) return [];
+    } catch {
+      // not positive definite: fall through to the eigendecomposition
+    }
+  }
   const { values, vectors } = symmetricEigen(scaled);
   const last = values.length - 1;
   if (values[last] > IDENTIFICATION_TOL * values[0] && h.every((r, i) => r[i] > 0)) return [];

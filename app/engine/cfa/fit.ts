@@ -1,6 +1,13 @@
 import { EngineError } from '../errors.ts';
-import { inverse, logDeterminant, symmetricEigen } from '../linalg.ts';
-import { type Estimate, impliedMoments, minimizeMl, Objective, type PreparedGroup } from './estimate.ts';
+import { logDeterminant, symmetricEigen } from '../linalg.ts';
+import {
+  type Estimate,
+  impliedMoments,
+  minimizeMl,
+  Objective,
+  type PreparedGroup,
+  spdInverse,
+} from './estimate.ts';
 import { type FitIndices, fitIndices, standardizedResiduals } from './fit-indices.ts';
 import {
   buildParameterTable,
@@ -177,6 +184,26 @@ function standardize(m: GroupMatrices): {
   return { loadings, correlations, residual };
 }
 
+/**
+ * The standardized loadings at the pattern's free positions, λ_ij·√φ_jj/√σ_ii, from the diagonal of
+ * Σ only (the delta method calls this 2q times).
+ */
+function standardizedPattern(m: GroupMatrices, pattern: boolean[][]): number[] {
+  const out: number[] = [];
+  const k = m.phi.length;
+  m.lambda.forEach((row, i) => {
+    let variance = m.theta[i][i];
+    for (let a = 0; a < k; a++) {
+      if (row[a] === 0) continue;
+      for (let b = 0; b < k; b++) variance += row[a] * m.phi[a][b] * row[b];
+    }
+    const sd = Math.sqrt(variance);
+    for (let j = 0; j < k; j++)
+      if (pattern[i][j]) out.push((row[j] * Math.sqrt(Math.max(m.phi[j][j], 0))) / sd);
+  });
+  return out;
+}
+
 function prepare(groups: GroupMoments[], p: number): PreparedGroup[] {
   const total = groups.reduce((s, g) => s + g.n, 0);
   return groups.map((g) => {
@@ -197,8 +224,8 @@ function prepare(groups: GroupMoments[], p: number): PreparedGroup[] {
  * Maximum-likelihood confirmatory factor analysis of one group or one step of a multi-group
  * invariance test: estimation (minimizeMl), χ², CFI, TLI, RMSEA with 90% CI, SRMR, standardized
  * loadings with delta-method standard errors from the expected information, factor correlations,
- * residual correlations, and modification hints (univariate score tests for cross-loadings and residual
- * covariances; Sörbom 1989). T = N·F_ML with S of divisor N; the baseline is the independence model.
+ * residual correlations, and, for a one-group model, modification hints (univariate score tests for
+ * cross-loadings and residual covariances; Sörbom 1989). T = N·F_ML with S of divisor N; the baseline is the independence model.
  * Registry: `cfa.ml`, `cfa.chi-square`, `fit.cfi`, `fit.tli`, `rmsea.steiger`, `fit.srmr`,
  * `cfa.modification-indices`.
  *
@@ -262,27 +289,13 @@ function assemble(
   const srmr = Math.sqrt(residuals.reduce((s, r, i) => s + objective.groups[i].weight * r.srmr ** 2, 0));
   const indices = fitIndices(Math.max(t, 0), df, t0, df0, N, srmr, G);
 
-  let cov: number[][] | null = null;
-  if (est.unidentified.length === 0) {
-    try {
-      cov = inverse(est.hessian).map((r) => r.map((v) => (2 / N) * v));
-    } catch {
-      cov = null;
-    }
-  }
+  const hInv = est.unidentified.length === 0 ? (spdInverse(est.hessian)?.inv ?? null) : null;
+  const cov = hInv ? hInv.map((r) => r.map((v) => (2 / N) * v)) : null;
   const se = (a: number) => (cov && cov[a][a] >= 0 ? Math.sqrt(cov[a][a]) : null);
 
   // Delta method for the standardized loadings: a central-difference Jacobian of the standardization.
-  const stdAt = (theta: number[]) => {
-    const mats = groupMatrices(table, theta);
-    return mats.flatMap((m) => {
-      const s = standardize(m).loadings;
-      const out: number[] = [];
-      for (let i = 0; i < p; i++)
-        for (let j = 0; j < table.factors.length; j++) if (table.pattern[i][j]) out.push(s[i][j]);
-      return out;
-    });
-  };
+  const stdAt = (theta: number[]) =>
+    groupMatrices(table, theta).flatMap((m) => standardizedPattern(m, table.pattern));
   const base = stdAt(est.theta);
   let stdSE: (number | null)[] = base.map(() => null);
   if (cov) {
@@ -393,7 +406,8 @@ function assemble(
       `the model is empirically under-identified (the information matrix is singular); involved: ${est.unidentified.join(', ')}`,
     );
   }
-  const hints = cov ? modificationHints(table, objective, est, N) : [];
+  // Hints serve the one-group model a researcher refines; an invariance step is judged as a whole.
+  const hints = hInv && constraint === 'single' ? modificationHints(table, objective, est, hInv, N) : [];
   return {
     ...indices,
     constraint,
@@ -422,11 +436,11 @@ function modificationHints(
   table: ParameterTable,
   objective: Objective,
   est: Estimate,
+  hInv: number[][],
   N: number,
 ): ModificationHint[] {
   const states = objective.states(est.theta);
   if (!states) return [];
-  const hInv = inverse(est.hessian);
   const p = table.items.length;
   const m = table.factors.length;
   const free = new Set<string>();
