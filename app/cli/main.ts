@@ -12,6 +12,10 @@ const USAGE = `usage: scalewright <command> [options]
   stats reliability --data FILE --items a,b,c [options]
                                            alpha, omega and item statistics from a CSV or TSV file
   stats content --ratings FILE [options]   content validity from expert ratings
+  stats cfa --data FILE --model FILE.json [options]
+                                           confirmatory factor analysis: fit, loadings, CR, AVE, HTMT
+  stats icc --data FILE --columns a,b,c [options]
+                                           the six intraclass correlations with intervals, SEM, MDC
   project new FILE [--demo]                create a study file
   project status FILE [--json]             phases, states, counts, open gates
   project import FILE --data CSV --role pilot|validation|retest [--map map.json]
@@ -46,6 +50,10 @@ export async function runCli(argv: string[], ctx: CliContext): Promise<number> {
         throw new UsageError(
           `unknown analysis "${name ?? ''}"; choose one of ${Object.keys(STATS_ANALYSES).join(', ')}`,
         );
+      if (rest.includes('--help') && analysis.help) {
+        process.stdout.write(`${analysis.help}\n`);
+        return 0;
+      }
       const values = parseStrict(rest, { ...COMMON_STATS_OPTIONS, ...analysis.options });
       const result = await analysis.run(values, ctx);
       if (values.json === true) {

@@ -34,6 +34,8 @@ export interface StatsResult {
 export interface StatsAnalysis {
   name: string;
   summary: string;
+  /** Printed by `stats <name> --help`: usage line and every option with what it does. */
+  help?: string;
   options: NonNullable<ParseArgsConfig['options']>;
   run(values: OptionValues, ctx: CliContext): Promise<StatsResult>;
 }

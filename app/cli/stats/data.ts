@@ -30,6 +30,8 @@ export interface LoadedItems {
 /** How an analysis names its columns (most use --items; some use another option such as --columns). */
 export interface LoadOptions {
   itemsOption?: string;
+  /** Columns named by another source (such as a model file) instead of an option; `from` says which. */
+  names?: { list: string[]; from: string };
 }
 
 const NUMBER = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
@@ -127,10 +129,11 @@ export async function loadItemData(
   const file = text(values, 'data');
   if (file === undefined)
     throw new UsageError('--data FILE is required (a CSV or TSV file with a header row)');
-  const itemsRaw = text(values, itemsOption);
-  if (itemsRaw === undefined)
+  const itemsRaw = options.names ? undefined : text(values, itemsOption);
+  if (!options.names && itemsRaw === undefined)
     throw new UsageError(`--${itemsOption} is required (column names separated by commas)`);
-  const names = list(itemsRaw, itemsOption);
+  const names = options.names?.list ?? list(itemsRaw as string, itemsOption);
+  const namesFrom = options.names?.from ?? `--${itemsOption}`;
   const missing = missingOption(values);
   const bounds = boundsOption(values);
   const reverseRaw = text(values, 'reverse');
@@ -142,7 +145,7 @@ export async function loadItemData(
   }
   for (const name of reverse) {
     if (!names.includes(name))
-      throw new UsageError(`--reverse names "${name}", which is not in --${itemsOption}`);
+      throw new UsageError(`--reverse names "${name}", which is not in ${namesFrom}`);
   }
   const codesRaw = text(values, 'missing-codes');
   const missingCodes = codesRaw === undefined ? [] : list(codesRaw, 'missing-codes');

@@ -1,6 +1,8 @@
 import type { StatsAnalysis } from '../types.ts';
+import { cfa } from './cfa.ts';
 import { content } from './content.ts';
+import { icc } from './icc.ts';
 import { reliability } from './reliability.ts';
 
 /** Every `stats <analysis>`, by name. */
-export const STATS_ANALYSES: Record<string, StatsAnalysis> = { reliability, content };
+export const STATS_ANALYSES: Record<string, StatsAnalysis> = { reliability, content, cfa, icc };
