@@ -37,3 +37,27 @@ describe('methods registry', () => {
     expect(() => methodsField(['no.such'])).toThrow(/no entry "no.such"/);
   });
 });
+
+describe('registry ids cited by the validity engine', () => {
+  it('every id named after "Registry:" in a doc comment of cfa/, validity/ and icc.ts is in the registry', async () => {
+    const { readdirSync, readFileSync } = await import('node:fs');
+    const root = new URL('../../../../app/engine/', import.meta.url);
+    const files = [
+      ...readdirSync(new URL('cfa/', root)).map((f) => new URL(`cfa/${f}`, root)),
+      ...readdirSync(new URL('validity/', root)).map((f) => new URL(`validity/${f}`, root)),
+      new URL('icc.ts', root),
+    ];
+    const cited = new Set<string>();
+    for (const f of files) {
+      const source = readFileSync(f, 'utf8');
+      for (const block of source.matchAll(/Registry:([^.]*(?:\.[a-z][^.]*)*)\./g)) {
+        for (const id of block[1].matchAll(/`([^`]+)`/g)) cited.add(id[1]);
+      }
+    }
+    expect(cited.size).toBeGreaterThan(20);
+    for (const id of cited) expect(METHODS.has(id), id).toBe(true);
+    expect(methodsField(['validity.standards'])[0].reference).toMatch(
+      /^American Educational Research Association, American Psychological Association, & National Council on Measurement in Education \(2014\)\. Standards for educational and psychological testing\./,
+    );
+  });
+});
