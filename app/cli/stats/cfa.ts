@@ -74,6 +74,31 @@ function lineColumn(source: string, offset: number): string {
 }
 
 /**
+ * Where JSON text first goes wrong: the shortest prefix that fails for a reason other than ending too
+ * soon ends at the offending character (a prefix that parses is also just "not finished yet"). Null when
+ * only the end is missing. Binary search: O(n log n) for n characters.
+ */
+function syntaxErrorOffset(source: string): number | null {
+  const unfinished = (prefix: string) => {
+    try {
+      JSON.parse(prefix);
+      return true;
+    } catch (error) {
+      return /end of (JSON )?input/i.test((error as Error).message);
+    }
+  };
+  if (unfinished(source)) return null;
+  let lo = 0;
+  let hi = source.length - 1;
+  while (lo < hi) {
+    const mid = (lo + hi) >> 1;
+    if (unfinished(source.slice(0, mid + 1))) lo = mid + 1;
+    else hi = mid;
+  }
+  return lo;
+}
+
+/**
  * Reads and checks a model file: valid JSON holding `factors` (an object of factor name → non-empty
  * array of column names), optionally `residualCovariances` (an array of {a, b, rationale?}) and
  * `orthogonal` (boolean). Every problem names the file and where in it.
@@ -82,12 +107,12 @@ export function parseModelFile(file: string, source: string): CfaModel {
   let raw: unknown;
   try {
     raw = JSON.parse(source);
-  } catch (error) {
-    const message = (error as Error).message;
-    const at = /position (\d+)/.exec(message);
-    const where = at ? ` at ${lineColumn(source, Number(at[1]))}` : '';
+  } catch {
+    const offset = syntaxErrorOffset(source);
+    if (offset === null)
+      throw new DataError(`${file} is not valid JSON: it ends before the model is complete`);
     throw new DataError(
-      `${file} is not valid JSON${where}: ${message.replace(/ in JSON at position \d+.*$/, '')}`,
+      `${file} is not valid JSON at ${lineColumn(source, offset)}: unexpected ${JSON.stringify(source[offset])}`,
     );
   }
   const shape = `expected {"factors": {"F1": ["c1", "c2", "c3"], ...}}`;

@@ -355,7 +355,7 @@ export function solveSpd(h: number[][], b: number[]): number[] {
  * converged = false rather than throwing when the step limit is reached; throws EngineError when the
  * starting values do not give a positive-definite Σ.
  */
-export function minimizeMl(objective: Objective, start: number[]): Estimate {
+export function minimizeMl(objective: Objective, start: number[], maxIterations = MAX_ITERATIONS): Estimate {
   let theta = [...start];
   let states = objective.states(theta);
   if (!states)
@@ -366,7 +366,7 @@ export function minimizeMl(objective: Objective, start: number[]): Estimate {
   let converged = false;
   let iterations = 0;
   let derivs = objective.derivatives(states);
-  for (; iterations < MAX_ITERATIONS; iterations++) {
+  for (; iterations < maxIterations; iterations++) {
     const step = solveSpd(derivs.hessian, derivs.gradient).map((v) => -v);
     const decrement = -dot(derivs.gradient, step);
     if (decrement < DECREMENT_TOL) {

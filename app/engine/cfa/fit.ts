@@ -233,6 +233,7 @@ function prepare(groups: GroupMoments[], p: number): PreparedGroup[] {
  * model has more free parameters than sample moments (naming both counts), when a group's matrix has
  * the wrong size or is not positive definite, and what buildParameterTable throws. Non-convergence,
  * improper solutions and empirical under-identification are reported in `warnings`, not thrown.
+ * `options.maxIterations` caps the optimizer's steps (default MAX_ITERATIONS).
  *
  * @example fitCfa({ factors: [{ name: 'F', items: ['a', 'b', 'c'] }] }, [moments]).cfi
  */
@@ -240,6 +241,7 @@ export function fitCfa(
   model: CfaModel,
   groups: GroupMoments[],
   constraint: Constraint = 'single',
+  options: { maxIterations?: number } = {},
 ): CfaResult {
   const table = buildParameterTable(model, groups.length, constraint);
   const p = table.items.length;
@@ -263,7 +265,7 @@ export function fitCfa(
       param.slots.reduce((s, slot) => s + slotValue(starts[slot.group], slot), 0) / param.slots.length,
   );
   const objective = new Objective(table, prepared);
-  const est = minimizeMl(objective, start);
+  const est = minimizeMl(objective, start, options.maxIterations);
   return assemble(table, objective, est, groups, df, constraint);
 }
 

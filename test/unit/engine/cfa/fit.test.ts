@@ -184,6 +184,13 @@ describe('fitCfa reports what it cannot estimate', () => {
     expect(fit.warnings.join(' ')).toMatch(/empirically under-identified/);
   });
 
+  it('reports non-convergence as a warning, not a result to trust', () => {
+    const moments = fixtureMoments();
+    const fit = fitCfa(modelFrom(fixture.models.threeFactors), [moments], 'single', { maxIterations: 1 });
+    expect(fit.converged).toBe(false);
+    expect(fit.warnings.join(' ')).toMatch(/did not converge in 1 steps/);
+  });
+
   it('reports a Heywood case (negative residual variance) as an improper solution', () => {
     // Correlations that imply a loading above 1 for the first item: r12·r13/r23 = .9·.8/.5 = 1.44.
     const cov = [
