@@ -13,6 +13,8 @@ Written from the published formulas without looking at the TypeScript engine:
 - T = N F; baseline = independence model; CFI (Bentler 1990), TLI (Tucker & Lewis 1973), RMSEA =
   sqrt(max(T - df, 0) / (df (N - 1))) (Steiger 1990) with its 90% interval from scipy.stats.ncx2 and
   scipy.optimize.brentq; SRMR over the p(p + 1)/2 observed-minus-implied correlations.
+- Standard errors from the expected information in its Kronecker form, D'(W kron W)D, with the
+  derivatives D of vec(Sigma) by central differences; standardized-loading SEs by the delta method.
 - The one-factor ML exploratory factor analysis from sklearn.decomposition.FactorAnalysis, whose
   discrepancy times N must equal the one-factor CFA's T; its chi-square with Bartlett's correction is
   (N - 1 - (2p + 5)/6 - 2m/3) F.
@@ -105,7 +107,35 @@ def fit_cfa(s, n, pattern, resid_pairs=()):
     sign = np.sign(std.sum(axis=0))
     std = std * sign[None, :]
     phi_std = phi * np.outer(sign, sign)
+    # Standard errors from the expected information of F, built here in its Kronecker form
+    # H = D' (W kron W) D with D = d vec(Sigma) / d theta by central differences and W = Sigma^-1;
+    # cov = (2 / N) H^-1. Standardized loadings by the delta method on a numerical Jacobian.
+    w = np.linalg.inv(sigma)
+    step = 1e-6
+    cols = []
+    jac = []
+
+    def std_of(x):
+        sg, lm, ph, _ = implied(x, pattern, resid_pairs)
+        st = lm * np.sqrt(np.diag(ph))[None, :] / np.sqrt(np.diag(sg))[:, None]
+        return st[pattern]
+
+    for a in range(q):
+        up = res.x.copy()
+        dn = res.x.copy()
+        up[a] += step
+        dn[a] -= step
+        cols.append(((implied(up, pattern, resid_pairs)[0] - implied(dn, pattern, resid_pairs)[0]) / (2 * step)).ravel())
+        jac.append((std_of(up) - std_of(dn)) / (2 * step))
+    d = np.column_stack(cols)
+    info = d.T @ np.kron(w, w) @ d
+    cov = 2 / n * np.linalg.inv(info)
+    k = int(pattern.sum())
+    jac = np.array(jac)
+    std_cov = jac.T @ cov @ jac
     return {
+        "loadingSE": np.sqrt(np.diag(cov)[:k]).tolist(),
+        "standardizedLoadingSE": np.sqrt(np.diag(std_cov)).tolist(),
         "fmin": float(res.fun),
         "chiSquare": float(t),
         "df": int(df),

@@ -99,7 +99,7 @@ describe('fitCfa on a covariance matrix built exactly from known parameters', ()
 
 describe('fitCfa against the scipy-optimizer fixture (test/reference/cfa.py)', () => {
   for (const key of ['threeFactors', 'withResidualCovariance', 'oneFactor']) {
-    it(`matches χ², df, p, CFI, TLI, RMSEA with CI, SRMR and the standardized solution: ${key}`, () => {
+    it(`matches χ², df, p, CFI, TLI, RMSEA with CI, SRMR, the standardized solution and SEs: ${key}`, () => {
       const spec = fixture.models[key];
       const model = modelFrom(spec);
       const moments = fixtureMoments();
@@ -121,6 +121,12 @@ describe('fitCfa against the scipy-optimizer fixture (test/reference/cfa.py)', (
       expect(Math.abs((fit.rmseaCI?.[1] ?? Number.NaN) - e.rmseaCI[1])).toBeLessThan(1e-6);
       fit.loadings.forEach((l, k) => {
         expect(Math.abs(l.standardized - e.standardizedLoadings[k]), l.item).toBeLessThan(1e-4);
+        // Expected-information SEs (the fixture builds D'(W⊗W)D; finite differences limit agreement).
+        expect(Math.abs((l.se ?? 0) - e.loadingSE[k]) / e.loadingSE[k], `${l.item} SE`).toBeLessThan(1e-3);
+        expect(
+          Math.abs((l.standardizedSE ?? 0) - e.standardizedLoadingSE[k]) / e.standardizedLoadingSE[k],
+          `${l.item} standardized SE`,
+        ).toBeLessThan(1e-3);
       });
       const phi = fit.groups[0].factorCorrelations;
       phi.forEach((row, j) => {
