@@ -149,7 +149,7 @@ function lockFileError(studyPath: string, lockPath: string, error: unknown): Stu
       ? 'the folder is not writable'
       : (code ?? (error as Error).message);
   return new StudyFileError(
-    'read-only',
+    'not-writable',
     `${studyPath} cannot be opened for writing: its lock file ${lockPath} cannot be written (${reason}); open it read-only, or copy it to a folder you can write to`,
   );
 }

@@ -60,10 +60,21 @@ export class Study {
     const target = path.resolve(file);
     if (fs.existsSync(target))
       throw new StudyFileError('exists', `${target} already exists; choose another name`);
-    fs.mkdirSync(path.dirname(target), { recursive: true });
+    const folder = path.dirname(target);
+    try {
+      fs.mkdirSync(folder, { recursive: true });
+      fs.accessSync(folder, fs.constants.W_OK);
+    } catch (error) {
+      throw notWritable(`${target} cannot be created`, folder, error);
+    }
     const temp = `${target}.${process.pid}.creating`;
     try {
-      const db = new Database(temp, { nativeBinding: options.nativeBinding });
+      let db: Database.Database;
+      try {
+        db = new Database(temp, { nativeBinding: options.nativeBinding });
+      } catch (error) {
+        throw notWritable(`${target} cannot be created`, folder, error);
+      }
       try {
         // Before anything is written: the page size is fixed when the file is first written.
         db.pragma(`page_size = ${STUDY_PAGE_SIZE}`);
@@ -104,6 +115,7 @@ export class Study {
     const target = path.resolve(file);
     const mode = options.mode ?? 'write';
     const facts = inspectStudyFile(target);
+    if (mode === 'write') checkWritable(target);
     if (mode === 'read' && facts.userVersion < LATEST_VERSION) {
       throw new StudyFileError(
         'older-version',
@@ -122,15 +134,54 @@ export class Study {
     const lock = StudyLock.acquire(target, options.app);
     try {
       const db = new Database(target, { fileMustExist: true, nativeBinding: options.nativeBinding });
-      db.pragma('foreign_keys = ON');
-      db.pragma('journal_mode = WAL');
-      db.pragma('busy_timeout = 2000');
-      migrate(db, facts.userVersion);
+      try {
+        db.pragma('foreign_keys = ON');
+        db.pragma('busy_timeout = 2000');
+        // Migrations run before the switch to write-ahead mode: a migration that fails is rolled
+        // back, and the file is left exactly as it was.
+        migrateStudy(db, target, facts.userVersion);
+        db.pragma('journal_mode = WAL');
+      } catch (error) {
+        db.close();
+        throw error;
+      }
       return new Study(target, db, options.actor, 'write', lock);
     } catch (error) {
       lock.release();
       throw error;
     }
+  }
+
+  /**
+   * Opens a study only to read and check it, never writing to the file: the same checks as `open`;
+   * a study of an older version is copied into memory and upgraded there, so that a check that
+   * needs the current tables (an import's, before the study is opened for writing) can run on it.
+   */
+  static inspect(file: string, options: Omit<OpenOptions, 'mode'>): Study {
+    const target = path.resolve(file);
+    const facts = inspectStudyFile(target);
+    if (facts.userVersion === LATEST_VERSION) return Study.open(target, { ...options, mode: 'read' });
+    checkReadOnly(target, options.nativeBinding);
+    const disk = new Database(target, {
+      readonly: true,
+      fileMustExist: true,
+      nativeBinding: options.nativeBinding,
+    });
+    let image: Buffer;
+    try {
+      image = disk.serialize();
+    } finally {
+      disk.close();
+    }
+    const db = new Database(image, { nativeBinding: options.nativeBinding });
+    try {
+      db.pragma('foreign_keys = ON');
+      migrateStudy(db, target, facts.userVersion);
+    } catch (error) {
+      db.close();
+      throw error;
+    }
+    return new Study(target, db, options.actor, 'read', undefined);
   }
 
   /**
@@ -199,6 +250,47 @@ function checkReadOnly(target: string, nativeBinding: string | undefined): void 
   } finally {
     db?.close();
   }
+}
+
+/**
+ * Upgrades an opened study from version `from`; a migration that fails (tables that do not match the
+ * version the file states) is rolled back and reported as a damaged study, naming the file.
+ */
+function migrateStudy(db: Database.Database, target: string, from: number): void {
+  try {
+    migrate(db, from);
+  } catch (error) {
+    throw new StudyFileError(
+      'corrupt',
+      `${target} says it is study file version ${from}, but its tables do not match that version (upgrading it to version ${LATEST_VERSION} failed: ${(error as Error).message}); it was left unchanged`,
+    );
+  }
+}
+
+/** Refuses, before anything is written, a study file this user may not write to. */
+function checkWritable(target: string): void {
+  try {
+    fs.accessSync(target, fs.constants.W_OK);
+  } catch (error) {
+    const code = (error as NodeJS.ErrnoException).code;
+    throw new StudyFileError(
+      'not-writable',
+      `${target} is read-only (${code === 'EROFS' ? 'on a read-only disk' : 'permission denied'}); make it writable, or copy it to a folder you can write to, to change it`,
+    );
+  }
+}
+
+function notWritable(what: string, folder: string, error: unknown): StudyFileError {
+  const code = (error as NodeJS.ErrnoException).code;
+  const reason =
+    code === 'EACCES' || code === 'EPERM'
+      ? 'permission denied'
+      : code === 'EROFS'
+        ? 'a read-only disk'
+        : code === 'ENOTDIR'
+          ? 'a file is in the way'
+          : (code ?? (error as Error).message);
+  return new StudyFileError('not-writable', `${what}: the folder ${folder} is not writable (${reason})`);
 }
 
 /** Runs the migrations after `from` up to `to`, all in one transaction, and records the version. */
