@@ -267,8 +267,11 @@ function migrateStudy(db: Database.Database, target: string, from: number): void
   }
 }
 
-/** Refuses, before anything is written, a study file this user may not write to. */
-function checkWritable(target: string): void {
+/**
+ * Refuses, before anything is written, a study this user may not write to: a read-only file, or a
+ * folder where its lock and journal files cannot be made.
+ */
+export function checkWritable(target: string): void {
   try {
     fs.accessSync(target, fs.constants.W_OK);
   } catch (error) {
@@ -276,6 +279,16 @@ function checkWritable(target: string): void {
     throw new StudyFileError(
       'not-writable',
       `${target} is read-only (${code === 'EROFS' ? 'on a read-only disk' : 'permission denied'}); make it writable, or copy it to a folder you can write to, to change it`,
+    );
+  }
+  const folder = path.dirname(target);
+  try {
+    fs.accessSync(folder, fs.constants.W_OK);
+  } catch (error) {
+    throw notWritable(
+      `${target} cannot be opened for writing (its lock and journal are kept beside it)`,
+      folder,
+      error,
     );
   }
 }

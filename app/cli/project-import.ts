@@ -1,6 +1,6 @@
 import path from 'node:path';
 import { z } from 'zod';
-import { Study } from '../../db/study.ts';
+import { checkWritable, Study } from '../../db/study.ts';
 import type { ColumnMapping, ColumnRole } from '../import/mapping.ts';
 import { type MissingCodes, parseNumber } from '../import/numbers.ts';
 import { TableError } from '../import/table-error.ts';
@@ -189,6 +189,12 @@ export async function importCommand(args: string[], ctx: CliContext): Promise<nu
   // Every read and check runs on the study opened read-only, so that a refused import leaves the
   // study file byte for byte as it was; only a valid import opens it for writing.
   const checking = Study.inspect(studyPath, { actor, app: CLI_APP });
+  try {
+    checkWritable(studyPath);
+  } catch (error) {
+    checking.close();
+    throw error;
+  }
   let result: ImportRead;
   let check: ImportCheck;
   try {
