@@ -5,6 +5,7 @@ import path from 'node:path';
 import type { AddressInfo } from 'node:net';
 import { dispatch } from '../api/dispatch.ts';
 import type { Session } from '../api/session.ts';
+import { CONTENT_SECURITY_POLICY, contentType, requestPath, staticFile } from './static-files.ts';
 
 export const TOKEN_HEADER = 'x-scalewright-token';
 
@@ -21,24 +22,6 @@ export const MAX_BODY_BYTES = 256 * 1024 * 1024;
  * cannot together exhaust the memory.
  */
 export const MAX_TOTAL_BODY_BYTES = 320 * 1024 * 1024;
-
-/** Longest request path served; the renderer's files have short names. */
-const MAX_PATH_LENGTH = 2048;
-
-const CONTENT_TYPES: Record<string, string> = {
-  '.html': 'text/html; charset=utf-8',
-  '.js': 'text/javascript; charset=utf-8',
-  '.css': 'text/css; charset=utf-8',
-  '.svg': 'image/svg+xml',
-  '.png': 'image/png',
-  '.ico': 'image/x-icon',
-  '.json': 'application/json',
-  '.woff2': 'font/woff2',
-};
-
-/** The same policy the desktop shell sets: nothing loads from anywhere but this origin. */
-export const CONTENT_SECURITY_POLICY =
-  "default-src 'none'; script-src 'self'; style-src 'self' 'unsafe-inline'; img-src 'self' data: blob:; font-src 'self'; connect-src 'self'; form-action 'none'; frame-ancestors 'none'; base-uri 'none'";
 
 export interface BrowserServer {
   url: string;
@@ -197,15 +180,14 @@ export async function startBrowserServer(options: {
   }
 
   function serveStatic(pathname: string, res: http.ServerResponse): void {
-    const relative = pathname === '/' ? '/index.html' : pathname;
-    const file = path.resolve(staticRoot, `.${relative}`);
-    if (!file.startsWith(staticRoot + path.sep)) {
+    const file = staticFile(staticRoot, pathname);
+    if (file === undefined) {
       sendText(res, 404, 'not found');
       return;
     }
     fs.readFile(file, (error, data) => {
       if (error) sendText(res, 404, 'not found');
-      else send(res, 200, CONTENT_TYPES[path.extname(file)] ?? 'application/octet-stream', data);
+      else send(res, 200, contentType(file), data);
     });
   }
 
@@ -225,23 +207,6 @@ export async function startBrowserServer(options: {
         server.closeAllConnections();
       }),
   };
-}
-
-/**
- * The decoded path of a request target, or undefined when it cannot name a file: a malformed
- * percent-encoding, a NUL or other control character, or a path longer than MAX_PATH_LENGTH.
- */
-export function requestPath(target: string): string | undefined {
-  if (target.length > MAX_PATH_LENGTH) return undefined;
-  let pathname: string;
-  try {
-    pathname = decodeURIComponent(new URL(target, 'http://127.0.0.1').pathname);
-  } catch {
-    return undefined;
-  }
-  // biome-ignore lint/suspicious/noControlCharactersInRegex: control characters are what is refused
-  if (/[\u0000-\u001f\u007f]/.test(pathname)) return undefined;
-  return pathname;
 }
 
 /** Answers a call that fails unexpectedly with 500, or drops the connection if an answer has begun. */
