@@ -10,14 +10,17 @@ import { tempDir } from '../../helpers/tmp.ts';
 
 /**
  * Taking over a stale lock while other processes try the same: exactly one of them may come away
- * holding it, every time.
+ * holding it, every time. Each racing process races for a series of studies, one at a time, all
+ * starting each race at the same moment; a winner keeps its lock until every race is over, so a
+ * racer that arrives late meets a live lock.
  */
 const RACERS = 6;
-const TRIALS = 4;
-/** The racers start together at a moment this far ahead of their launch, so all are loaded by then. */
-const START_DELAY_MS = 2500;
-/** A winner keeps the lock this long, so a late racer meets a live lock rather than none. */
-const HOLD_MS = 1500;
+/** Races per run: a stale lock of an ended process, then empty and foreign lock files. */
+const RACES = 16;
+/** The first race starts this long after the racers are launched, so all are loaded by then. */
+const START_DELAY_MS = 4000;
+/** Time between the starts of two races. */
+const SLOT_MS = 60;
 
 let tmp: ReturnType<typeof tempDir>;
 let racer: string;
@@ -37,85 +40,100 @@ beforeAll(() => {
   fs.writeFileSync(
     racer,
     `import { StudyLock } from ${lockModule};
-const [study, startAt, holdMs] = process.argv.slice(2);
-while (Date.now() < Number(startAt)) {}
-let outcome;
-try {
-  const lock = StudyLock.acquire(study, 'racer ' + process.pid);
-  outcome = 'won';
-  setTimeout(() => { lock.release(); process.stdout.write(outcome); }, Number(holdMs));
-} catch (error) {
-  outcome = error.problem === 'locked' ? 'refused' : 'failed: ' + error.message;
-  process.stdout.write(outcome);
+const [dir, races, startAt, slotMs] = process.argv.slice(2);
+const held = [];
+const outcomes = [];
+for (let k = 0; k < Number(races); k++) {
+  const at = Number(startAt) + k * Number(slotMs);
+  while (Date.now() < at) {}
+  try {
+    held.push(StudyLock.acquire(dir + '/race-' + k + '.scalewright', 'racer ' + process.pid));
+    outcomes.push('won');
+  } catch (error) {
+    outcomes.push(error.problem === 'locked' ? 'refused' : 'failed: ' + error.message);
+  }
 }
+process.stdout.write(JSON.stringify(outcomes));
+// Hold every lock won until the parent says all racers are done.
+process.stdin.once('data', () => {
+  for (const lock of held) lock.release();
+  process.exit(0);
+});
 `,
   );
 });
 afterAll(() => tmp.cleanup());
 
-function race(study: string): Promise<string[]> {
+/** The stale lock of race k: mostly an ended process's, some empty, some not a lock at all. */
+function staleLock(k: number): string {
+  if (k % 8 === 6) return '';
+  if (k % 8 === 7) return '\u0000\u0001garbage{';
+  return JSON.stringify({
+    pid: deadPid(),
+    host: os.hostname(),
+    user: 'gone',
+    app: 'an ended program',
+    since: '',
+  });
+}
+
+async function race(dir: string): Promise<string[][]> {
   const startAt = Date.now() + START_DELAY_MS;
-  return Promise.all(
-    Array.from(
-      { length: RACERS },
-      () =>
-        new Promise<string>((resolve) => {
-          const child = spawn(
-            process.execPath,
-            ['--import', 'tsx', racer, study, String(startAt), String(HOLD_MS)],
-            { cwd: ROOT, stdio: ['ignore', 'pipe', 'pipe'] },
-          );
+  const children = Array.from({ length: RACERS }, () =>
+    spawn(
+      process.execPath,
+      ['--import', 'tsx', racer, dir, String(RACES), String(startAt), String(SLOT_MS)],
+      { cwd: ROOT, stdio: ['pipe', 'pipe', 'pipe'] },
+    ),
+  );
+  const results = await Promise.all(
+    children.map(
+      (child) =>
+        new Promise<string[]>((resolve, reject) => {
           let out = '';
           let err = '';
           child.stdout.on('data', (d: Buffer) => {
             out += d.toString();
+            if (out.endsWith(']')) resolve(JSON.parse(out));
           });
           child.stderr.on('data', (d: Buffer) => {
             err += d.toString();
           });
-          child.on('exit', () => resolve(out || `no outcome: ${err}`));
+          child.on('exit', () => reject(new Error(`a racer ended without its outcomes: ${err}`)));
         }),
     ),
   );
+  await Promise.all(
+    children.map((child) => {
+      const ended = new Promise<void>((resolve) => child.once('exit', () => resolve()));
+      child.stdin.end('done');
+      return ended;
+    }),
+  );
+  return results;
 }
 
 describe('taking over a stale lock', () => {
-  const stale = [
-    {
-      name: 'a lock whose holder has ended',
-      bytes: () =>
-        JSON.stringify({
-          pid: deadPid(),
-          host: os.hostname(),
-          user: 'gone',
-          app: 'an ended program',
-          since: '',
-        }),
-    },
-    { name: 'an empty lock file', bytes: () => '' },
-    { name: 'a lock file that is not a lock', bytes: () => '\u0000\u0001garbage{' },
-  ];
-
-  for (const [i, kind] of stale.entries()) {
-    it(`${kind.name}: one of ${RACERS} racing processes wins, in each of ${i === 0 ? TRIALS : 1} trial(s)`, async () => {
-      const trials = i === 0 ? TRIALS : 1;
-      for (let trial = 0; trial < trials; trial++) {
-        const study = path.join(tmp.dir, `race-${i}-${trial}.scalewright`);
-        fs.writeFileSync(`${study}.lock`, kind.bytes());
-        const outcomes = await race(study);
-        expect(
-          outcomes.filter((o) => o === 'won'),
-          outcomes.join(', '),
-        ).toHaveLength(1);
-        expect(
-          outcomes.filter((o) => o === 'refused'),
-          outcomes.join(', '),
-        ).toHaveLength(RACERS - 1);
-        // The winner released its lock; no temporary or marker file is left beside the study.
-        expect(fs.readdirSync(tmp.dir).filter((f) => f.startsWith(path.basename(study)))).toEqual([]);
-      }
-    }, 120_000);
-  }
+  it(`one of ${RACERS} racing processes wins each of ${RACES} races, and the others are refused`, async () => {
+    const dir = path.join(tmp.dir, 'races');
+    fs.mkdirSync(dir);
+    for (let k = 0; k < RACES; k++)
+      fs.writeFileSync(path.join(dir, `race-${k}.scalewright.lock`), staleLock(k));
+    const outcomes = await race(dir);
+    for (let k = 0; k < RACES; k++) {
+      const of = outcomes.map((o) => o[k]);
+      expect(
+        of.filter((o) => o === 'won'),
+        `race ${k}: ${of.join(', ')}`,
+      ).toHaveLength(1);
+      expect(
+        of.filter((o) => o === 'refused'),
+        `race ${k}: ${of.join(', ')}`,
+      ).toHaveLength(RACERS - 1);
+    }
+    // Each winner released its lock; no temporary or marker file is left.
+    expect(fs.readdirSync(dir)).toEqual([]);
+  }, 120_000);
 });
 
 describe('the lock within one process', () => {
