@@ -6,6 +6,7 @@ export type StudyFileProblem =
   | 'not-sqlite'
   | 'not-a-study'
   | 'corrupt'
+  | 'interrupted'
   | 'foreign-wal'
   | 'not-writable'
   | 'newer-version'

@@ -122,7 +122,16 @@ export class Study {
         `${target} is study file version ${facts.userVersion}; open it once for writing (in the app, or any project command that writes) to upgrade it to version ${LATEST_VERSION}`,
       );
     }
-    checkReadOnly(target, options.nativeBinding);
+    // A change left unfinished in a rollback journal (a writer stopped while upgrading the study)
+    // cannot be read without rolling it back, which only a writer may do, under the lock.
+    let unfinished = false;
+    try {
+      checkReadOnly(target, options.nativeBinding);
+    } catch (error) {
+      if (mode === 'read' || !(error instanceof StudyFileError) || error.problem !== 'interrupted')
+        throw error;
+      unfinished = true;
+    }
     if (mode === 'read') {
       const db = new Database(target, {
         readonly: true,
@@ -137,6 +146,7 @@ export class Study {
       try {
         db.pragma('foreign_keys = ON');
         db.pragma('busy_timeout = 2000');
+        if (unfinished) quickCheck(db, target);
         // Migrations run before the switch to write-ahead mode: a migration that fails is rolled
         // back, and the file is left exactly as it was.
         migrateStudy(db, target, facts.userVersion);
@@ -236,19 +246,30 @@ function checkReadOnly(target: string, nativeBinding: string | undefined): void 
   let db: Database.Database | undefined;
   try {
     db = new Database(target, { readonly: true, fileMustExist: true, nativeBinding });
-    const rows = db.pragma('quick_check') as { quick_check: string }[];
-    const problems = rows.map((r) => r.quick_check).filter((r) => r !== 'ok');
-    if (problems.length > 0) {
-      throw new StudyFileError('corrupt', `${target} is damaged: ${problems.slice(0, 3).join('; ')}`);
-    }
+    quickCheck(db, target);
   } catch (error) {
     if (error instanceof StudyFileError) throw error;
+    if ((error as { code?: string }).code === 'SQLITE_READONLY_ROLLBACK') {
+      throw new StudyFileError(
+        'interrupted',
+        `${target} holds an unfinished change left by a program that stopped (${target}-journal); open it once for writing (in the app, or any project command that writes) to roll that change back`,
+      );
+    }
     throw new StudyFileError(
       'corrupt',
       `${target} is damaged and cannot be read: ${(error as Error).message}`,
     );
   } finally {
     db?.close();
+  }
+}
+
+/** Refuses a study that PRAGMA quick_check finds damaged, naming its first problems. */
+function quickCheck(db: Database.Database, target: string): void {
+  const rows = db.pragma('quick_check') as { quick_check: string }[];
+  const problems = rows.map((r) => r.quick_check).filter((r) => r !== 'ok');
+  if (problems.length > 0) {
+    throw new StudyFileError('corrupt', `${target} is damaged: ${problems.slice(0, 3).join('; ')}`);
   }
 }
 

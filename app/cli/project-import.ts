@@ -1,5 +1,6 @@
 import path from 'node:path';
 import { z } from 'zod';
+import { StudyFileError } from '../../db/errors.ts';
 import { checkWritable, Study } from '../../db/study.ts';
 import type { ColumnMapping, ColumnRole } from '../import/mapping.ts';
 import { type MissingCodes, parseNumber } from '../import/numbers.ts';
@@ -137,6 +138,21 @@ function describeColumns(check: ImportCheck): string {
 }
 
 /**
+ * The study opened read-only for the import's checks. A study holding a change left unfinished by a
+ * stopped writer is opened for writing once first, which rolls that change back: recovery, as any
+ * writer does it, not a change of the user's.
+ */
+function inspectForImport(studyPath: string, actor: ReturnType<typeof currentActor>): Study {
+  try {
+    return Study.inspect(studyPath, { actor, app: CLI_APP });
+  } catch (error) {
+    if (!(error instanceof StudyFileError) || error.problem !== 'interrupted') throw error;
+    Study.open(studyPath, { actor, app: CLI_APP }).close();
+    return Study.inspect(studyPath, { actor, app: CLI_APP });
+  }
+}
+
+/**
  * Runs `project import` (see the module comment): exit 0 with the stored dataset's summary, 1 when the
  * data cannot be imported (with the reason, row and column), 2 for a usage mistake or a malformed map file.
  */
@@ -188,7 +204,7 @@ export async function importCommand(args: string[], ctx: CliContext): Promise<nu
   const acceptProblems = map.acceptProblems === true;
   // Every read and check runs on the study opened read-only, so that a refused import leaves the
   // study file byte for byte as it was; only a valid import opens it for writing.
-  const checking = Study.inspect(studyPath, { actor, app: CLI_APP });
+  const checking = inspectForImport(studyPath, actor);
   try {
     checkWritable(studyPath);
   } catch (error) {

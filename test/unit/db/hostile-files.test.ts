@@ -1,3 +1,4 @@
+import { spawnSync } from 'node:child_process';
 import fs from 'node:fs';
 import path from 'node:path';
 import Database from 'better-sqlite3';
@@ -133,6 +134,45 @@ describe('a write-ahead log beside the study', () => {
     );
     fs.writeFileSync(`${stopped}-wal`, 'these bytes are not a log at all, but they are here');
     expect(problemOf(() => Study.open(stopped, opts)).message).toMatch(/not an SQLite write-ahead log/);
+  });
+});
+
+describe('a change left unfinished in a rollback journal', () => {
+  it('is rolled back by the next writer; a reader is told what to do', () => {
+    const file = path.join(tmp.dir, 'stopped.scalewright');
+    Study.create(file, opts, { title: 'Kept' }).close();
+    // A writer in rollback mode stopped mid-transaction, after its cache spilled into the file.
+    const child = spawnSync(
+      process.execPath,
+      [
+        '-e',
+        `const Database = require(${JSON.stringify(require.resolve('better-sqlite3'))});
+const db = new Database(process.argv[1]);
+db.pragma('cache_size = 10');
+db.exec('BEGIN');
+const insert = db.prepare('INSERT INTO study_meta (key, value) VALUES (?, ?)');
+for (let i = 0; i < 20000; i++) insert.run('unfinished-' + i, 'x'.repeat(200));
+process.kill(process.pid, 'SIGKILL');`,
+        file,
+      ],
+      { encoding: 'utf8' },
+    );
+    expect(child.signal).toBe('SIGKILL');
+    expect(fs.statSync(`${file}-journal`).size).toBeGreaterThan(0);
+    const refusal = problemOf(() => Study.open(file, { ...opts, mode: 'read' }));
+    expect(refusal.problem).toBe('interrupted');
+    expect(refusal.message).toMatch(
+      /unfinished change .*stopped\.scalewright-journal.*open it once for writing/,
+    );
+    const study = Study.open(file, opts);
+    try {
+      expect(study.db.pragma('integrity_check', { simple: true })).toBe('ok');
+      expect(study.meta('title')).toBe('Kept');
+      expect(study.meta('unfinished-0')).toBeUndefined();
+    } finally {
+      study.close();
+    }
+    expect(fs.existsSync(`${file}-journal`)).toBe(false);
   });
 });
 
