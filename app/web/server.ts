@@ -66,9 +66,18 @@ export async function startBrowserServer(options: {
     }
   });
   // A request line or header Node cannot parse: a plain 400, never an exception.
-  server.on('clientError', (_error, socket) => {
-    if (socket.writable) socket.end('HTTP/1.1 400 Bad Request\r\nConnection: close\r\n\r\n');
-    else socket.destroy();
+  server.on('clientError', (error: NodeJS.ErrnoException, socket) => {
+    if (!socket.writable) {
+      socket.destroy();
+      return;
+    }
+    const status =
+      error.code === 'HPE_HEADER_OVERFLOW'
+        ? '431 Request Header Fields Too Large'
+        : error.code === 'ERR_HTTP_REQUEST_TIMEOUT'
+          ? '408 Request Timeout'
+          : '400 Bad Request';
+    socket.end(`HTTP/1.1 ${status}\r\nConnection: close\r\nContent-Length: 0\r\n\r\n`);
   });
 
   function route(req: http.IncomingMessage, res: http.ServerResponse): void {
