@@ -152,40 +152,45 @@ export async function startBrowserServer(options: {
     }
     const chunks: Buffer[] = [];
     let size = 0;
-    req.on('data', (chunk: Buffer) => {
-      if (res.headersSent) return;
-      size += chunk.length;
-      if (size > maxBody) {
-        refuseMidway(req, res, 413, 'too-large', `request larger than ${maxBody} bytes`);
-        return;
-      }
-      if (size > reserved && !reserve(size - reserved)) {
+    req.on(
+      'data',
+      guarded(res, (chunk: Buffer) => {
+        if (res.headersSent) return;
+        size += chunk.length;
+        if (size > maxBody) {
+          refuseMidway(req, res, 413, 'too-large', `request larger than ${maxBody} bytes`);
+          return;
+        }
+        if (size > reserved && !reserve(size - reserved)) {
+          chunks.length = 0;
+          res.setHeader('retry-after', '5');
+          refuseMidway(req, res, 503, 'busy', BUSY_MESSAGE);
+          return;
+        }
+        chunks.push(chunk);
+      }),
+    );
+    req.on(
+      'end',
+      guarded(res, () => {
+        if (res.headersSent) return;
+        let body: { name?: unknown; input?: unknown } | null;
+        try {
+          body = JSON.parse(Buffer.concat(chunks, size).toString('utf8'));
+        } catch {
+          sendError(res, 400, 'invalid-input', 'the request body is not JSON');
+          return;
+        }
         chunks.length = 0;
-        res.setHeader('retry-after', '5');
-        refuseMidway(req, res, 503, 'busy', BUSY_MESSAGE);
-        return;
-      }
-      chunks.push(chunk);
-    });
-    req.on('end', () => {
-      if (res.headersSent) return;
-      let body: { name?: unknown; input?: unknown } | null;
-      try {
-        body = JSON.parse(Buffer.concat(chunks, size).toString('utf8'));
-      } catch {
-        sendError(res, 400, 'invalid-input', 'the request body is not JSON');
-        return;
-      }
-      chunks.length = 0;
-      if (typeof body !== 'object' || body === null || Array.isArray(body)) {
-        sendError(res, 400, 'invalid-input', 'the request body must be a JSON object {"name", "input"}');
-        return;
-      }
-      dispatch(options.session, body.name, body.input).then(
-        (result) => send(res, 200, 'application/json', JSON.stringify(result)),
-        (error: unknown) => fail(res, error),
-      );
-    });
+        if (typeof body !== 'object' || body === null || Array.isArray(body)) {
+          sendError(res, 400, 'invalid-input', 'the request body must be a JSON object {"name", "input"}');
+          return;
+        }
+        dispatch(options.session, body.name, body.input)
+          .then((result) => send(res, 200, 'application/json', JSON.stringify(result)))
+          .catch((error: unknown) => fail(res, error));
+      }),
+    );
   }
 
   function serveStatic(pathname: string, res: http.ServerResponse): void {
@@ -215,6 +220,20 @@ export async function startBrowserServer(options: {
         server.close(() => resolve());
         server.closeAllConnections();
       }),
+  };
+}
+
+/** `handler` with whatever it throws answered as a failure of the request, never left uncaught. */
+function guarded<A extends unknown[]>(
+  res: http.ServerResponse,
+  handler: (...args: A) => void,
+): (...args: A) => void {
+  return (...args) => {
+    try {
+      handler(...args);
+    } catch (error) {
+      fail(res, error);
+    }
   };
 }
 
