@@ -62,7 +62,7 @@ beforeAll(() => {
   );
   expect(build.status, build.stderr).toBe(0);
   report = runShell();
-});
+}, 60_000);
 afterAll(() => tmp.cleanup());
 
 describe('the desktop shell bundle', () => {
