@@ -60,10 +60,21 @@ export class Study {
     const target = path.resolve(file);
     if (fs.existsSync(target))
       throw new StudyFileError('exists', `${target} already exists; choose another name`);
-    fs.mkdirSync(path.dirname(target), { recursive: true });
+    const folder = path.dirname(target);
+    try {
+      fs.mkdirSync(folder, { recursive: true });
+      fs.accessSync(folder, fs.constants.W_OK);
+    } catch (error) {
+      throw notWritable(`${target} cannot be created`, folder, error);
+    }
     const temp = `${target}.${process.pid}.creating`;
     try {
-      const db = new Database(temp, { nativeBinding: options.nativeBinding });
+      let db: Database.Database;
+      try {
+        db = new Database(temp, { nativeBinding: options.nativeBinding });
+      } catch (error) {
+        throw notWritable(`${target} cannot be created`, folder, error);
+      }
       try {
         // Before anything is written: the page size is fixed when the file is first written.
         db.pragma(`page_size = ${STUDY_PAGE_SIZE}`);
@@ -104,13 +115,23 @@ export class Study {
     const target = path.resolve(file);
     const mode = options.mode ?? 'write';
     const facts = inspectStudyFile(target);
+    if (mode === 'write') checkWritable(target);
     if (mode === 'read' && facts.userVersion < LATEST_VERSION) {
       throw new StudyFileError(
         'older-version',
         `${target} is study file version ${facts.userVersion}; open it once for writing (in the app, or any project command that writes) to upgrade it to version ${LATEST_VERSION}`,
       );
     }
-    checkReadOnly(target, options.nativeBinding);
+    // A change left unfinished in a rollback journal (a writer stopped while upgrading the study)
+    // cannot be read without rolling it back, which only a writer may do, under the lock.
+    let unfinished = false;
+    try {
+      checkReadOnly(target, options.nativeBinding);
+    } catch (error) {
+      if (mode === 'read' || !(error instanceof StudyFileError) || error.problem !== 'interrupted')
+        throw error;
+      unfinished = true;
+    }
     if (mode === 'read') {
       const db = new Database(target, {
         readonly: true,
@@ -122,15 +143,55 @@ export class Study {
     const lock = StudyLock.acquire(target, options.app);
     try {
       const db = new Database(target, { fileMustExist: true, nativeBinding: options.nativeBinding });
-      db.pragma('foreign_keys = ON');
-      db.pragma('journal_mode = WAL');
-      db.pragma('busy_timeout = 2000');
-      migrate(db, facts.userVersion);
+      try {
+        db.pragma('foreign_keys = ON');
+        db.pragma('busy_timeout = 2000');
+        if (unfinished) quickCheck(db, target);
+        // Migrations run before the switch to write-ahead mode: a migration that fails is rolled
+        // back, and the file is left exactly as it was.
+        migrateStudy(db, target, facts.userVersion);
+        db.pragma('journal_mode = WAL');
+      } catch (error) {
+        db.close();
+        throw error;
+      }
       return new Study(target, db, options.actor, 'write', lock);
     } catch (error) {
       lock.release();
       throw error;
     }
+  }
+
+  /**
+   * Opens a study only to read and check it, never writing to the file: the same checks as `open`;
+   * a study of an older version is copied into memory and upgraded there, so that a check that
+   * needs the current tables (an import's, before the study is opened for writing) can run on it.
+   */
+  static inspect(file: string, options: Omit<OpenOptions, 'mode'>): Study {
+    const target = path.resolve(file);
+    const facts = inspectStudyFile(target);
+    if (facts.userVersion === LATEST_VERSION) return Study.open(target, { ...options, mode: 'read' });
+    checkReadOnly(target, options.nativeBinding);
+    const disk = new Database(target, {
+      readonly: true,
+      fileMustExist: true,
+      nativeBinding: options.nativeBinding,
+    });
+    let image: Buffer;
+    try {
+      image = disk.serialize();
+    } finally {
+      disk.close();
+    }
+    const db = new Database(image, { nativeBinding: options.nativeBinding });
+    try {
+      db.pragma('foreign_keys = ON');
+      migrateStudy(db, target, facts.userVersion);
+    } catch (error) {
+      db.close();
+      throw error;
+    }
+    return new Study(target, db, options.actor, 'read', undefined);
   }
 
   /**
@@ -185,13 +246,15 @@ function checkReadOnly(target: string, nativeBinding: string | undefined): void 
   let db: Database.Database | undefined;
   try {
     db = new Database(target, { readonly: true, fileMustExist: true, nativeBinding });
-    const rows = db.pragma('quick_check') as { quick_check: string }[];
-    const problems = rows.map((r) => r.quick_check).filter((r) => r !== 'ok');
-    if (problems.length > 0) {
-      throw new StudyFileError('corrupt', `${target} is damaged: ${problems.slice(0, 3).join('; ')}`);
-    }
+    quickCheck(db, target);
   } catch (error) {
     if (error instanceof StudyFileError) throw error;
+    if ((error as { code?: string }).code === 'SQLITE_READONLY_ROLLBACK') {
+      throw new StudyFileError(
+        'interrupted',
+        `${target} holds an unfinished change left by a program that stopped (${target}-journal); open it once for writing (in the app, or any project command that writes) to roll that change back`,
+      );
+    }
     throw new StudyFileError(
       'corrupt',
       `${target} is damaged and cannot be read: ${(error as Error).message}`,
@@ -199,6 +262,69 @@ function checkReadOnly(target: string, nativeBinding: string | undefined): void 
   } finally {
     db?.close();
   }
+}
+
+/** Refuses a study that PRAGMA quick_check finds damaged, naming its first problems. */
+function quickCheck(db: Database.Database, target: string): void {
+  const rows = db.pragma('quick_check') as { quick_check: string }[];
+  const problems = rows.map((r) => r.quick_check).filter((r) => r !== 'ok');
+  if (problems.length > 0) {
+    throw new StudyFileError('corrupt', `${target} is damaged: ${problems.slice(0, 3).join('; ')}`);
+  }
+}
+
+/**
+ * Upgrades an opened study from version `from`; a migration that fails (tables that do not match the
+ * version the file states) is rolled back and reported as a damaged study, naming the file.
+ */
+function migrateStudy(db: Database.Database, target: string, from: number): void {
+  try {
+    migrate(db, from);
+  } catch (error) {
+    throw new StudyFileError(
+      'corrupt',
+      `${target} says it is study file version ${from}, but its tables do not match that version (upgrading it to version ${LATEST_VERSION} failed: ${(error as Error).message}); it was left unchanged`,
+    );
+  }
+}
+
+/**
+ * Refuses, before anything is written, a study this user may not write to: a read-only file, or a
+ * folder where its lock and journal files cannot be made.
+ */
+export function checkWritable(target: string): void {
+  try {
+    fs.accessSync(target, fs.constants.W_OK);
+  } catch (error) {
+    const code = (error as NodeJS.ErrnoException).code;
+    throw new StudyFileError(
+      'not-writable',
+      `${target} is read-only (${code === 'EROFS' ? 'on a read-only disk' : 'permission denied'}); make it writable, or copy it to a folder you can write to, to change it`,
+    );
+  }
+  const folder = path.dirname(target);
+  try {
+    fs.accessSync(folder, fs.constants.W_OK);
+  } catch (error) {
+    throw notWritable(
+      `${target} cannot be opened for writing (its lock and journal are kept beside it)`,
+      folder,
+      error,
+    );
+  }
+}
+
+function notWritable(what: string, folder: string, error: unknown): StudyFileError {
+  const code = (error as NodeJS.ErrnoException).code;
+  const reason =
+    code === 'EACCES' || code === 'EPERM'
+      ? 'permission denied'
+      : code === 'EROFS'
+        ? 'a read-only disk'
+        : code === 'ENOTDIR'
+          ? 'a file is in the way'
+          : (code ?? (error as Error).message);
+  return new StudyFileError('not-writable', `${what}: the folder ${folder} is not writable (${reason})`);
 }
 
 /** Runs the migrations after `from` up to `to`, all in one transaction, and records the version. */

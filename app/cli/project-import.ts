@@ -1,15 +1,18 @@
 import path from 'node:path';
 import { z } from 'zod';
-import { Study } from '../../db/study.ts';
+import { StudyFileError } from '../../db/errors.ts';
+import { checkWritable, Study } from '../../db/study.ts';
 import type { ColumnMapping, ColumnRole } from '../import/mapping.ts';
 import { type MissingCodes, parseNumber } from '../import/numbers.ts';
 import { TableError } from '../import/table-error.ts';
 import { currentActor } from '../launch/user-data.ts';
 import {
   automaticMapping,
+  checkImportable,
   checkRead,
   DATASET_ROLES,
   type ImportCheck,
+  type ImportRequest,
   MAX_DATASET_NAME,
   planImport,
   respondentCount,
@@ -135,6 +138,21 @@ function describeColumns(check: ImportCheck): string {
 }
 
 /**
+ * The study opened read-only for the import's checks. A study holding a change left unfinished by a
+ * stopped writer is opened for writing once first, which rolls that change back: recovery, as any
+ * writer does it, not a change of the user's.
+ */
+function inspectForImport(studyPath: string, actor: ReturnType<typeof currentActor>): Study {
+  try {
+    return Study.inspect(studyPath, { actor, app: CLI_APP });
+  } catch (error) {
+    if (!(error instanceof StudyFileError) || error.problem !== 'interrupted') throw error;
+    Study.open(studyPath, { actor, app: CLI_APP }).close();
+    return Study.inspect(studyPath, { actor, app: CLI_APP });
+  }
+}
+
+/**
  * Runs `project import` (see the module comment): exit 0 with the stored dataset's summary, 1 when the
  * data cannot be imported (with the reason, row and column), 2 for a usage mistake or a malformed map file.
  */
@@ -165,35 +183,47 @@ export async function importCommand(args: string[], ctx: CliContext): Promise<nu
   const dataPath = resolveUserPath(data, ctx);
   const bytes = await readUserFile(data, 'data file', ctx);
   const fileName = path.basename(dataPath);
-  const study = Study.open(resolveUserPath(studyFile, ctx), { actor: currentActor(), app: CLI_APP });
+  const studyPath = resolveUserPath(studyFile, ctx);
+  const actor = currentActor();
+  const overrides: ColumnMapping = Object.fromEntries(
+    Object.entries(map.columns ?? {}).map(([column, spec]) => [column, toRole(spec)]),
+  );
+  const request = (study: Study): ImportRequest => ({
+    fileName,
+    role: role as (typeof DATASET_ROLES)[number],
+    name: map.name,
+    mapping: automaticMapping(study, overrides),
+    missingCodes: missingCodesOf(map.missing ?? []),
+    reading: {
+      ...(map.delimiter === undefined ? {} : { delimiter: map.delimiter }),
+      ...(map.encoding === undefined ? {} : { encoding: map.encoding }),
+      ...(map.decimalMark === undefined ? {} : { decimalMark: map.decimalMark }),
+      ...(map.sheet === undefined ? {} : { sheet: map.sheet }),
+    },
+  });
+  const acceptProblems = map.acceptProblems === true;
+  // Every read and check runs on the study opened read-only, so that a refused import leaves the
+  // study file byte for byte as it was; only a valid import opens it for writing.
+  const checking = inspectForImport(studyPath, actor);
   try {
-    const overrides: ColumnMapping = Object.fromEntries(
-      Object.entries(map.columns ?? {}).map(([column, spec]) => [column, toRole(spec)]),
-    );
-    const { plan, read } = planImport(study, bytes, {
-      fileName,
-      role: role as (typeof DATASET_ROLES)[number],
-      name: map.name,
-      mapping: automaticMapping(study, overrides),
-      missingCodes: missingCodesOf(map.missing ?? []),
-      reading: {
-        ...(map.delimiter === undefined ? {} : { delimiter: map.delimiter }),
-        ...(map.encoding === undefined ? {} : { encoding: map.encoding }),
-        ...(map.decimalMark === undefined ? {} : { decimalMark: map.decimalMark }),
-        ...(map.sheet === undefined ? {} : { sheet: map.sheet }),
-      },
-    });
-    let result: ImportRead;
+    checkWritable(studyPath);
+  } catch (error) {
+    checking.close();
+    throw error;
+  }
+  let result: ImportRead;
+  let check: ImportCheck;
+  try {
+    const { plan, read } = planImport(checking, bytes, request(checking));
     try {
       result = await readDataFile(read);
     } catch (error) {
       if (error instanceof TableError) throw new DataError(`${data}: ${error.message}`);
       throw error;
     }
-    const check = checkRead(study, plan, result);
-    let datasetId: number;
+    check = checkRead(checking, plan, result);
     try {
-      datasetId = storeImport(study, plan, result, bytes, { acceptProblems: map.acceptProblems === true });
+      checkImportable(plan, result, bytes, { acceptProblems });
     } catch (error) {
       if (error instanceof RuleError && error.code === 'problems') {
         throw new DataError(
@@ -202,6 +232,14 @@ export async function importCommand(args: string[], ctx: CliContext): Promise<nu
       }
       throw error;
     }
+  } finally {
+    checking.close();
+  }
+  const study = Study.open(studyPath, { actor, app: CLI_APP });
+  try {
+    // The plan again under the writer's lock: the phase may have been signed off meanwhile.
+    const { plan } = planImport(study, bytes, request(study));
+    const datasetId = storeImport(study, plan, result, bytes, { acceptProblems });
     const warnings = [
       ...check.warnings,
       ...check.problems.map((p) => p.message),

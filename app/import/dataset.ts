@@ -6,8 +6,11 @@ import {
   CellReader,
   type DecimalMark,
   detectDecimalMark,
+  losesPrecision,
   type MissingCodes,
   NO_MISSING_CODES,
+  outOfRangeMessage,
+  precisionWarning,
 } from './numbers.ts';
 import type { ParsedTable } from './parse-table.ts';
 import { TableError } from './table-error.ts';
@@ -179,6 +182,9 @@ export class DatasetAssembler {
   private readonly problems: ImportProblem[] = [];
   private readonly warnings: string[] = [];
   private problemCount = 0;
+  /** The first cell whose whole number lost precision, and how many did. */
+  private roundedFirst?: { row: number; column: number; text: string; value: number };
+  private roundedCount = 0;
 
   constructor(
     private readonly header: readonly string[],
@@ -282,6 +288,10 @@ export class DatasetAssembler {
     if (Number.isNaN(value)) {
       slot.missing++;
       if (reader.status === CELL_TEXT) this.note(rowNumber, slot.column, this.textMessage(raw.trim()));
+    } else if (!Number.isFinite(value)) {
+      slot.missing++;
+      this.note(rowNumber, slot.column, `${outOfRangeMessage(raw.trim(), value)} (read as missing)`);
+      return Number.NaN;
     } else if (slot.bounded && this.bounds && (value < this.bounds.min || value > this.bounds.max)) {
       this.note(
         rowNumber,
@@ -290,6 +300,11 @@ export class DatasetAssembler {
       );
     } else if (slot.role === 'duration' && value < 0) {
       this.note(rowNumber, slot.column, `the duration ${String(value)} is negative`);
+    }
+    if (losesPrecision(raw, value)) {
+      this.roundedCount++;
+      if (this.roundedFirst === undefined || rowNumber < this.roundedFirst.row)
+        this.roundedFirst = { row: rowNumber, column: slot.column, text: raw, value };
     }
     return value;
   }
@@ -427,6 +442,11 @@ export class DatasetAssembler {
       warnings.push(
         `${this.problemCount} cells need a look; the first ${this.problems.length} are listed one by one`,
       );
+    }
+    const rounded = this.roundedFirst;
+    if (rounded !== undefined) {
+      const where = `row ${rounded.row}, column '${this.header[rounded.column]}'`;
+      warnings.push(precisionWarning(where, rounded.text, rounded.value, this.roundedCount - 1));
     }
     for (const slot of this.slots) {
       if (slot.missing === this.ids.length)

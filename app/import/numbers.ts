@@ -77,6 +77,33 @@ export function parseNumber(cell: string, mark: DecimalMark): number | undefined
   return Number(text);
 }
 
+/**
+ * Why a cell that reads as a number cannot be held as one: its value overflows a double ("1e999"
+ * reads as Infinity). Undefined for a finite value. Cost O(1).
+ */
+export function outOfRangeMessage(text: string, value: number): string | undefined {
+  return Number.isFinite(value)
+    ? undefined
+    : `'${text}' is beyond the largest number that can be held (about 1.8e308)`;
+}
+
+/**
+ * True when `text`, a whole number, is not held exactly by the double `value` it was read as: whole
+ * numbers above 2⁵³ (9007199254740992) are rounded to the nearest double. Decimals are not judged
+ * here: nearly every decimal fraction is held to about 16 significant digits, which is expected.
+ * Cost O(length of the text).
+ */
+export function losesPrecision(text: string, value: number): boolean {
+  if (Number.isSafeInteger(value) || !Number.isFinite(value)) return false;
+  const t = text.trim();
+  return /^[+-]?\d+$/.test(t) && BigInt(t) !== BigInt(value);
+}
+
+/** The warning for a whole number that lost precision, naming its cell. */
+export function precisionWarning(where: string, text: string, value: number, more: number): string {
+  return `${where}: ${text.trim()} cannot be held exactly and is read as ${BigInt(value)} (whole numbers above 2^53 = 9007199254740992 are rounded)${more > 0 ? `; so are ${more} more cell(s)` : ''}`;
+}
+
 export interface MissingCodes {
   /** Text codes, compared trimmed and without regard to letter case ("NA", "n/a", "."). */
   text: string[];

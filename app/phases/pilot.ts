@@ -510,6 +510,31 @@ export function checkRead(study: Study, plan: ImportPlan, read: ImportRead): Imp
 }
 
 /**
+ * The refusals of storeImport that depend on the read alone: a read that does not match the file's
+ * bytes, and (code "problems") problems the researcher has not accepted. Reads nothing from the study
+ * and writes nothing, so a caller can ask before opening the study for writing. Cost O(1).
+ */
+export function checkImportable(
+  plan: ImportPlan,
+  read: ImportRead,
+  bytes: Uint8Array,
+  options: { acceptProblems: boolean },
+): void {
+  if (bytes.length !== read.byteLength) {
+    throw new RuleError(`the read of ${plan.fileName} does not match the file; read it again`);
+  }
+  const { dataset } = read;
+  if (dataset.problemCount > 0 && !options.acceptProblems) {
+    const first = dataset.problems[0];
+    throw new RuleError(
+      `${plan.fileName} was not imported: ${plural(dataset.problemCount, 'cell needs', 'cells need')} a look, the first at ${first.message}` +
+        '. Declare missing-value codes, or accept the problems to import the values as they are',
+      'problems',
+    );
+  }
+}
+
+/**
  * Stores a confirmed import in one transaction with its log row: the original bytes and their
  * SHA-256, how the file was read, the mapping and codes, and the responses in the compact layout (see
  * insertDataset). A file with problems (text in a numeric column, values outside the declared scale,
@@ -525,19 +550,9 @@ export function storeImport(
   bytes: Uint8Array,
   options: { acceptProblems: boolean },
 ): number {
-  if (bytes.length !== read.byteLength) {
-    throw new RuleError(`the read of ${plan.fileName} does not match the file; read it again`);
-  }
+  checkImportable(plan, read, bytes, options);
   const mapping = poolMapping(study, read.mapping);
   const { dataset } = read;
-  if (dataset.problemCount > 0 && !options.acceptProblems) {
-    const first = dataset.problems[0];
-    throw new RuleError(
-      `${plan.fileName} was not imported: ${plural(dataset.problemCount, 'cell needs', 'cells need')} a look, the first at ${first.message}` +
-        '. Declare missing-value codes, or accept the problems to import the values as they are',
-      'problems',
-    );
-  }
   const byRole = (role: ColumnRole['role']) => Object.keys(mapping).filter((c) => mapping[c].role === role);
   const items = dataset.columns.filter((c) => c.role === 'item');
   return changeInPhase(

@@ -1,22 +1,43 @@
 import path from 'node:path';
-import { BrowserWindow, Menu, app, dialog, ipcMain, session as electronSession, shell } from 'electron';
+import {
+  BrowserWindow,
+  type IpcMainInvokeEvent,
+  Menu,
+  app,
+  dialog,
+  ipcMain,
+  protocol,
+  session as electronSession,
+  shell,
+} from 'electron';
 import { STUDY_EXTENSION } from '../../db/study.ts';
 import { dispatch } from '../api/dispatch.ts';
 import { Session } from '../api/session.ts';
 import { currentActor, readSettings, rememberRecent, writeSettings } from '../launch/user-data.ts';
+import { APP_INDEX_URL, APP_SCHEME, appProtocolHandler, isAppUrl } from './app-protocol.ts';
 
 /**
  * The desktop shell: one window on one study, the application menu, native file dialogs and
  * recent studies, printing to PDF. Hardened: sandboxed renderer with context isolation and no
- * Node integration, navigation and new windows denied, permissions denied by default.
+ * Node integration, the interface served on its own scheme, the command table answered only to
+ * that window's main frame, navigation and new windows denied (a few reference sites open in the
+ * system browser after the user confirms), permissions denied by default.
  */
 const APP_NAME = 'Scalewright desktop';
-const RENDERER_INDEX = path.join(__dirname, '..', '..', '..', 'renderer', 'dist', 'index.html');
+const RENDERER_DIST = path.join(__dirname, '..', '..', '..', 'renderer', 'dist');
 const PRELOAD = path.join(__dirname, 'preload.cjs');
 const STUDY_FILTER = [{ name: 'Scalewright study', extensions: [STUDY_EXTENSION.slice(1)] }];
 
+/**
+ * Sites a link in the interface may open, in the system browser and only after the user confirms:
+ * the DOI resolver, which the methods' references link to.
+ */
+const EXTERNAL_HOSTS = ['doi.org'];
+
+// The addon built for Electron by `npm start` in a checkout; a packaged build carries its own and
+// never loads one named by the environment.
 const studySession = new Session(currentActor(), APP_NAME, {
-  nativeBinding: process.env.SCALEWRIGHT_NATIVE_BINDING || undefined,
+  nativeBinding: app.isPackaged ? undefined : process.env.SCALEWRIGHT_NATIVE_BINDING || undefined,
   saveDisplayName: (displayName) => writeSettings({ displayName }),
 });
 let win: BrowserWindow | undefined;
@@ -122,7 +143,7 @@ function createWindow(): void {
       spellcheck: true,
     },
   });
-  win.loadFile(RENDERER_INDEX);
+  void win.loadURL(APP_INDEX_URL);
   win.on('closed', () => {
     win = undefined;
   });
@@ -138,11 +159,52 @@ function harden(): void {
     });
     contents.on('will-attach-webview', (event) => event.preventDefault());
     contents.setWindowOpenHandler(({ url }) => {
-      if (url.startsWith('https://')) void shell.openExternal(url);
+      void offerExternal(url);
       return { action: 'deny' };
     });
   });
 }
+
+/** An https link to one of EXTERNAL_HOSTS, which may be opened in the system browser. */
+function isAllowedExternal(url: string): boolean {
+  try {
+    const parsed = new URL(url);
+    return parsed.protocol === 'https:' && EXTERNAL_HOSTS.includes(parsed.hostname) && parsed.port === '';
+  } catch {
+    return false;
+  }
+}
+
+/** Opens an allowed link in the system browser once the user has confirmed it; ignores others. */
+async function offerExternal(url: string): Promise<void> {
+  if (!win || !isAllowedExternal(url)) return;
+  const choice = await dialog.showMessageBox(win, {
+    type: 'question',
+    buttons: ['Open in browser', 'Cancel'],
+    defaultId: 1,
+    cancelId: 1,
+    message: 'Open this link in your web browser?',
+    detail: url,
+  });
+  if (choice.response === 0) await shell.openExternal(url);
+}
+
+/** A call comes from the app's own window, its main frame, showing the app's own page. */
+function fromOwnPage(event: IpcMainInvokeEvent): boolean {
+  const frame = event.senderFrame;
+  return (
+    win !== undefined &&
+    event.sender === win.webContents &&
+    frame !== null &&
+    frame === win.webContents.mainFrame &&
+    isAppUrl(frame.url)
+  );
+}
+
+// Before the app is ready: the scheme is a standard, secure origin of its own.
+protocol.registerSchemesAsPrivileged([
+  { scheme: APP_SCHEME, privileges: { standard: true, secure: true, supportFetchAPI: true } },
+]);
 
 if (!app.requestSingleInstanceLock()) {
   app.quit();
@@ -159,8 +221,9 @@ if (!app.requestSingleInstanceLock()) {
   });
   app.whenReady().then(() => {
     harden();
+    protocol.handle(APP_SCHEME, appProtocolHandler(RENDERER_DIST));
     ipcMain.handle('scalewright:call', (event, name: unknown, input: unknown) => {
-      if (event.senderFrame?.url && !event.senderFrame.url.startsWith('file://')) {
+      if (!fromOwnPage(event)) {
         return {
           ok: false,
           error: { code: 'forbidden', message: 'calls are accepted only from the app’s own pages' },

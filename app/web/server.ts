@@ -5,59 +5,98 @@ import path from 'node:path';
 import type { AddressInfo } from 'node:net';
 import { dispatch } from '../api/dispatch.ts';
 import type { Session } from '../api/session.ts';
+import { CONTENT_SECURITY_POLICY, contentType, requestPath, staticFile } from './static-files.ts';
 
 export const TOKEN_HEADER = 'x-scalewright-token';
-const MAX_BODY_BYTES = 256 * 1024 * 1024;
 
-const CONTENT_TYPES: Record<string, string> = {
-  '.html': 'text/html; charset=utf-8',
-  '.js': 'text/javascript; charset=utf-8',
-  '.css': 'text/css; charset=utf-8',
-  '.svg': 'image/svg+xml',
-  '.png': 'image/png',
-  '.ico': 'image/x-icon',
-  '.json': 'application/json',
-  '.woff2': 'font/woff2',
-};
+/**
+ * Largest body of one api call: 256 MiB, room for the largest upload the command table accepts
+ * (128 MiB of data as base64, about 171 MiB) and its JSON around it.
+ */
+export const MAX_BODY_BYTES = 256 * 1024 * 1024;
 
-/** The same policy the desktop shell sets: nothing loads from anywhere but this origin. */
-export const CONTENT_SECURITY_POLICY =
-  "default-src 'none'; script-src 'self'; style-src 'self' 'unsafe-inline'; img-src 'self' data: blob:; font-src 'self'; connect-src 'self'; form-action 'none'; frame-ancestors 'none'; base-uri 'none'";
+/**
+ * Bytes of request bodies held at once across all calls, from the first byte read until the answer is
+ * sent: 320 MiB, one call of the largest size with room for the small calls beside it. A call that
+ * would go past it is refused with 503 before its body is read, so several concurrent large calls
+ * cannot together exhaust the memory.
+ */
+export const MAX_TOTAL_BODY_BYTES = 320 * 1024 * 1024;
 
 export interface BrowserServer {
   url: string;
   port: number;
   token: string;
+  /** Body bytes held by calls not yet answered (for tests of the total budget). */
+  heldBodyBytes(): number;
   close(): Promise<void>;
 }
 
 /**
  * Serves the built renderer and the command table on loopback only. Every api call must carry
  * the per-launch token, and every request must name this server in its Host header (so a page
- * elsewhere cannot reach it through DNS rebinding).
+ * elsewhere cannot reach it through DNS rebinding). No request can stop the server: whatever a
+ * handler throws becomes a 4xx or 5xx answer, and bodies are held within a total budget.
  */
 export async function startBrowserServer(options: {
   session: Session;
   staticDir: string;
   port?: number;
   token?: string;
+  /** Largest body of one call (default MAX_BODY_BYTES). */
+  maxBodyBytes?: number;
+  /** Bytes of bodies held at once across calls (default MAX_TOTAL_BODY_BYTES). */
+  maxTotalBodyBytes?: number;
 }): Promise<BrowserServer> {
   const token = options.token ?? crypto.randomBytes(24).toString('base64url');
   const staticRoot = path.resolve(options.staticDir);
+  const maxBody = options.maxBodyBytes ?? MAX_BODY_BYTES;
+  const maxTotal = options.maxTotalBodyBytes ?? MAX_TOTAL_BODY_BYTES;
+  /** Body bytes held by calls not yet answered. */
+  let held = 0;
   let port = 0;
 
   const server = http.createServer((req, res) => {
+    req.on('error', () => req.destroy());
+    res.on('error', () => res.destroy());
+    try {
+      route(req, res);
+    } catch (error) {
+      fail(res, error);
+    }
+  });
+  // A request line or header Node cannot parse: a plain 400, never an exception.
+  server.on('clientError', (error: NodeJS.ErrnoException, socket) => {
+    if (!socket.writable) {
+      socket.destroy();
+      return;
+    }
+    const status =
+      error.code === 'HPE_HEADER_OVERFLOW'
+        ? '431 Request Header Fields Too Large'
+        : error.code === 'ERR_HTTP_REQUEST_TIMEOUT'
+          ? '408 Request Timeout'
+          : '400 Bad Request';
+    socket.end(`HTTP/1.1 ${status}\r\nConnection: close\r\nContent-Length: 0\r\n\r\n`);
+  });
+
+  function route(req: http.IncomingMessage, res: http.ServerResponse): void {
     const host = req.headers.host ?? '';
     if (host !== `127.0.0.1:${port}` && host !== `localhost:${port}`) {
       sendText(res, 421, 'this server answers only to 127.0.0.1');
-    } else if (new URL(req.url ?? '/', `http://${host}`).pathname === '/api/call') {
+      return;
+    }
+    const pathname = requestPath(req.url ?? '/');
+    if (pathname === undefined) {
+      sendText(res, 400, 'the request path is not a valid address');
+    } else if (pathname === '/api/call') {
       handleApi(req, res);
     } else if (req.method !== 'GET' && req.method !== 'HEAD') {
       sendText(res, 405, 'method not allowed');
     } else {
-      serveStatic(new URL(req.url ?? '/', `http://${host}`).pathname, res);
+      serveStatic(pathname, res);
     }
-  });
+  }
 
   function handleApi(req: http.IncomingMessage, res: http.ServerResponse): void {
     const origin = req.headers.origin;
@@ -82,41 +121,87 @@ export async function startBrowserServer(options: {
       );
       return;
     }
+    const type = String(req.headers['content-type'] ?? '');
+    if (!/^application\/json\s*(;|$)/i.test(type)) {
+      sendError(res, 415, 'invalid-input', 'the request body must be sent as application/json');
+      return;
+    }
+    const length = Number(req.headers['content-length'] ?? 0);
+    const declared = Number.isSafeInteger(length) && length > 0 ? length : 0;
+    if (declared > maxBody) {
+      sendError(res, 413, 'too-large', `request larger than ${maxBody} bytes`);
+      return;
+    }
+    // Bytes this call holds from the total budget: reserved up front when the length is declared,
+    // else as they arrive; given back when the answer has gone out (or the connection is lost).
+    let reserved = 0;
+    const reserve = (bytes: number): boolean => {
+      if (held + bytes > maxTotal) return false;
+      held += bytes;
+      reserved += bytes;
+      return true;
+    };
+    const giveBack = () => {
+      held -= reserved;
+      reserved = 0;
+    };
+    res.once('close', giveBack);
+    if (!reserve(declared)) {
+      busy(res);
+      return;
+    }
     const chunks: Buffer[] = [];
     let size = 0;
-    req.on('data', (chunk: Buffer) => {
-      size += chunk.length;
-      if (size > MAX_BODY_BYTES) {
-        sendError(res, 413, 'too-large', `request larger than ${MAX_BODY_BYTES} bytes`);
-        req.destroy();
-        return;
-      }
-      chunks.push(chunk);
-    });
-    req.on('end', async () => {
-      if (res.writableEnded) return;
-      let body: { name?: unknown; input?: unknown };
-      try {
-        body = JSON.parse(Buffer.concat(chunks).toString('utf8'));
-      } catch {
-        sendError(res, 400, 'invalid-input', 'the request body is not JSON');
-        return;
-      }
-      const result = await dispatch(options.session, body?.name, body?.input);
-      send(res, 200, 'application/json', JSON.stringify(result));
-    });
+    req.on(
+      'data',
+      guarded(res, (chunk: Buffer) => {
+        if (res.headersSent) return;
+        size += chunk.length;
+        if (size > maxBody) {
+          refuseMidway(req, res, 413, 'too-large', `request larger than ${maxBody} bytes`);
+          return;
+        }
+        if (size > reserved && !reserve(size - reserved)) {
+          chunks.length = 0;
+          res.setHeader('retry-after', '5');
+          refuseMidway(req, res, 503, 'busy', BUSY_MESSAGE);
+          return;
+        }
+        chunks.push(chunk);
+      }),
+    );
+    req.on(
+      'end',
+      guarded(res, () => {
+        if (res.headersSent) return;
+        let body: { name?: unknown; input?: unknown } | null;
+        try {
+          body = JSON.parse(Buffer.concat(chunks, size).toString('utf8'));
+        } catch {
+          sendError(res, 400, 'invalid-input', 'the request body is not JSON');
+          return;
+        }
+        chunks.length = 0;
+        if (typeof body !== 'object' || body === null || Array.isArray(body)) {
+          sendError(res, 400, 'invalid-input', 'the request body must be a JSON object {"name", "input"}');
+          return;
+        }
+        dispatch(options.session, body.name, body.input)
+          .then((result) => send(res, 200, 'application/json', JSON.stringify(result)))
+          .catch((error: unknown) => fail(res, error));
+      }),
+    );
   }
 
   function serveStatic(pathname: string, res: http.ServerResponse): void {
-    const relative = decodeURIComponent(pathname === '/' ? '/index.html' : pathname);
-    const file = path.resolve(staticRoot, `.${relative}`);
-    if (!file.startsWith(staticRoot + path.sep)) {
+    const file = staticFile(staticRoot, pathname);
+    if (file === undefined) {
       sendText(res, 404, 'not found');
       return;
     }
     fs.readFile(file, (error, data) => {
       if (error) sendText(res, 404, 'not found');
-      else send(res, 200, CONTENT_TYPES[path.extname(file)] ?? 'application/octet-stream', data);
+      else send(res, 200, contentType(file), data);
     });
   }
 
@@ -129,6 +214,7 @@ export async function startBrowserServer(options: {
     url: `http://127.0.0.1:${port}/#token=${token}`,
     port,
     token,
+    heldBodyBytes: () => held,
     close: () =>
       new Promise<void>((resolve) => {
         server.close(() => resolve());
@@ -137,9 +223,52 @@ export async function startBrowserServer(options: {
   };
 }
 
+/** `handler` with whatever it throws answered as a failure of the request, never left uncaught. */
+function guarded<A extends unknown[]>(
+  res: http.ServerResponse,
+  handler: (...args: A) => void,
+): (...args: A) => void {
+  return (...args) => {
+    try {
+      handler(...args);
+    } catch (error) {
+      fail(res, error);
+    }
+  };
+}
+
+/** Answers a call that fails unexpectedly with 500, or drops the connection if an answer has begun. */
+function fail(res: http.ServerResponse, error: unknown): void {
+  console.error('browser-mode request failed:', error);
+  if (res.headersSent) res.destroy();
+  else sendError(res, 500, 'internal', 'the request could not be handled');
+}
+
+const BUSY_MESSAGE = 'other large requests are being handled; try again when they have finished';
+
+function busy(res: http.ServerResponse): void {
+  res.setHeader('retry-after', '5');
+  res.setHeader('connection', 'close');
+  sendError(res, 503, 'busy', BUSY_MESSAGE);
+}
+
+/** Answers before the body has been read, then closes the connection once the answer is out. */
+function refuseMidway(
+  req: http.IncomingMessage,
+  res: http.ServerResponse,
+  status: number,
+  code: string,
+  message: string,
+): void {
+  res.setHeader('connection', 'close');
+  res.once('finish', () => req.destroy());
+  sendError(res, status, code, message);
+}
+
 function send(res: http.ServerResponse, status: number, type: string, body: string | Buffer): void {
   res.writeHead(status, {
     'content-type': type,
+    'content-length': Buffer.byteLength(body),
     'content-security-policy': CONTENT_SECURITY_POLICY,
     'x-content-type-options': 'nosniff',
     'referrer-policy': 'no-referrer',

@@ -13,12 +13,16 @@ export interface CliRun {
 }
 
 /** Runs the CLI as a user would (`npm run -s cli -- …` resolves paths against INIT_CWD). */
-export function runCli(args: string[], options: { cwd?: string; env?: Record<string, string> } = {}): CliRun {
+export function runCli(
+  args: string[],
+  options: { cwd?: string; env?: Record<string, string>; user?: { uid: number; gid: number } } = {},
+): CliRun {
   const cwd = options.cwd ?? ROOT;
   const result = spawnSync(process.execPath, [TSX, MAIN, ...args], {
     cwd: ROOT,
     encoding: 'utf8',
     env: { ...process.env, INIT_CWD: cwd, SCALEWRIGHT_NAME: 'CLI Tester', ...options.env },
+    ...(options.user ?? {}),
   });
   return { code: result.status ?? -1, stdout: result.stdout, stderr: result.stderr };
 }
@@ -30,4 +34,13 @@ export function runNpmCli(args: string[], cwd: string): CliRun {
     encoding: 'utf8',
   });
   return { code: result.status ?? -1, stdout: result.stdout, stderr: result.stderr };
+}
+
+/**
+ * The user to run the command line as in tests of file permissions: the superuser is allowed
+ * everything, so when the tests run as root the command runs as the unprivileged "nobody" (65534);
+ * otherwise as the current user.
+ */
+export function unprivilegedUser(): { uid: number; gid: number } | undefined {
+  return process.getuid?.() === 0 ? { uid: 65534, gid: 65534 } : undefined;
 }

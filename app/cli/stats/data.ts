@@ -3,6 +3,7 @@ import type { MissingMethod } from '../../engine/item-stats.ts';
 import { DEFAULT_SEED } from '../../engine/rng.ts';
 import { type ResponseMatrix, reverseScore, type ScaleBounds } from '../../engine/scoring.ts';
 import { columnLabel, parseTable, TableError } from '../../import/parse-table.ts';
+import { losesPrecision, outOfRangeMessage, precisionWarning } from '../../import/numbers.ts';
 import { readUserFile } from '../files.ts';
 import { type CliContext, DataError, type OptionValues, UsageError } from '../types.ts';
 
@@ -65,7 +66,8 @@ export function numberOption(values: OptionValues, name: string): number | undef
   const raw = text(values, name);
   if (raw === undefined) return undefined;
   const trimmed = raw.trim();
-  if (!NUMBER.test(trimmed)) throw new UsageError(`--${name} must be a number (got "${raw}")`);
+  if (!NUMBER.test(trimmed) || !Number.isFinite(Number(trimmed)))
+    throw new UsageError(`--${name} must be a number (got "${raw}")`);
   return Number(trimmed);
 }
 
@@ -174,6 +176,8 @@ export async function loadItemData(
   const rowNumbers = table.rowNumbers ?? table.rows.map((_, i) => i + 2);
   const warnings = [...table.warnings];
   let decimalCommas = 0;
+  let rounded: { where: string; cell: string; value: number } | undefined;
+  let roundedCount = 0;
   const raw: ResponseMatrix = table.rows.map((row, r) =>
     columns.map((c) => {
       const cell = (row[c] ?? '').trim();
@@ -189,6 +193,13 @@ export async function loadItemData(
             '(leave the cell empty or list it in --missing-codes if it marks a missing answer)',
         );
       }
+      const where = () => `${file}, row ${rowNumbers[r]}, ${columnLabel(c, table.header)}`;
+      const range = outOfRangeMessage(cell, value);
+      if (range !== undefined) throw new DataError(`${where()}: ${range}`);
+      if (losesPrecision(cell, value)) {
+        if (rounded === undefined) rounded = { where: where(), cell, value };
+        roundedCount++;
+      }
       if (numericCodes.includes(value)) return null;
       if (bounds && (value < bounds.min || value > bounds.max)) {
         throw new DataError(
@@ -199,6 +210,8 @@ export async function loadItemData(
       return value;
     }),
   );
+  if (rounded !== undefined)
+    warnings.push(precisionWarning(rounded.where, rounded.cell, rounded.value, roundedCount - 1));
   if (decimalCommas > 0) warnings.push(`read ${decimalCommas} value(s) with a decimal comma as decimals`);
   const data = reverse.length > 0 && bounds ? reverseScore(raw, names, reverse, bounds) : raw;
   return {

@@ -21,7 +21,7 @@ beforeAll(() => {
   expect(runCli(['project', 'new', studyFile, '--demo']).code).toBe(0);
   pilotFile = path.join(tmp.dir, DEMO_PILOT_FILE);
   fs.writeFileSync(pilotFile, demo.pilotCsv);
-});
+}, 60_000);
 afterAll(() => tmp.cleanup());
 
 function write(name: string, text: string): string {

@@ -154,6 +154,30 @@ export const CORPUS: CorpusEntry[] = [
     expect: { problems: [{ row: 3, column: 'tc1', message: /'often' is not a number/ }] },
   },
   {
+    // IEEE 754 binary64 (the open standard for JavaScript numbers) holds nothing above about 1.8e308.
+    name: 'a number beyond the range of doubles',
+    bytes: utf8('id,tc1,tc2\nr1,2,3\nr2,1e999,4\nr3,5,-1e400\n'),
+    dataset: { mapping: items('tc1', 'tc2') },
+    expect: {
+      problems: [
+        { row: 3, column: 'tc1', message: /'1e999' is beyond the largest number that can be held/ },
+        { row: 4, column: 'tc2', message: /'-1e400' is beyond the largest number that can be held/ },
+      ],
+    },
+  },
+  {
+    // IEEE 754 binary64 has a 53-bit significand: 2^53 + 1 = 9007199254740993 is rounded to 2^53.
+    name: 'whole numbers above 2^53',
+    bytes: utf8('id,tc1,trips\nr1,2,12\nr2,3,9007199254740993\nr3,4,18014398509481985\n'),
+    dataset: { mapping: { tc1: item('tc1'), trips: { role: 'criterion' } } },
+    expect: {
+      warnings: [
+        /^row 3, column 'trips': 9007199254740993 cannot be held exactly and is read as 9007199254740992 .*; so are 1 more cell/,
+      ],
+      problems: [],
+    },
+  },
+  {
     name: 'undeclared missing code out of range',
     bytes: utf8('id,tc1,tc2\nr1,-99,3\nr2,4,6\n'),
     dataset: { mapping: items('tc1', 'tc2'), options: { scaleMin: 1, scaleMax: 5 } },

@@ -7,10 +7,15 @@ const report = {
   webPreferences: null,
   loaded: null,
   permissions: [],
-  windowOpen: null,
+  windowOpen: {},
+  opened: [],
+  asked: [],
   navigation: null,
+  privileged: null,
+  handledScheme: null,
   ipc: {},
 };
+let windowOpenHandler;
 let ipcHandler;
 let contentsCreated;
 const contents = {
@@ -27,12 +32,16 @@ const contents = {
     }
   },
   setWindowOpenHandler(fn) {
-    report.windowOpen = fn({ url: 'https://elsewhere.example/' }).action;
+    windowOpenHandler = fn;
   },
-  getURL: () => 'file:///app/index.html',
+  getURL: () => 'scalewright://app/index.html',
 };
+// The window's own contents and main frame, and a frame inside it.
+const mainFrame = { url: 'scalewright://app/index.html' };
+const ownContents = { reload() {}, mainFrame };
 const electron = {
   app: {
+    isPackaged: process.env.FAKE_PACKAGED === '1',
     requestSingleInstanceLock: () => true,
     on(event, fn) {
       if (event === 'web-contents-created') contentsCreated = fn;
@@ -45,11 +54,15 @@ const electron = {
     report.webPreferences = options.webPreferences;
     return {
       loadFile: (f) => {
-        report.loaded = f;
+        report.loaded = `file ${f}`;
+      },
+      loadURL: (u) => {
+        report.loaded = u;
+        return Promise.resolve();
       },
       on() {},
       setTitle() {},
-      webContents: { reload() {} },
+      webContents: ownContents,
       focus() {},
     };
   },
@@ -57,6 +70,18 @@ const electron = {
   dialog: {
     showErrorBox: (title, message) => {
       report.dialogError = `${title}: ${message}`;
+    },
+    showMessageBox: (_win, options) => {
+      report.asked.push(options.detail);
+      return Promise.resolve({ response: 0 });
+    },
+  },
+  protocol: {
+    registerSchemesAsPrivileged(schemes) {
+      report.privileged = schemes;
+    },
+    handle(scheme) {
+      report.handledScheme = scheme;
     },
   },
   ipcMain: {
@@ -74,7 +99,12 @@ const electron = {
       },
     },
   },
-  shell: { openExternal() {} },
+  shell: {
+    openExternal(url) {
+      report.opened.push(url);
+      return Promise.resolve();
+    },
+  },
 };
 const load = Module._load;
 Module._load = function (request, ...rest) {
@@ -84,13 +114,28 @@ process.argv.push('--study', process.env.STUDY);
 require(process.env.MAIN_BUNDLE);
 setTimeout(async () => {
   contentsCreated?.({}, contents);
-  const own = { senderFrame: { url: 'file:///app/index.html' } };
-  report.ipc.own = await ipcHandler(own, 'study.info', {});
-  report.ipc.foreign = await ipcHandler(
-    { senderFrame: { url: 'https://elsewhere.example/' } },
-    'study.info',
-    {},
-  );
+  for (const url of [
+    'https://elsewhere.example/',
+    'https://doi.org/10.0000/invented.example',
+    'http://doi.org/10.0000/invented.example',
+    'https://doi.org.elsewhere.example/',
+    'file:///etc/passwd',
+  ]) {
+    report.windowOpen[url] = windowOpenHandler({ url }).action;
+  }
+  await new Promise((resolve) => setTimeout(resolve, 50));
+  const own = { sender: ownContents, senderFrame: mainFrame };
+  const calls = {
+    own,
+    foreign: { sender: ownContents, senderFrame: { url: 'https://elsewhere.example/' } },
+    nullFrame: { sender: ownContents, senderFrame: null },
+    fileFrame: { sender: ownContents, senderFrame: { url: 'file:///tmp/page.html' } },
+    subframe: { sender: ownContents, senderFrame: { url: 'scalewright://app/index.html' } },
+    otherContents: { sender: { mainFrame }, senderFrame: mainFrame },
+  };
+  for (const [name, event] of Object.entries(calls)) {
+    report.ipc[name] = await ipcHandler(event, 'study.info', {});
+  }
   report.ipc.badInput = await ipcHandler(own, 'facet.add', { name: 3 });
   process.stdout.write(JSON.stringify(report));
   process.exit(0);
