@@ -1,6 +1,7 @@
 import crypto from 'node:crypto';
 import type Database from 'better-sqlite3';
 import { canonicalJson } from './canonical-json.ts';
+import { type DigestTracker, hasDigests, rootDigest } from './content-digest.ts';
 
 export interface Actor {
   /** The operating-system user name. */
@@ -20,9 +21,28 @@ export interface LogEntry {
   rationale: string;
   detail: Record<string, unknown>;
   runId: number | null;
+  /** Root digest of the study's content after this row's change (rows written since digests exist). */
+  stateDigest?: string;
+  /** Digest of the analysis run the row cites: its inputs, options, seed, engine version and results. */
+  runDigest?: string;
   prevHash: string;
   hash: string;
 }
+
+/** What the log list can be narrowed to; every filter is optional. */
+export interface LogFilter {
+  phase?: string;
+  kind?: string;
+  /** An item code: rows whose target is that item. */
+  item?: string;
+  /** Text searched (case-insensitively) in the target, the rationale and the kind. */
+  search?: string;
+  limit?: number;
+  offset?: number;
+}
+
+/** The log's last row as `SEQ:HASH`, the form a researcher records outside the file. */
+export const HEAD_PATTERN = /^(\d+):([0-9a-f]{64})$/;
 
 export interface LogBreak {
   seq: number;
@@ -42,6 +62,8 @@ interface LogRow {
   rationale: string;
   detail: string;
   run_id: number | null;
+  state_digest?: string | null;
+  run_digest?: string | null;
   prev_hash: string;
   hash: string;
 }
@@ -52,7 +74,16 @@ interface LogRow {
  * edited, removed, reordered or truncated log is found by `verify`.
  */
 export class DecisionLog {
-  constructor(private readonly db: Database.Database) {}
+  /** Whether this file keeps content digests (version 5 on); rows then record the state and runs. */
+  private readonly digests: boolean;
+
+  constructor(
+    private readonly db: Database.Database,
+    /** On a connection that writes: the rows each change touched, digested before its row is appended. */
+    private readonly tracker?: DigestTracker,
+  ) {
+    this.digests = hasDigests(db);
+  }
 
   /** Appends one row. Call inside the transaction that makes the change it records. */
   append(
@@ -69,6 +100,8 @@ export class DecisionLog {
     const last = this.db.prepare('SELECT seq, hash FROM decision_log ORDER BY seq DESC LIMIT 1').get() as
       | { seq: number; hash: string }
       | undefined;
+    this.tracker?.flush();
+    const runId = entry.runId ?? null;
     const body = {
       seq: (last?.seq ?? 0) + 1,
       at: new Date().toISOString(),
@@ -79,16 +112,22 @@ export class DecisionLog {
       target: entry.target,
       rationale: entry.rationale ?? '',
       detail: entry.detail ?? {},
-      runId: entry.runId ?? null,
+      runId,
+      stateDigest: this.digests ? rootDigest(this.db) : undefined,
+      runDigest: this.digests && runId !== null ? runDigest(this.db, runId) : undefined,
       prevHash: last?.hash ?? GENESIS_HASH,
     };
     const hash = rowHash(body);
+    const stored = { stateDigest: body.stateDigest ?? null, runDigest: body.runDigest ?? null };
     this.db
       .prepare(
-        `INSERT INTO decision_log (seq, at, actor_user, actor_name, phase, kind, target, rationale, detail, run_id, prev_hash, hash)
-         VALUES (@seq, @at, @actorUser, @actorName, @phase, @kind, @target, @rationale, @detail, @runId, @prevHash, @hash)`,
+        this.digests
+          ? `INSERT INTO decision_log (seq, at, actor_user, actor_name, phase, kind, target, rationale, detail, run_id, state_digest, run_digest, prev_hash, hash)
+             VALUES (@seq, @at, @actorUser, @actorName, @phase, @kind, @target, @rationale, @detail, @runId, @stateDigest, @runDigest, @prevHash, @hash)`
+          : `INSERT INTO decision_log (seq, at, actor_user, actor_name, phase, kind, target, rationale, detail, run_id, prev_hash, hash)
+             VALUES (@seq, @at, @actorUser, @actorName, @phase, @kind, @target, @rationale, @detail, @runId, @prevHash, @hash)`,
       )
-      .run({ ...body, detail: canonicalJson(body.detail), hash });
+      .run({ ...body, ...(this.digests ? stored : {}), detail: canonicalJson(body.detail), hash });
     this.db
       .prepare(
         "INSERT INTO study_meta (key, value) VALUES ('log_head', ?) ON CONFLICT (key) DO UPDATE SET value = excluded.value",
@@ -97,17 +136,84 @@ export class DecisionLog {
     return { ...body, hash };
   }
 
-  list(filter: { phase?: string; limit?: number; offset?: number } = {}): LogEntry[] {
+  /** Rows matching `filter`, newest first. */
+  list(filter: LogFilter = {}): LogEntry[] {
+    return this.page(filter).entries;
+  }
+
+  /** Rows matching `filter`, newest first, and how many match in all (for paging). */
+  page(filter: LogFilter = {}): { total: number; entries: LogEntry[] } {
+    const params = {
+      phase: filter.phase ?? null,
+      kind: filter.kind ?? null,
+      item: filter.item === undefined ? null : `item ${likeEscape(filter.item)}`,
+      search: filter.search?.trim() ? `%${likeEscape(filter.search.trim())}%` : null,
+    };
+    const where = `(@phase IS NULL OR phase = @phase)
+      AND (@kind IS NULL OR kind = @kind)
+      AND (@item IS NULL OR target LIKE @item ESCAPE '\\' OR target LIKE @item || ' %' ESCAPE '\\')
+      AND (@search IS NULL OR target LIKE @search ESCAPE '\\' OR rationale LIKE @search ESCAPE '\\'
+           OR kind LIKE @search ESCAPE '\\' OR replace(kind, '-', ' ') LIKE @search ESCAPE '\\')`;
+    const total = (
+      this.db.prepare(`SELECT count(*) AS n FROM decision_log WHERE ${where}`).get(params) as { n: number }
+    ).n;
     const rows = this.db
+      .prepare(`SELECT * FROM decision_log WHERE ${where} ORDER BY seq DESC LIMIT @limit OFFSET @offset`)
+      .all({ ...params, limit: filter.limit ?? -1, offset: filter.offset ?? 0 }) as LogRow[];
+    return { total, entries: rows.map(fromRow) };
+  }
+
+  /** The distinct kinds of row the log holds, for filters. */
+  kinds(): string[] {
+    return this.db.prepare('SELECT DISTINCT kind FROM decision_log ORDER BY kind').pluck().all() as string[];
+  }
+
+  /** The last row as `SEQ:HASH`, or undefined while the log is empty. */
+  head(): string | undefined {
+    const last = this.db.prepare('SELECT seq, hash FROM decision_log ORDER BY seq DESC LIMIT 1').get() as
+      | { seq: number; hash: string }
+      | undefined;
+    return last ? `${last.seq}:${last.hash}` : undefined;
+  }
+
+  /** The row at `seq`, if the log holds it. */
+  row(seq: number): LogEntry | undefined {
+    const raw = this.db.prepare('SELECT * FROM decision_log WHERE seq = ?').get(seq) as LogRow | undefined;
+    return raw ? fromRow(raw) : undefined;
+  }
+
+  /** The latest row that recorded the content's root digest. */
+  lastRecordedState(): { seq: number; root: string } | undefined {
+    if (!this.digests) return undefined;
+    const row = this.db
       .prepare(
-        `SELECT * FROM decision_log WHERE (@phase IS NULL OR phase = @phase) ORDER BY seq DESC LIMIT @limit OFFSET @offset`,
+        'SELECT seq, state_digest AS root FROM decision_log WHERE state_digest IS NOT NULL ORDER BY seq DESC LIMIT 1',
       )
-      .all({
-        phase: filter.phase ?? null,
-        limit: filter.limit ?? -1,
-        offset: filter.offset ?? 0,
-      }) as LogRow[];
-    return rows.map(fromRow);
+      .get() as { seq: number; root: string } | undefined;
+    return row;
+  }
+
+  /** Each analysis run a log row cites with a digest, against that digest recomputed from the run as stored. */
+  runBreaks(): { seq: number; runId: number; problem: string }[] {
+    if (!this.digests) return [];
+    const out: { seq: number; runId: number; problem: string }[] = [];
+    const rows = this.db
+      .prepare('SELECT seq, run_id, run_digest FROM decision_log WHERE run_digest IS NOT NULL ORDER BY seq')
+      .all() as { seq: number; run_id: number | null; run_digest: string }[];
+    for (const r of rows) {
+      if (r.run_id === null) continue;
+      const now = runDigest(this.db, r.run_id);
+      if (now === undefined) {
+        out.push({ seq: r.seq, runId: r.run_id, problem: `analysis run ${r.run_id} is missing` });
+      } else if (now !== r.run_digest) {
+        out.push({
+          seq: r.seq,
+          runId: r.run_id,
+          problem: `analysis run ${r.run_id} differs from the digest log row ${r.seq} holds (its inputs, options, seed, engine version or results were edited)`,
+        });
+      }
+    }
+    return out;
   }
 
   count(): number {
@@ -159,6 +265,30 @@ export class DecisionLog {
   }
 }
 
+/** Escapes LIKE's wildcards so that user text matches literally (with ESCAPE '\\'). */
+function likeEscape(text: string): string {
+  return text.replace(/[\\%_]/g, (c) => `\\${c}`);
+}
+
+const RUN_PARTS = ['phase', 'kind', 'inputs', 'options', 'seed', 'engine_version', 'results'] as const;
+
+/**
+ * The digest of an analysis run as stored: its id, phase, kind, inputs, options, seed, engine
+ * version and results, each exactly as the file holds it. Undefined when there is no such run.
+ */
+export function runDigest(db: Database.Database, runId: number): string | undefined {
+  const run = db
+    .prepare(`SELECT id, ${RUN_PARTS.join(', ')} FROM analysis_run WHERE id = ?`)
+    .safeIntegers(true)
+    .get(runId) as Record<string, unknown> | undefined;
+  if (!run) return undefined;
+  return crypto.createHash('sha256').update(runText(run)).digest('hex');
+}
+
+function runText(run: Record<string, unknown>): string {
+  return JSON.stringify(['id', ...RUN_PARTS].map((k) => [k, typeof run[k], String(run[k])]));
+}
+
 function rowHash(body: Omit<LogEntry, 'hash'>): string {
   return crypto.createHash('sha256').update(body.prevHash).update(canonicalJson(body)).digest('hex');
 }
@@ -175,6 +305,8 @@ function fromRow(row: LogRow): LogEntry {
     rationale: row.rationale,
     detail: JSON.parse(row.detail) as Record<string, unknown>,
     runId: row.run_id,
+    stateDigest: row.state_digest ?? undefined,
+    runDigest: row.run_digest ?? undefined,
     prevHash: row.prev_hash,
     hash: row.hash,
   };

@@ -2,10 +2,12 @@ import crypto from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
 import Database from 'better-sqlite3';
+import { DigestTracker, hasDigests, syncAllDigests } from './content-digest.ts';
 import { DecisionLog, type Actor } from './decision-log.ts';
 import { StudyFileError } from './errors.ts';
 import { StudyLock } from './lock.ts';
 import { LATEST_VERSION, MIGRATIONS } from './migrations/index.ts';
+import type { MigrationContext } from './migrations/types.ts';
 import { APPLICATION_ID, inspectStudyFile } from './study-file.ts';
 
 export const STUDY_EXTENSION = '.scalewright';
@@ -44,7 +46,7 @@ export class Study {
     readonly mode: 'read' | 'write',
     private readonly lock: StudyLock | undefined,
   ) {
-    this.log = new DecisionLog(db);
+    this.log = new DecisionLog(db, mode === 'write' ? new DigestTracker(db) : undefined);
   }
 
   /**
@@ -80,11 +82,15 @@ export class Study {
         db.pragma(`page_size = ${STUDY_PAGE_SIZE}`);
         db.pragma(`application_id = ${APPLICATION_ID}`);
         db.pragma('foreign_keys = ON');
-        migrate(db, 0);
-        const meta = db.prepare('INSERT INTO study_meta (key, value) VALUES (?, ?)');
-        meta.run('study_id', crypto.randomUUID());
-        meta.run('created_at', new Date().toISOString());
-        meta.run('title', setup.title ?? '');
+        migrate(db, 0, LATEST_VERSION, { actor: options.actor });
+        db.transaction(() => {
+          const meta = db.prepare('INSERT INTO study_meta (key, value) VALUES (?, ?)');
+          meta.run('study_id', crypto.randomUUID());
+          meta.run('created_at', new Date().toISOString());
+          meta.run('title', setup.title ?? '');
+          // The study's first state: what later log rows' digests grow from.
+          syncAllDigests(db);
+        })();
       } finally {
         db.close();
       }
@@ -149,7 +155,7 @@ export class Study {
         if (unfinished) quickCheck(db, target);
         // Migrations run before the switch to write-ahead mode: a migration that fails is rolled
         // back, and the file is left exactly as it was.
-        migrateStudy(db, target, facts.userVersion);
+        migrateStudy(db, target, facts.userVersion, { actor: options.actor });
         db.pragma('journal_mode = WAL');
       } catch (error) {
         db.close();
@@ -277,9 +283,9 @@ function quickCheck(db: Database.Database, target: string): void {
  * Upgrades an opened study from version `from`; a migration that fails (tables that do not match the
  * version the file states) is rolled back and reported as a damaged study, naming the file.
  */
-function migrateStudy(db: Database.Database, target: string, from: number): void {
+function migrateStudy(db: Database.Database, target: string, from: number, context: MigrationContext): void {
   try {
-    migrate(db, from);
+    migrate(db, from, LATEST_VERSION, context);
   } catch (error) {
     throw new StudyFileError(
       'corrupt',
@@ -327,12 +333,37 @@ function notWritable(what: string, folder: string, error: unknown): StudyFileErr
   return new StudyFileError('not-writable', `${what}: the folder ${folder} is not writable (${reason})`);
 }
 
-/** Runs the migrations after `from` up to `to`, all in one transaction, and records the version. */
-export function migrate(db: Database.Database, from: number, to: number = LATEST_VERSION): void {
+/** Named in the log row a file upgrade writes when no one is named (tests, tools). */
+const FILE_UPGRADE_ACTOR: Actor = { user: 'scalewright', name: 'Scalewright file upgrade' };
+
+/**
+ * Runs the migrations after `from` up to `to`, all in one transaction, and records the version.
+ * Once a file keeps content digests, rows that a migration added or changed are digested here, and
+ * recorded in one logged row when the file has a log, so that no migration needs to know of them.
+ */
+export function migrate(
+  db: Database.Database,
+  from: number,
+  to: number = LATEST_VERSION,
+  context: MigrationContext = { actor: FILE_UPGRADE_ACTOR },
+): void {
   const pending = MIGRATIONS.filter((m) => m.version > from && m.version <= to);
   if (pending.length === 0) return;
   db.transaction(() => {
-    for (const migration of pending) migration.up(db);
+    for (const migration of pending) migration.up(db, context);
+    if (hasDigests(db)) {
+      const rows = syncAllDigests(db);
+      const log = new DecisionLog(db);
+      if (rows > 0 && log.count() > 0) {
+        log.append(context.actor, {
+          phase: 'study',
+          kind: 'digests-recorded',
+          target: `content changed by the upgrade to file version ${to}`,
+          rationale: 'digests recorded for content a file upgrade added or changed',
+          detail: { rows, fileVersion: to },
+        });
+      }
+    }
     db.pragma(`user_version = ${to}`);
   })();
 }

@@ -20,7 +20,8 @@ const USAGE = `usage: scalewright <command> [options]
   project status FILE [--json]             phases, states, counts, open gates
   project import FILE --data CSV --role pilot|validation|retest [--map map.json]
                                            import a data file into the study
-  project verify FILE                      check the file and its decision log
+  project verify FILE [--head SEQ:HASH]    check the file, its log, stored files, runs and content;
+                                           with --head, that the log still holds that row
 
 Run from the project root as: npm run -s cli -- <command> [options]`;
 

@@ -43,11 +43,14 @@ export function changeInPhase<T>(study: Study, entry: PhaseEntry, apply: () => T
 
 /**
  * Stores an analysis run (inputs, options, seed, engine version, results) and its log row in one
- * transaction, and returns the run's id, which later decisions cite.
+ * transaction, and returns the run's id, which later decisions cite. The log row carries a digest
+ * of the run as stored, which verify recomputes. `alongside` stores what belongs with the run
+ * (a round that cites it) in the same change, so that the row's content digest covers it too.
  */
 export function recordRun(
   study: Study,
   run: Omit<RunInput, 'engineVersion'> & { phase: PhaseId; label: string },
+  alongside?: (runId: number) => void,
 ): number {
   const status = requireOpen(study, run.phase);
   return study.change(
@@ -60,7 +63,9 @@ export function recordRun(
     }),
     () => {
       markStarted(study, run.phase, status);
-      return insertRun(study, { ...run, engineVersion: ENGINE_VERSION });
+      const runId = insertRun(study, { ...run, engineVersion: ENGINE_VERSION });
+      alongside?.(runId);
+      return runId;
     },
   );
 }

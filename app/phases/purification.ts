@@ -488,8 +488,10 @@ export function storeRound(study: Study, prepared: PreparedRound, result: RoundJ
   const flags: Record<string, ItemFlag[]> = {};
   for (const item of result.scale.items) flags[item.name] = flagItem(item, result.scale);
   const results: RoundResults = { ...result, distributions: prepared.distributions, flags };
-  const id = study.db.transaction(() => {
-    const runId = recordRun(study, {
+  let id = 0;
+  recordRun(
+    study,
+    {
       phase: PHASE,
       kind: 'purification-round',
       label: `purification round ${prepared.number} (${prepared.items.length} items, n = ${result.scale.n})`,
@@ -497,15 +499,17 @@ export function storeRound(study: Study, prepared: PreparedRound, result: RoundJ
       options: prepared.options,
       seed: prepared.seed,
       results,
-    });
-    return insertRound(study, {
-      number: prepared.number,
-      datasetId: prepared.datasetId,
-      items: prepared.items,
-      runId,
-      startedFromRound: prepared.startedFromRound,
-    });
-  })();
+    },
+    (runId) => {
+      id = insertRound(study, {
+        number: prepared.number,
+        datasetId: prepared.datasetId,
+        items: prepared.items,
+        runId,
+        startedFromRound: prepared.startedFromRound,
+      });
+    },
+  );
   return roundSummaries(study).find((r) => r.id === id) as RoundSummary;
 }
 
