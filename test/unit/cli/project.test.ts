@@ -101,7 +101,7 @@ describe('project verify finds a tampered decision log', () => {
     [
       'a removed last row',
       'DELETE FROM decision_log WHERE seq = (SELECT max(seq) FROM decision_log)',
-      /rows were removed from the end/,
+      /rows were\s+removed from the end/,
     ],
     [
       'two swapped rows',
@@ -116,9 +116,87 @@ describe('project verify finds a tampered decision log', () => {
     const run = runCli(['project', 'verify', file]);
     expect(run.code).toBe(1);
     expect(run.stdout).toMatch(expected);
-    expect(run.stderr).toMatch(/^error: decision log of .* is broken at row \d+/);
+    expect(run.stderr).toMatch(/^error: .* failed verification: log row \d+: [^\n]+\n$/);
     const json = runCli(['project', 'verify', file, '--json']);
     expect(json.code).toBe(1);
     expect(JSON.parse(json.stdout).logIntact).toBe(false);
+  });
+});
+
+describe('the log head: shown by status, checked by verify --head', () => {
+  let file: string;
+  beforeAll(() => {
+    file = path.join(tmp.dir, 'head.scalewright');
+    expect(runCli(['project', 'new', file, '--demo']).code).toBe(0);
+  });
+
+  function head(): string {
+    const status = runCli(['project', 'status', file, '--json']);
+    expect(status.code).toBe(0);
+    return JSON.parse(status.stdout).log.head;
+  }
+
+  it('status prints the head in its table and as log {rows, head} in its JSON', () => {
+    const value = JSON.parse(runCli(['project', 'status', file, '--json']).stdout);
+    expect(value.log.rows).toBe(value.logRows);
+    expect(value.log.head).toMatch(new RegExp(`^${value.log.rows}:[0-9a-f]{64}$`));
+    const table = runCli(['project', 'status', file]);
+    const line = table.stdout.split('\n').find((l) => l.startsWith('log head '));
+    expect(line).toBe(`log head ${value.log.head}`);
+    expect(line?.length).toBeLessThanOrEqual(100);
+  });
+
+  it('verify --head accepts the current head and an earlier one, and exits 0', () => {
+    const current = head();
+    const run = runCli(['project', 'verify', file, '--head', current, '--json']);
+    expect(run.code).toBe(0);
+    expect(JSON.parse(run.stdout)).toMatchObject({
+      intact: true,
+      head: current,
+      headChecked: { head: current, held: true },
+    });
+  });
+
+  it('verify --head exits 1 naming the row when the log no longer holds that hash', () => {
+    const [seq] = head().split(':');
+    const forged = `${seq}:${'b'.repeat(64)}`;
+    const run = runCli(['project', 'verify', file, '--head', forged]);
+    expect(run.code).toBe(1);
+    expect(run.stdout).toMatch(/NOT held by the log/);
+    expect(run.stderr).toMatch(
+      new RegExp(
+        `^error: .* failed verification: log row ${seq}: row ${seq} now has hash [0-9a-f]{64}, not the recorded b{64}`,
+      ),
+    );
+    for (const line of run.stdout.split('\n')) expect(line.length).toBeLessThanOrEqual(100);
+  });
+
+  it.each(['12', 'abc:def', `0:${'a'.repeat(64)}`, `3:${'a'.repeat(63)}`, `3:${'g'.repeat(64)}`])(
+    'a malformed head (%s) is a usage error: exit 2, one line',
+    (bad) => {
+      const run = runCli(['project', 'verify', file, '--head', bad]);
+      expect(run.code).toBe(2);
+      expect(run.stderr).toMatch(/^error: --head ".*" is not a log head; give it as SEQ:HASH[^\n]*\n$/);
+      expect(run.stdout).toBe('');
+    },
+  );
+
+  it('verify names an edited item wording by table, row and column', () => {
+    const copy = path.join(tmp.dir, 'head-edited.scalewright');
+    fs.copyFileSync(file, copy);
+    const db = new Database(copy);
+    db.exec(
+      "DROP TRIGGER item_revision_no_update; UPDATE item_revision SET text = 'Edited by hand.' WHERE id = 4",
+    );
+    db.close();
+    const run = runCli(['project', 'verify', copy, '--json']);
+    expect(run.code).toBe(1);
+    const value = JSON.parse(run.stdout);
+    expect(value.intact).toBe(false);
+    expect(value.logIntact).toBe(true);
+    expect(value.breaks).toEqual([
+      expect.objectContaining({ check: 'content', table: 'item_revision', row: 'id 4', columns: ['text'] }),
+    ]);
+    expect(run.stderr).toMatch(/^error: .* failed verification: item_revision \(id 4\): text differs/);
   });
 });
