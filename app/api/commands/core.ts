@@ -1,7 +1,18 @@
 import { z } from 'zod';
+import { PHASE_IDS } from '../../../db/repos/phase-state.ts';
+import { parseHead, verifyStudy } from '../../../db/verify.ts';
 import { reopenPhase, signOffPhase, studyOverview } from '../../phases/index.ts';
+import { exportLogCsv } from '../../phases/log.ts';
 import { command } from '../define.ts';
 import { phase, rationale, text } from './schemas.ts';
+
+/** What the log can be narrowed to: a phase (or the study itself), a kind, an item code, a text. */
+const logFilter = z.object({
+  phase: z.enum([...PHASE_IDS, 'study']).optional(),
+  kind: text(60).trim().min(1).optional(),
+  item: text(20).trim().min(1).optional(),
+  search: text(200).optional(),
+});
 
 /** The study itself, phase sign-off, the decision log, and who is working. */
 export const coreCommands = {
@@ -34,14 +45,28 @@ export const coreCommands = {
   ),
 
   'log.list': command(
-    z.object({
-      phase: phase.optional(),
+    logFilter.extend({
       limit: z.number().int().min(1).max(1_000).default(200),
       offset: z.number().int().min(0).default(0),
     }),
-    (s, input) => ({ total: s.study.log.count(), entries: s.study.log.list(input) }),
+    (s, input) => ({
+      ...s.study.log.page(input),
+      head: s.study.log.head() ?? null,
+      kinds: s.study.log.kinds(),
+    }),
   ),
-  'log.verify': command(z.object({}), (s) => ({ breaks: s.study.log.verify(), rows: s.study.log.count() })),
+  'log.exportCsv': command(logFilter, (s, input) => exportLogCsv(s.study, input)),
+  'log.verify': command(
+    z.object({
+      head: text(200)
+        .trim()
+        .refine((h) => parseHead(h) !== undefined, {
+          message: 'a log head reads SEQ:HASH: the row number, a colon and the 64-hex-digit hash',
+        })
+        .optional(),
+    }),
+    (s, input) => verifyStudy(s.study, { head: input.head }),
+  ),
 
   'task.status': command(z.object({ id: text(64) }), (s, input) => s.tasks.status(input.id)),
   'task.cancel': command(z.object({ id: text(64) }), (s, input) => s.tasks.cancel(input.id)),

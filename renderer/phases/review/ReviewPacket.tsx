@@ -8,6 +8,7 @@ import { useQuery } from '../../shared/use-command.ts';
  */
 export function ReviewPacket({ roundId }: { roundId: number }) {
   const packet = useQuery('review.packet', { roundId });
+  const log = useQuery('log.list', { limit: 1 });
   if (packet.error) return <ErrorNote message={packet.error} />;
   if (!packet.data) return <p className="loading">Loading…</p>;
   const p = packet.data;
@@ -141,6 +142,12 @@ export function ReviewPacket({ roundId }: { roundId: number }) {
           : relevance{form.asksEssential && ', essential'}
           {form.asksFacet && ', facet'}
           {form.asksComment && ', comment'}. Thank you.
+          {log.data?.head && (
+            <p className="packet-head-record">
+              Printed from the study whose decision log ended at <code>{log.data.head}</code>; the study can
+              show at any time that its log still holds this row.
+            </p>
+          )}
         </footer>
       </article>
     </div>
