@@ -60,8 +60,8 @@ test('opens the demo study, shows the seven phases, and keeps construct edits wi
   await expect(rows.nth(2)).toContainText('Adding route-planning detail');
   await expect(rows.first()).toContainText('E2E Researcher');
   await expect(rows.nth(3)).toContainText('Demo generator');
-  await page.getByRole('button', { name: 'Verify chain' }).click();
-  await expect(page.locator('.verify-ok')).toHaveText(/Chain intact: \d+ rows checked/);
+  await page.getByRole('button', { name: 'Verify study' }).click();
+  await expect(page.locator('.verify-ok')).toHaveText(/Study intact: \d+ log rows chained/);
   await page.screenshot({ path: path.join(SCREENSHOTS, 'decision-log.png'), fullPage: true });
 });
 

@@ -147,6 +147,8 @@ test('adds and edits items with live wording checks, imports ratings, and record
   await expect(page.locator('.packet-table tbody tr')).toHaveCount(32);
   await expect(page.locator('.packet-facets dt')).toHaveCount(4);
   await expect(page.locator('.packet-code')).toHaveCount(0);
+  // The packet names the log head it was printed at, so that the study can later show it holds it.
+  await expect(page.locator('.packet-head-record code')).toHaveText(/^\d+:[0-9a-f]{64}$/);
   await page.screenshot({ path: path.join(SCREENSHOTS, 'review-packet.png'), fullPage: true });
   await page.emulateMedia({ media: 'print' });
   await expect(page.locator('.sidebar')).toBeHidden();
