@@ -99,9 +99,12 @@ function tableShape(db: Database.Database, name: string): TableShape {
 
 /** Reads rows as arrays (rowid first), with integers as bigints so no value is rounded. */
 function rowReader(db: Database.Database, shape: TableShape, where: string) {
+  // A stored file's bytes are read as their length only: its recorded SHA-256 vouches for them.
+  const fileBytes = new Set(shape.files.map((f) => f.bytes));
+  const columns = shape.columns.map((c) => (fileBytes.has(c) ? `length(${quote(c)})` : quote(c)));
   return db
     .prepare(
-      `SELECT rowid, ${shape.columns.map(quote).join(', ')} FROM ${quote(shape.name)} WHERE (${shape.covered}) AND ${where}`,
+      `SELECT rowid, ${columns.join(', ')} FROM ${quote(shape.name)} WHERE (${shape.covered}) AND ${where}`,
     )
     .raw(true)
     .safeIntegers(true);
@@ -127,8 +130,9 @@ export function digestRow(shape: TableShape, row: unknown[]): RowDigest {
   for (let i = 0; i < shape.columns.length; i++) {
     const value = row[i + 1];
     const name = shape.columns[i];
-    // A stored file's bytes are vouched for by its recorded SHA-256 (a column of this same row).
-    const text = fileBytes.has(name) && Buffer.isBuffer(value) ? `F${value.length}` : encode(value);
+    // A stored file's bytes are vouched for by its recorded SHA-256 (a column of this same row);
+    // the reader gives their length.
+    const text = fileBytes.has(name) && typeof value === 'bigint' ? `F${value}` : encode(value);
     const columnHash = sha256(`${name}\0${text}`);
     whole.update(`${columnHash}\0`);
     parts.push(`${name}=${columnHash.slice(0, 12)}`);
