@@ -128,7 +128,7 @@ describe('the log head: shown by status, checked by verify --head', () => {
   beforeAll(() => {
     file = path.join(tmp.dir, 'head.scalewright');
     expect(runCli(['project', 'new', file, '--demo']).code).toBe(0);
-  });
+  }, 60_000);
 
   function head(): string {
     const status = runCli(['project', 'status', file, '--json']);
