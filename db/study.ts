@@ -192,7 +192,7 @@ export class Study {
     const db = new Database(image, { nativeBinding: options.nativeBinding });
     try {
       db.pragma('foreign_keys = ON');
-      migrateStudy(db, target, facts.userVersion);
+      migrateStudy(db, target, facts.userVersion, { actor: options.actor });
     } catch (error) {
       db.close();
       throw error;
