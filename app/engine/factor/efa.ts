@@ -77,7 +77,7 @@ function reorder(result: { pattern: number[][]; structure: number[][]; phi: numb
 export function exploratoryFactorAnalysis(items: string[], r: number[][], options: EfaOptions): EfaResult {
   if (items.length !== r.length) throw new EngineError(`factor analysis: ${items.length} names for a ${r.length}-item matrix`);
   const m = options.factors;
-  const ext = extractFactors(r, { factors: m, method: options.extraction, n: options.n });
+  const ext = extractFactors(r, { factors: m, method: options.extraction, n: options.n, names: items });
   const rot = rotateLoadings(ext.loadings, { ...options, method: options.rotation });
   const { pattern, structure, phi } = reorder(rot, m);
   const p = items.length;
@@ -95,7 +95,7 @@ export function exploratoryFactorAnalysis(items: string[], r: number[][], option
     return { item: items[i], primary: primary + 1, notes };
   });
   const warnings = [
-    ...ext.warnings.map((w) => w.replace(/items? ([\d, ]+) reached/, (_, list: string) => `${list.split(', ').map((k) => `"${items[Number(k) - 1]}"`).join(', ')} reached`)),
+    ...ext.warnings,
     ...rot.warnings,
   ];
   let omega: OmegaCoefficients | null = null;

@@ -14,6 +14,8 @@ export const EXTRACTION_MAX_ITERATIONS = 5000;
 export const PAF_TOLERANCE = 1e-9;
 /** minres/ML: largest projected-gradient component at convergence. */
 export const GRADIENT_TOLERANCE = 1e-9;
+/** minres/ML: a projected gradient below this counts as converged once rounding stops all progress. */
+export const GRADIENT_STALL_TOLERANCE = 1e-6;
 /** Confidence level of the RMSEA interval (Browne & Cudeck 1993 report 90%). */
 export const RMSEA_CI_LEVEL = 0.9;
 
@@ -35,7 +37,6 @@ export interface Extraction {
   loadings: number[][];
   communalities: number[];
   uniquenesses: number[];
-  /** Eigenvalues of the final reduced matrix (PAF) or of Ψ^{-1/2}RΨ^{-1/2} (ML) or R − Ψ (minres). */
   iterations: number;
   converged: boolean;
   /** Items whose communality reached 1 (PAF: ≥ 1; minres/ML: uniqueness at MIN_UNIQUENESS). */
@@ -160,7 +161,7 @@ function rmseaBound(chiSquare: number, df: number, target: number): number {
  * Fit of an ML factor model: χ² with Bartlett's correction (n − 1 − (2p + 5)/6 − 2m/3)·F_ML on
  * df = ((p − m)² − (p + m))/2 (Lawley & Maxwell 1971; registry id `efa.ml-chisquare`); RMSEA =
  * √(max(χ² − df, 0)/(df·(n − 1))) with its 90% interval by inverting the noncentral χ² (Steiger 1990;
- * Browne & Cudeck 1993; registry id `fit.rmsea`); TLI against the independence model, whose χ² is
+ * Browne & Cudeck 1993; registry id `rmsea.steiger`); TLI against the independence model, whose χ² is
  * Bartlett's sphericity statistic (Tucker & Lewis 1973; registry id `fit.tli`).
  *
  * Cost: O(p³). Throws EngineError when R is not positive definite.
@@ -199,11 +200,14 @@ export function mlFitStatistics(r: number[][], discrepancy: number, n: number, m
  *
  * Cost: O(p³) per iteration (one symmetric eigendecomposition), usually tens to hundreds of iterations.
  * Throws EngineError for a matrix that is not a correlation matrix, m outside 1 … p − 1, ML with
- * negative degrees of freedom, or n < 2.
+ * negative degrees of freedom, or n < 2. `names` (optional) names the items in warnings.
  *
  * @example extractFactors(r, { factors: 2, method: 'ml', n: 300 }).fit?.rmsea
  */
-export function extractFactors(r: number[][], options: { factors: number; method: ExtractionMethod; n: number }): Extraction {
+export function extractFactors(
+  r: number[][],
+  options: { factors: number; method: ExtractionMethod; n: number; names?: string[] },
+): Extraction {
   const p = checkCorrelationMatrix(r, 'factor extraction');
   const m = options.factors;
   const { n, method } = options;
@@ -244,6 +248,7 @@ export function extractFactors(r: number[][], options: { factors: number; method
     const psi0 = method === 'ml' ? init.h2.map((h) => Math.min(1, Math.max(MIN_UNIQUENESS, (1 - (0.5 * m) / p) * (1 - h)))) : init.h2.map((h) => 1 - h);
     const best = minimizeInBox((x) => objective(x), psi0, MIN_UNIQUENESS, 1, {
       tolerance: GRADIENT_TOLERANCE,
+      stallTolerance: GRADIENT_STALL_TOLERANCE,
       maxIterations: EXTRACTION_MAX_ITERATIONS,
     });
     const final = objective(best.x);
@@ -258,7 +263,7 @@ export function extractFactors(r: number[][], options: { factors: number; method
   if (!converged) warnings.push(`${method} extraction did not converge in ${iterations} iterations; treat the loadings with caution`);
   if (heywood.length > 0) {
     warnings.push(
-      `Heywood case: ${heywood.length === 1 ? 'item' : 'items'} ${heywood.map((i) => i + 1).join(', ')} reached a communality of 1 (or more); too many factors, too few respondents, or an item that duplicates another`,
+      `Heywood case: ${heywood.length === 1 ? 'item' : 'items'} ${heywood.map((i) => (options.names ? `"${options.names[i]}"` : String(i + 1))).join(', ')} reached a communality of 1 (or more); too many factors, too few respondents, or an item that duplicates another`,
     );
   }
   if (fit && fit.df === 0) warnings.push('the model is just identified (df = 0): χ², RMSEA and TLI are not defined');

@@ -49,7 +49,7 @@ export interface OmegaCoefficients {
 /**
  * Omega hierarchical ω_h = (Σg)²/1ᵀR1 and omega total ω_t = 1 − Σu²/1ᵀR1 from a Schmid–Leiman solution
  * (McDonald 1999; Zinbarg, Revelle, Yovel & Li 2005; registry ids `omega.hierarchical`,
- * `omega.total-sl`), with 1ᵀR1 the observed variance of the standardized sum score. Per facet (items
+ * `omega.total`), with 1ᵀR1 the observed variance of the standardized sum score. Per facet (items
  * assigned to the group factor on which they load most, or as given), ω_t of the facet's items,
  * ω_h = (Σg)²/1ᵀR₍f₎1 (what the general factor carries) and ω_group = (Σs)²/1ᵀR₍f₎1 (what the facet's own
  * factor carries beyond it).

@@ -18,7 +18,8 @@ export interface BoxMinimum {
  * outward held fixed, and a backtracking (Armijo) line search along the projected path (Bertsekas
  * 1982, "Projected Newton methods for optimization problems with simple constraints", SIAM J. Control
  * and Optimization 20, 221–246, from memory; Nocedal & Wright 2006, Numerical Optimization, ch. 6).
- * Converged when the largest projected-gradient component falls below `tolerance`.
+ * Converged when the largest projected-gradient component falls below `tolerance`, or falls below
+ * `stallTolerance` when no step lowers the function any more (its rounding has taken over).
  *
  * Cost: O(d²) per iteration plus the evaluations of `fg`. Throws EngineError when `fg` returns a
  * non-finite value at the start.
@@ -28,7 +29,7 @@ export function minimizeInBox(
   start: number[],
   lo: number,
   hi: number,
-  options: { tolerance: number; maxIterations: number },
+  options: { tolerance: number; stallTolerance: number; maxIterations: number },
 ): BoxMinimum {
   const d = start.length;
   const clamp = (v: number) => Math.min(hi, Math.max(lo, v));
@@ -76,7 +77,7 @@ export function minimizeInBox(
       }
       t /= 2;
     }
-    if (!accepted) return { x, value: f, iterations: iter, converged: projected < options.tolerance * 1e3 };
+    if (!accepted) return { x, value: f, iterations: iter, converged: projected < options.stallTolerance };
     const s = accepted.x.map((v, i) => v - x[i]);
     const y = accepted.gradient.map((v, i) => v - g[i]);
     const sy = s.reduce((acc, v, i) => acc + v * y[i], 0);
@@ -101,7 +102,7 @@ export function minimizeInBox(
     f = accepted.value;
     g = accepted.gradient;
     if (change === 0 && s.every((v) => v === 0)) {
-      return { x, value: f, iterations: iter, converged: false };
+      return { x, value: f, iterations: iter, converged: projected < options.stallTolerance };
     }
   }
   return { x, value: f, iterations: options.maxIterations, converged: false };
