@@ -12,7 +12,7 @@ export const IN_THREAD_WORK = 1.5e8;
 const PROGRESS_POLL_MS = 100;
 
 export interface PoolOptions {
-  /** Worker threads to use; default: every core the machine reports. */
+  /** Worker threads to use; default: every core the machine reports, or 1 (this thread) for small jobs. */
   threads?: number;
   onProgress?: (done: number, total: number) => void;
   /** Aborting cancels every worker; the promise then rejects with EngineError code `cancelled`. */
@@ -33,8 +33,8 @@ export async function simulateEigenvaluesInPool(
   options: PoolOptions = {},
 ): Promise<SimulatedEigenvalues[]> {
   const { n, p, seed, iterations } = input;
-  const cores = Math.max(1, options.threads ?? os.availableParallelism());
-  const threads = iterations * p ** 3 < IN_THREAD_WORK ? 1 : Math.min(cores, iterations);
+  const chosen = options.threads ?? (iterations * p ** 3 < IN_THREAD_WORK ? 1 : os.availableParallelism());
+  const threads = Math.max(1, Math.min(chosen, iterations));
   if (threads === 1) {
     if (options.signal?.aborted) throw new EngineError('parallel analysis was cancelled', 'cancelled');
     return [
