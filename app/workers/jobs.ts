@@ -89,7 +89,10 @@ export const JOBS = {
    * One block of parallel-analysis replications (from … from + count − 1); each replication has its
    * own seeded stream, so blocks may run in any thread and in any order.
    */
-  'factor.parallel-block': (input: { n: number; p: number; seed: number; from: number; count: number }, ctx: JobContext) =>
+  'factor.parallel-block': (
+    input: { n: number; p: number; seed: number; from: number; count: number },
+    ctx: JobContext,
+  ) =>
     simulateEigenvalues({
       ...input,
       onProgress: (done, total) => ctx.progress(done, total),

@@ -32,7 +32,7 @@ function responses(n: number, p: number, facets: number, seed: number, ordinal: 
     const general = rng.normal();
     const f = Array.from({ length: facets }, () => 0.5 * general + Math.sqrt(0.75) * rng.normal());
     return Array.from({ length: p }, (_, j) => {
-      const l = 0.5 + 0.3 * ((j * 7) % 10) / 9;
+      const l = 0.5 + (0.3 * ((j * 7) % 10)) / 9;
       const z = l * f[j % facets] + Math.sqrt(1 - l * l) * rng.normal();
       return ordinal ? 1 + CUTS.filter((c) => z > c).length : z;
     });
@@ -47,29 +47,51 @@ function numpy(args: string[]): number | null {
 
 function wholeProcess(command: string, args: string[]): { ms: number; ok: boolean } {
   const t0 = performance.now();
-  const run = spawnSync(command, args, { encoding: 'utf8', cwd: root, env: { ...process.env, INIT_CWD: root } });
+  const run = spawnSync(command, args, {
+    encoding: 'utf8',
+    cwd: root,
+    env: { ...process.env, INIT_CWD: root },
+  });
   return { ms: performance.now() - t0, ok: run.status === 0 };
 }
 
 function line(label: string, ms: number, target: string, within: boolean | null): void {
   const verdict = within === null ? '' : within ? 'within' : 'OVER';
-  console.log(`${label.padEnd(60)} ${ms.toFixed(0).padStart(8)} ms  (${target}${verdict ? `: ${verdict}` : ''})`);
+  console.log(
+    `${label.padEnd(60)} ${ms.toFixed(0).padStart(8)} ms  (${target}${verdict ? `: ${verdict}` : ''})`,
+  );
 }
 
 async function main(): Promise<void> {
-  console.log(`cores: ${os.availableParallelism()}; load average ${os.loadavg()[0].toFixed(1)} (shared machines skew every figure)`);
+  console.log(
+    `cores: ${os.availableParallelism()}; load average ${os.loadavg()[0].toFixed(1)} (shared machines skew every figure)`,
+  );
   const runner = new TaskRunner();
   try {
     const t0 = performance.now();
-    await simulateEigenvaluesInPool(runner, { n: 500, p: 40, seed: 1, iterations: 1000 }, { threads: os.availableParallelism() });
+    await simulateEigenvaluesInPool(
+      runner,
+      { n: 500, p: 40, seed: 1, iterations: 1000 },
+      { threads: os.availableParallelism() },
+    );
     const ours = performance.now() - t0;
     const raw = numpy(['raw', '500', '40', '1000']);
     const wishart = numpy(['wishart', '500', '40', '1000']);
-    line('parallel analysis, 1,000 × (500 × 40), worker threads', ours, 'target ≤ numpy', raw === null ? null : ours <= raw);
+    line(
+      'parallel analysis, 1,000 × (500 × 40), worker threads',
+      ours,
+      'target ≤ numpy',
+      raw === null ? null : ours <= raw,
+    );
     if (raw === null) console.log('  numpy not available: comparison skipped');
     else {
-      console.log(`  numpy, raw data simulated: ${raw.toFixed(0)} ms (ratio ours/numpy ${(ours / raw).toFixed(2)})`);
-      if (wishart !== null) console.log(`  numpy, Wishart draws as ours: ${wishart.toFixed(0)} ms (ratio ${(ours / wishart).toFixed(2)})`);
+      console.log(
+        `  numpy, raw data simulated: ${raw.toFixed(0)} ms (ratio ours/numpy ${(ours / raw).toFixed(2)})`,
+      );
+      if (wishart !== null)
+        console.log(
+          `  numpy, Wishart draws as ours: ${wishart.toFixed(0)} ms (ratio ${(ours / wishart).toFixed(2)})`,
+        );
     }
   } finally {
     await runner.shutdown();
@@ -101,7 +123,10 @@ async function main(): Promise<void> {
   try {
     const csv = path.join(dir, 'pilot.csv');
     const data = responses(500, 40, 4, 4, true);
-    writeFileSync(csv, `id,${names.join(',')}\n${data.map((row, i) => `r${i + 1},${row.join(',')}`).join('\n')}\n`);
+    writeFileSync(
+      csv,
+      `id,${names.join(',')}\n${data.map((row, i) => `r${i + 1},${row.join(',')}`).join('\n')}\n`,
+    );
     const tsx = path.join(root, 'node_modules', 'tsx', 'dist', 'cli.mjs');
     const cli = wholeProcess(process.execPath, [
       tsx,
@@ -117,9 +142,17 @@ async function main(): Promise<void> {
       '--json',
     ]);
     const py = wholeProcess(PYTHON, [path.join(here, 'parallel_numpy.py'), 'raw', '500', '40', '10000', csv]);
-    line('stats dimensionality --iterations 10000, 500 × 40, whole process', cli.ms, 'target ≤ numpy process', py.ok ? cli.ms <= py.ms : null);
+    line(
+      'stats dimensionality --iterations 10000, 500 × 40, whole process',
+      cli.ms,
+      'target ≤ numpy process',
+      py.ok ? cli.ms <= py.ms : null,
+    );
     if (!cli.ok) console.log('  the command failed');
-    if (py.ok) console.log(`  numpy process, raw data simulated: ${py.ms.toFixed(0)} ms (ratio ${(cli.ms / py.ms).toFixed(2)})`);
+    if (py.ok)
+      console.log(
+        `  numpy process, raw data simulated: ${py.ms.toFixed(0)} ms (ratio ${(cli.ms / py.ms).toFixed(2)})`,
+      );
     else console.log('  numpy not available: comparison skipped');
   } finally {
     rmSync(dir, { recursive: true, force: true });

@@ -88,7 +88,8 @@ function toJson(
 function toTable(loaded: LoadedItems, input: CorrelationInput, d: Dimensionality): string {
   const f = d.factorability;
   const lines = [
-    `Dimensionality of ${d.p} items from ${cut(loaded.file, 60)}: n = ${d.n} (${input.kind} correlations, ${loaded.missing} deletion)`,
+    `Dimensionality of ${d.p} items: n = ${d.n} (${input.kind} correlations, ${loaded.missing} deletion)`,
+    `  data: ${cut(loaded.file, 90)}`,
     '',
     `  KMO ${fixed(f.kmo)} (${kmoLabel(f.kmo)}; labels from Kaiser 1974)`,
     f.bartlett
@@ -144,7 +145,8 @@ function toTable(loaded: LoadedItems, input: CorrelationInput, d: Dimensionality
   const low = loaded.names.filter((_, i) => f.msa[i] < 0.5);
   if (low.length > 0) lines.push(`  MSA below .50 (unacceptable): ${low.map((s) => cut(s)).join(', ')}`);
   lines.push(
-    '  sample size (Comrey & Lee 1992, from memory): 100 poor, 200 fair, 300 good, 500 very good, 1000 excellent',
+    '  sample size (Comrey & Lee 1992, from memory):',
+    '    100 poor, 200 fair, 300 good, 500 very good, 1000 excellent',
   );
   return lines.join('\n');
 }

@@ -21,11 +21,15 @@ export function identity(p: number): number[][] {
  * returns p. Throws EngineError naming the entry that fails, prefixed by `fn`.
  */
 export function checkCorrelationMatrix(r: number[][], fn: string): number {
-  if (!Array.isArray(r) || r.length === 0) throw new EngineError(`${fn} requires a correlation matrix`, 'shape');
+  if (!Array.isArray(r) || r.length === 0)
+    throw new EngineError(`${fn} requires a correlation matrix`, 'shape');
   const p = r.length;
   for (let i = 0; i < p; i++) {
     if (!Array.isArray(r[i]) || r[i].length !== p) {
-      throw new EngineError(`${fn} requires a square correlation matrix; row ${i} has the wrong length`, 'shape');
+      throw new EngineError(
+        `${fn} requires a square correlation matrix; row ${i} has the wrong length`,
+        'shape',
+      );
     }
     for (let j = 0; j < p; j++) {
       const v = r[i][j];
@@ -69,6 +73,7 @@ export function squaredMultipleCorrelations(r: number[][]): number[] {
 /** Frobenius-norm distance between two matrices of the same shape. */
 export function maxAbsDifference(a: number[][], b: number[][]): number {
   let best = 0;
-  for (let i = 0; i < a.length; i++) for (let j = 0; j < a[i].length; j++) best = Math.max(best, Math.abs(a[i][j] - b[i][j]));
+  for (let i = 0; i < a.length; i++)
+    for (let j = 0; j < a[i].length; j++) best = Math.max(best, Math.abs(a[i][j] - b[i][j]));
   return best;
 }

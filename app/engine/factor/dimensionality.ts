@@ -1,6 +1,10 @@
 import { EngineError } from '../errors.ts';
 import { symmetricEigen } from '../linalg.ts';
-import { checkCorrelationMatrix, positiveDefiniteCorrelation, squaredMultipleCorrelations } from './common.ts';
+import {
+  checkCorrelationMatrix,
+  positiveDefiniteCorrelation,
+  squaredMultipleCorrelations,
+} from './common.ts';
 import { type Factorability, factorability } from './factorability.ts';
 import {
   kaiserCount,
@@ -27,7 +31,13 @@ export interface Dimensionality {
   reducedEigenvalues: number[];
   map: MinimumAveragePartial | null;
   parallel: ParallelAnalysis | null;
-  suggested: { kaiser: number; parallel: number | null; parallelFactors: number | null; map: number | null; mapFourth: number | null };
+  suggested: {
+    kaiser: number;
+    parallel: number | null;
+    parallelFactors: number | null;
+    map: number | null;
+    mapFourth: number | null;
+  };
   warnings: string[];
 }
 
@@ -78,19 +88,17 @@ export function analyzeDimensionality(
   else warnings.push('the minimum average partial test needs at least three items');
   let parallel: ParallelAnalysis | null = null;
   if (n - 1 >= p) {
-    const blocks =
-      options.blocks ??
-      [
-        simulateEigenvalues({
-          n,
-          p,
-          seed: options.seed,
-          from: 0,
-          count: options.iterations,
-          onProgress: options.onProgress,
-          shouldStop: options.shouldStop,
-        }),
-      ];
+    const blocks = options.blocks ?? [
+      simulateEigenvalues({
+        n,
+        p,
+        seed: options.seed,
+        from: 0,
+        count: options.iterations,
+        onProgress: options.onProgress,
+        shouldStop: options.shouldStop,
+      }),
+    ];
     parallel = summarizeParallelAnalysis({
       observedComponents: observed.components,
       observedFactors: observed.factors,

@@ -75,7 +75,8 @@ function reorder(result: { pattern: number[][]; structure: number[][]; phi: numb
  * @example exploratoryFactorAnalysis(names, r, { factors: 2, extraction: 'ml', rotation: 'oblimin', n: 400 })
  */
 export function exploratoryFactorAnalysis(items: string[], r: number[][], options: EfaOptions): EfaResult {
-  if (items.length !== r.length) throw new EngineError(`factor analysis: ${items.length} names for a ${r.length}-item matrix`);
+  if (items.length !== r.length)
+    throw new EngineError(`factor analysis: ${items.length} names for a ${r.length}-item matrix`);
   const m = options.factors;
   const ext = extractFactors(r, { factors: m, method: options.extraction, n: options.n, names: items });
   const rot = rotateLoadings(ext.loadings, { ...options, method: options.rotation });
@@ -89,22 +90,27 @@ export function exploratoryFactorAnalysis(items: string[], r: number[][], option
     const mags = row.map(Math.abs);
     const primary = mags.indexOf(Math.max(...mags));
     const notes: string[] = [];
-    if (mags[primary] < PRIMARY_LOADING_MIN) notes.push(`no loading reaches ${PRIMARY_LOADING_MIN.toFixed(2)}`);
+    if (mags[primary] < PRIMARY_LOADING_MIN)
+      notes.push(`no loading reaches ${PRIMARY_LOADING_MIN.toFixed(2)}`);
     const cross = mags.flatMap((v, k) => (k !== primary && v >= CROSS_LOADING_MIN ? [k + 1] : []));
-    if (cross.length > 0) notes.push(`cross-loads ≥ ${CROSS_LOADING_MIN.toFixed(2)} on factor ${cross.join(', ')}`);
+    if (cross.length > 0)
+      notes.push(`cross-loads ≥ ${CROSS_LOADING_MIN.toFixed(2)} on factor ${cross.join(', ')}`);
     return { item: items[i], primary: primary + 1, notes };
   });
-  const warnings = [
-    ...ext.warnings,
-    ...rot.warnings,
-  ];
+  const warnings = [...ext.warnings, ...rot.warnings];
   let omega: OmegaCoefficients | null = null;
   if (m >= 2) {
     try {
-      const oblique = rot.oblique ? { pattern, phi } : reorder(rotateLoadings(ext.loadings, { ...options, method: 'oblimin' }), m);
+      const oblique = rot.oblique
+        ? { pattern, phi }
+        : reorder(rotateLoadings(ext.loadings, { ...options, method: 'oblimin' }), m);
       const sl = schmidLeiman(oblique.pattern, oblique.phi, ext.communalities);
       const basis = rot.oblique ? options.rotation : 'oblimin';
-      omega = omegaFromSchmidLeiman(r, sl, `Schmid–Leiman solution of ${m} ${options.extraction} factors rotated by ${basis}`);
+      omega = omegaFromSchmidLeiman(
+        r,
+        sl,
+        `Schmid–Leiman solution of ${m} ${options.extraction} factors rotated by ${basis}`,
+      );
     } catch (error) {
       if (!(error instanceof EngineError)) throw error;
       warnings.push(`omega hierarchical not computed: ${error.message}`);

@@ -1,7 +1,12 @@
 import { chiSquareSf, noncentralChiSquareCdf } from '../distributions.ts';
 import { EngineError } from '../errors.ts';
 import { logDeterminant, symmetricEigen } from '../linalg.ts';
-import { checkCorrelationMatrix, positiveDefiniteCorrelation, squaredMultipleCorrelations, zeros } from './common.ts';
+import {
+  checkCorrelationMatrix,
+  positiveDefiniteCorrelation,
+  squaredMultipleCorrelations,
+  zeros,
+} from './common.ts';
 import { minimizeInBox } from './optimize.ts';
 
 export type ExtractionMethod = 'paf' | 'minres' | 'ml';
@@ -50,7 +55,8 @@ export interface Extraction {
 function startingCommunalities(r: number[][]): { h2: number[]; start: Extraction['start'] } {
   try {
     const h2 = squaredMultipleCorrelations(r);
-    if (h2.every((h) => Number.isFinite(h) && h >= 0 && h <= 1)) return { h2, start: 'squared multiple correlations' };
+    if (h2.every((h) => Number.isFinite(h) && h >= 0 && h <= 1))
+      return { h2, start: 'squared multiple correlations' };
   } catch (error) {
     if (!(error instanceof EngineError)) throw error;
   }
@@ -58,7 +64,12 @@ function startingCommunalities(r: number[][]): { h2: number[]; start: Extraction
   return { h2, start: 'largest absolute correlation' };
 }
 
-function topLoadings(values: number[], vectors: number[][], m: number, scale?: (i: number, k: number) => number): number[][] {
+function topLoadings(
+  values: number[],
+  vectors: number[][],
+  m: number,
+  scale?: (i: number, k: number) => number,
+): number[][] {
   const p = vectors.length;
   const out = zeros(p, m);
   for (let k = 0; k < m; k++) {
@@ -212,9 +223,13 @@ export function extractFactors(
   const m = options.factors;
   const { n, method } = options;
   if (!Number.isInteger(m) || m < 1 || m >= p) {
-    throw new EngineError(`the number of factors must be a whole number from 1 to ${p - 1} for ${p} items, got ${m}`, 'factors');
+    throw new EngineError(
+      `the number of factors must be a whole number from 1 to ${p - 1} for ${p} items, got ${m}`,
+      'factors',
+    );
   }
-  if (!Number.isInteger(n) || n < 2) throw new EngineError(`factor extraction requires n ≥ 2 respondents, got ${n}`);
+  if (!Number.isInteger(n) || n < 2)
+    throw new EngineError(`factor extraction requires n ≥ 2 respondents, got ${n}`);
   const df = ((p - m) ** 2 - (p + m)) / 2;
   if (method === 'ml' && df < 0) {
     let most = m;
@@ -227,10 +242,15 @@ export function extractFactors(
   const warnings: string[] = [];
   const pd = positiveDefiniteCorrelation(r);
   if (pd.smoothed) {
-    warnings.push('the correlation matrix is not positive definite; the factors were extracted from a smoothed matrix');
+    warnings.push(
+      'the correlation matrix is not positive definite; the factors were extracted from a smoothed matrix',
+    );
   }
   const work = pd.matrix;
-  if (n <= p) warnings.push(`only ${n} respondents for ${p} items: the correlation matrix is singular and the solution is unstable`);
+  if (n <= p)
+    warnings.push(
+      `only ${n} respondents for ${p} items: the correlation matrix is singular and the solution is unstable`,
+    );
   let loadings: number[][];
   let iterations: number;
   let converged: boolean;
@@ -245,7 +265,10 @@ export function extractFactors(
     const init = startingCommunalities(work);
     start = init.start;
     const objective = method === 'ml' ? mlObjective(work, m) : ulsObjective(work, m);
-    const psi0 = method === 'ml' ? init.h2.map((h) => Math.min(1, Math.max(MIN_UNIQUENESS, (1 - (0.5 * m) / p) * (1 - h)))) : init.h2.map((h) => 1 - h);
+    const psi0 =
+      method === 'ml'
+        ? init.h2.map((h) => Math.min(1, Math.max(MIN_UNIQUENESS, (1 - (0.5 * m) / p) * (1 - h))))
+        : init.h2.map((h) => 1 - h);
     const best = minimizeInBox((x) => objective(x), psi0, MIN_UNIQUENESS, 1, {
       tolerance: GRADIENT_TOLERANCE,
       stallTolerance: GRADIENT_STALL_TOLERANCE,
@@ -260,13 +283,17 @@ export function extractFactors(
   }
   signColumns(loadings);
   const communalities = rowSumsOfSquares(loadings);
-  if (!converged) warnings.push(`${method} extraction did not converge in ${iterations} iterations; treat the loadings with caution`);
+  if (!converged)
+    warnings.push(
+      `${method} extraction did not converge in ${iterations} iterations; treat the loadings with caution`,
+    );
   if (heywood.length > 0) {
     warnings.push(
       `Heywood case: ${heywood.length === 1 ? 'item' : 'items'} ${heywood.map((i) => (options.names ? `"${options.names[i]}"` : String(i + 1))).join(', ')} reached a communality of 1 (or more); too many factors, too few respondents, or an item that duplicates another`,
     );
   }
-  if (fit && fit.df === 0) warnings.push('the model is just identified (df = 0): χ², RMSEA and TLI are not defined');
+  if (fit && fit.df === 0)
+    warnings.push('the model is just identified (df = 0): χ², RMSEA and TLI are not defined');
   return {
     method,
     loadings,

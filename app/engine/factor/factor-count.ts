@@ -39,7 +39,8 @@ export interface MinimumAveragePartial {
  */
 export function minimumAveragePartial(r: number[][]): MinimumAveragePartial {
   const p = checkCorrelationMatrix(r, 'minimum average partial test');
-  if (p < 3) throw new EngineError('the minimum average partial test requires at least three items', 'too-few-items');
+  if (p < 3)
+    throw new EngineError('the minimum average partial test requires at least three items', 'too-few-items');
   const { values, vectors } = symmetricEigen(r);
   const squared: number[] = [];
   const fourth: number[] = [];
@@ -89,7 +90,9 @@ const MASK_53 = (1n << 53n) - 1n;
  */
 export function replicationSeed(seed: number, replication: number): number {
   if (!Number.isSafeInteger(seed) || !Number.isSafeInteger(replication) || replication < 0) {
-    throw new EngineError(`replication seed needs whole numbers, got seed ${seed} and replication ${replication}`);
+    throw new EngineError(
+      `replication seed needs whole numbers, got seed ${seed} and replication ${replication}`,
+    );
   }
   let z = (BigInt.asUintN(64, BigInt(seed)) * 0x9e3779b97f4a7c15n + BigInt(replication) + 1n) & MASK_64;
   z = ((z ^ (z >> 30n)) * 0xbf58476d1ce4e5b9n) & MASK_64;
@@ -166,9 +169,13 @@ export function simulateEigenvalues(input: {
   shouldStop?: () => boolean;
 }): SimulatedEigenvalues {
   const { n, p, seed, from, count } = input;
-  if (!Number.isInteger(p) || p < 2) throw new EngineError(`parallel analysis requires at least two items, got ${p}`);
+  if (!Number.isInteger(p) || p < 2)
+    throw new EngineError(`parallel analysis requires at least two items, got ${p}`);
   if (!Number.isInteger(n) || n - 1 < p) {
-    throw new EngineError(`parallel analysis requires more respondents than items (n = ${n}, p = ${p})`, 'too-few-cases');
+    throw new EngineError(
+      `parallel analysis requires more respondents than items (n = ${n}, p = ${p})`,
+      'too-few-cases',
+    );
   }
   if (!Number.isInteger(from) || from < 0 || !Number.isInteger(count) || count < 0) {
     throw new EngineError(`parallel analysis replication range is invalid (from ${from}, count ${count})`);
@@ -281,15 +288,18 @@ export function summarizeParallelAnalysis(input: {
 }): ParallelAnalysis {
   const { iterations, percentile } = input;
   const p = input.observedComponents.length;
-  if (!(percentile > 0 && percentile < 100)) throw new EngineError(`percentile must lie between 0 and 100, got ${percentile}`);
-  if (!Number.isInteger(iterations) || iterations < 1) throw new EngineError(`parallel analysis needs at least one iteration, got ${iterations}`);
+  if (!(percentile > 0 && percentile < 100))
+    throw new EngineError(`percentile must lie between 0 and 100, got ${percentile}`);
+  if (!Number.isInteger(iterations) || iterations < 1)
+    throw new EngineError(`parallel analysis needs at least one iteration, got ${iterations}`);
   const components = new Float64Array(iterations * p);
   const factors = new Float64Array(iterations * p);
   const covered = new Uint8Array(iterations);
   for (const b of input.blocks) {
     if (b.p !== p) throw new EngineError(`parallel analysis block has ${b.p} items, expected ${p}`);
     for (let r = b.from; r < b.from + b.count; r++) {
-      if (r >= iterations || covered[r]) throw new EngineError(`parallel analysis replication ${r} is out of range or repeated`);
+      if (r >= iterations || covered[r])
+        throw new EngineError(`parallel analysis replication ${r} is out of range or repeated`);
       covered[r] = 1;
     }
     components.set(b.components, b.from * p);

@@ -50,7 +50,8 @@ export interface Factorability {
 export function factorability(r: number[][], n: number): Factorability {
   const p = checkCorrelationMatrix(r, 'factorability');
   if (p < 2) throw new EngineError('factorability requires at least two items', 'too-few-items');
-  if (!Number.isInteger(n) || n < 2) throw new EngineError(`factorability requires n ≥ 2 respondents, got ${n}`);
+  if (!Number.isInteger(n) || n < 2)
+    throw new EngineError(`factorability requires n ≥ 2 respondents, got ${n}`);
   const warnings: string[] = [];
   const { matrix, smoothed } = positiveDefiniteCorrelation(r);
   if (smoothed) {
@@ -83,7 +84,9 @@ export function factorability(r: number[][], n: number): Factorability {
     const chiSquare = Math.max(0, -(n - 1 - (2 * p + 5) / 6) * logDet);
     bartlett = { chiSquare, df, p: chiSquareSf(chiSquare, df) };
     if (n - 1 - (2 * p + 5) / 6 <= 0) {
-      warnings.push(`Bartlett’s test needs n > ${Math.ceil(1 + (2 * p + 5) / 6)} for ${p} items; its χ² is 0 here`);
+      warnings.push(
+        `Bartlett’s test needs n > ${Math.ceil(1 + (2 * p + 5) / 6)} for ${p} items; its χ² is 0 here`,
+      );
     }
   }
   return {

@@ -22,7 +22,8 @@ export interface GuttmanLambdas {
 export function guttmanLambdas(c: number[][]): GuttmanLambdas {
   const k = c.length;
   if (k < 2) throw new EngineError("Guttman's lambdas require at least two items", 'too-few-items');
-  if (c.some((row) => row.length !== k)) throw new EngineError("Guttman's lambdas require a square matrix", 'shape');
+  if (c.some((row) => row.length !== k))
+    throw new EngineError("Guttman's lambdas require a square matrix", 'shape');
   let total = 0;
   let trace = 0;
   let offSquares = 0;

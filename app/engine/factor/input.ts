@@ -48,7 +48,9 @@ export function correlationInput(
   const warnings: string[] = [];
   const n = missing === 'listwise' ? moments.n : moments.minPairN;
   if (missing === 'pairwise' && moments.minPairN < moments.n) {
-    warnings.push(`pairwise deletion: χ² tests and parallel analysis use n = ${n}, the fewest respondents behind any correlation`);
+    warnings.push(
+      `pairwise deletion: χ² tests and parallel analysis use n = ${n}, the fewest respondents behind any correlation`,
+    );
   }
   if (kind === 'pearson') {
     return {

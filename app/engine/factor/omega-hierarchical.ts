@@ -21,11 +21,14 @@ export interface SchmidLeiman {
  */
 export function schmidLeiman(pattern: number[][], phi: number[][], communalities: number[]): SchmidLeiman {
   const m = phi.length;
-  if (m < 2) throw new EngineError('a Schmid–Leiman solution needs at least two first-order factors', 'factors');
+  if (m < 2)
+    throw new EngineError('a Schmid–Leiman solution needs at least two first-order factors', 'factors');
   let gamma: number[];
   if (m === 2) {
     if (!(phi[0][1] > 0)) {
-      throw new EngineError(`the two factors correlate ${phi[0][1].toFixed(3)}; a general factor needs a positive correlation`);
+      throw new EngineError(
+        `the two factors correlate ${phi[0][1].toFixed(3)}; a general factor needs a positive correlation`,
+      );
     }
     gamma = [Math.sqrt(phi[0][1]), Math.sqrt(phi[0][1])];
   } else {
@@ -41,7 +44,13 @@ export interface OmegaCoefficients {
   omegaHierarchical: number;
   omegaTotal: number;
   /** Per group factor: the items assigned to it and its omega values. */
-  facets: { factor: number; items: number[]; omegaTotal: number; omegaHierarchical: number; omegaGroup: number }[];
+  facets: {
+    factor: number;
+    items: number[];
+    omegaTotal: number;
+    omegaHierarchical: number;
+    omegaGroup: number;
+  }[];
   /** What the omegas rest on, in words. */
   model: string;
 }
@@ -64,7 +73,8 @@ export function omegaFromSchmidLeiman(
   assignment?: number[],
 ): OmegaCoefficients {
   const p = r.length;
-  if (sl.general.length !== p) throw new EngineError('omega: the correlation matrix and the factor solution differ in size');
+  if (sl.general.length !== p)
+    throw new EngineError('omega: the correlation matrix and the factor solution differ in size');
   const m = sl.group[0].length;
   const total = (idx: number[]) => {
     let s = 0;
@@ -84,7 +94,13 @@ export function omegaFromSchmidLeiman(
     const g = sum(items, (i) => sl.general[i]);
     const s = sum(items, (i) => sl.group[i][k]);
     const u = sum(items, (i) => sl.uniquenesses[i]);
-    return { factor: k, items, omegaTotal: 1 - u / v, omegaHierarchical: (g * g) / v, omegaGroup: (s * s) / v };
+    return {
+      factor: k,
+      items,
+      omegaTotal: 1 - u / v,
+      omegaHierarchical: (g * g) / v,
+      omegaGroup: (s * s) / v,
+    };
   }).filter((f): f is NonNullable<typeof f> => f !== null);
   const g = sum(all, (i) => sl.general[i]);
   return {

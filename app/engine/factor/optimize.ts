@@ -35,7 +35,8 @@ export function minimizeInBox(
   const clamp = (v: number) => Math.min(hi, Math.max(lo, v));
   let x = start.map(clamp);
   let { value: f, gradient: g } = fg(x);
-  if (!Number.isFinite(f)) throw new EngineError('the fitting function is not finite at the starting values', 'not-finite');
+  if (!Number.isFinite(f))
+    throw new EngineError('the fitting function is not finite at the starting values', 'not-finite');
   let h: number[][] | null = null;
   let lastFree = '';
   for (let iter = 1; iter <= options.maxIterations; iter++) {

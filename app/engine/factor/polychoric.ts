@@ -72,10 +72,16 @@ function upperBivariateNormal(h: number, k: number, r: number): number {
     const c = (4 - hk) / 8;
     const d = (12 - hk) / 16;
     let asr = -(bs / as + hk) / 2;
-    if (asr > -100) bvn = a * Math.exp(asr) * (1 - (c * (bs - as) * (1 - (d * bs) / 5)) / 3 + (c * d * as * as) / 5);
+    if (asr > -100)
+      bvn = a * Math.exp(asr) * (1 - (c * (bs - as) * (1 - (d * bs) / 5)) / 3 + (c * d * as * as) / 5);
     if (-hk < 100) {
       const b = Math.sqrt(bs);
-      bvn -= Math.exp(-hk / 2) * Math.sqrt(twoPi) * normalCdf(-b / a) * b * (1 - (c * bs * (1 - (d * bs) / 5)) / 3);
+      bvn -=
+        Math.exp(-hk / 2) *
+        Math.sqrt(twoPi) *
+        normalCdf(-b / a) *
+        b *
+        (1 - (c * bs * (1 - (d * bs) / 5)) / 3);
     }
     a /= 2;
     for (let i = 0; i < gl.x.length; i++) {
@@ -83,7 +89,11 @@ function upperBivariateNormal(h: number, k: number, r: number): number {
       const rs = Math.sqrt(1 - xs);
       asr = -(bs / xs + hk) / 2;
       if (asr > -100) {
-        bvn += a * gl.w[i] * Math.exp(asr) * (Math.exp((-hk * xs) / (2 * (1 + rs) ** 2)) / rs - (1 + c * xs * (1 + d * xs)));
+        bvn +=
+          a *
+          gl.w[i] *
+          Math.exp(asr) *
+          (Math.exp((-hk * xs) / (2 * (1 + rs) ** 2)) / rs - (1 + c * xs * (1 + d * xs)));
       }
     }
     bvn = -bvn / twoPi;
@@ -125,7 +135,10 @@ export interface OrdinalItem {
 function codeItem(values: (number | null)[], name: string): { codes: Int32Array; item: OrdinalItem } {
   const distinct = [...new Set(values.filter((v): v is number => v !== null))].sort((a, b) => a - b);
   if (distinct.length < 2) {
-    throw new EngineError(`polychoric correlations need at least two answer categories; item "${name}" has ${distinct.length}`, 'zero-variance');
+    throw new EngineError(
+      `polychoric correlations need at least two answer categories; item "${name}" has ${distinct.length}`,
+      'zero-variance',
+    );
   }
   if (distinct.length > MAX_CATEGORIES) {
     throw new EngineError(
@@ -175,7 +188,11 @@ function tableLogLikelihood(table: number[][], a: number[], b: number[], rho: nu
  *
  * @example polychoricFromTable([[40, 10], [10, 40]]).rho // ≈ 0.81
  */
-export function polychoricFromTable(table: number[][]): { rho: number; rowThresholds: number[]; columnThresholds: number[] } {
+export function polychoricFromTable(table: number[][]): {
+  rho: number;
+  rowThresholds: number[];
+  columnThresholds: number[];
+} {
   const rows = table.length;
   const cols = table[0]?.length ?? 0;
   const rowSums = table.map((row) => row.reduce((s, v) => s + v, 0));
@@ -256,8 +273,15 @@ export function polychoricMatrix(
 ): PolychoricMatrix {
   const p = items.length;
   if (p < 2) throw new EngineError('polychoric correlations need at least two items', 'too-few-items');
-  const coded = items.map((name, j) => codeItem(data.map((row) => row[j]), name));
-  const raw: number[][] = Array.from({ length: p }, (_, i) => Array.from({ length: p }, (_, j) => (i === j ? 1 : 0)));
+  const coded = items.map((name, j) =>
+    codeItem(
+      data.map((row) => row[j]),
+      name,
+    ),
+  );
+  const raw: number[][] = Array.from({ length: p }, (_, i) =>
+    Array.from({ length: p }, (_, j) => (i === j ? 1 : 0)),
+  );
   const pairN: number[][] = Array.from({ length: p }, () => new Array<number>(p).fill(0));
   const warnings: string[] = [];
   const total = (p * (p - 1)) / 2;
@@ -266,7 +290,8 @@ export function polychoricMatrix(
     const ci = coded[i];
     pairN[i][i] = ci.codes.filter((c) => c >= 0).length;
     for (let j = 0; j < i; j++) {
-      if (control.shouldStop?.()) throw new EngineError('polychoric correlations were cancelled', 'cancelled');
+      if (control.shouldStop?.())
+        throw new EngineError('polychoric correlations were cancelled', 'cancelled');
       const cj = coded[j];
       const table = ci.item.categories.map(() => new Array<number>(cj.item.categories.length).fill(0));
       let n = 0;
@@ -277,10 +302,15 @@ export function polychoricMatrix(
         table[a][b]++;
         n++;
       }
-      if (n < 2) throw new EngineError(`items "${items[j]}" and "${items[i]}" share ${n} respondents; polychoric needs at least two`);
+      if (n < 2)
+        throw new EngineError(
+          `items "${items[j]}" and "${items[i]}" share ${n} respondents; polychoric needs at least two`,
+        );
       const rho = maximizeRho(table, ci.item.thresholds, cj.item.thresholds);
       if (Math.abs(rho) > RHO_LIMIT - 1e-6) {
-        warnings.push(`items "${items[j]}" and "${items[i]}": the polychoric estimate reached the boundary ±${RHO_LIMIT} (empty cells)`);
+        warnings.push(
+          `items "${items[j]}" and "${items[i]}": the polychoric estimate reached the boundary ±${RHO_LIMIT} (empty cells)`,
+        );
       }
       raw[i][j] = rho;
       raw[j][i] = rho;
@@ -294,8 +324,11 @@ export function polychoricMatrix(
   if (!isPositiveDefinite(raw)) {
     ({ matrix, smoothed } = smoothToPositiveDefinite(raw));
     let largest = 0;
-    for (let i = 0; i < p; i++) for (let j = 0; j < p; j++) largest = Math.max(largest, Math.abs(matrix[i][j] - raw[i][j]));
-    warnings.push(`the polychoric matrix was not positive definite and was smoothed (largest change ${largest.toFixed(4)})`);
+    for (let i = 0; i < p; i++)
+      for (let j = 0; j < p; j++) largest = Math.max(largest, Math.abs(matrix[i][j] - raw[i][j]));
+    warnings.push(
+      `the polychoric matrix was not positive definite and was smoothed (largest change ${largest.toFixed(4)})`,
+    );
   }
   return {
     items,

@@ -143,7 +143,8 @@ function nearestOrthogonal(x: number[][]): number[][] {
   const invRoot = identity(m).map((_, i) =>
     identity(m)[i].map((_, j) => {
       let s = 0;
-      for (let k = 0; k < m; k++) s += (vectors[i][k] * vectors[j][k]) / Math.sqrt(Math.max(values[k], 1e-300));
+      for (let k = 0; k < m; k++)
+        s += (vectors[i][k] * vectors[j][k]) / Math.sqrt(Math.max(values[k], 1e-300));
       return s;
     }),
   );
@@ -180,7 +181,8 @@ function gpaOrthogonal(a: number[][], criterion: Criterion, t0: number[][]): Gpa
       improved = next.f < f - 0.5 * s * s * alpha;
       if (!improved) alpha /= 2;
     }
-    if (!improved && !(next.f < f)) return { t, f, iterations: iter, converged: s < ROTATION_STALL_TOLERANCE };
+    if (!improved && !(next.f < f))
+      return { t, f, iterations: iter, converged: s < ROTATION_STALL_TOLERANCE };
     t = tt;
     f = next.f;
     g = matMul(transpose(a), next.gq);
@@ -225,7 +227,8 @@ function gpaOblique(a: number[][], criterion: Criterion, t0: number[][]): GpaRes
       improved = next.f < f - 0.5 * s * s * alpha;
       if (!improved) alpha /= 2;
     }
-    if (!improved && !(next.f < f)) return { t, f, iterations: iter, converged: s < ROTATION_STALL_TOLERANCE };
+    if (!improved && !(next.f < f))
+      return { t, f, iterations: iter, converged: s < ROTATION_STALL_TOLERANCE };
     t = tt;
     tInv = inverse(t);
     l = nextL;
@@ -292,10 +295,12 @@ export function rotateLoadings(a: number[][], options: RotationOptions): Rotatio
   const gamma = options.obliminGamma ?? DEFAULT_OBLIMIN_GAMMA;
   const delta = options.geominDelta ?? DEFAULT_GEOMIN_DELTA;
   const starts = options.starts ?? DEFAULT_RANDOM_STARTS;
-  if (!(power > 1) || !Number.isFinite(power)) throw new EngineError(`the promax power must be a number above 1, got ${power}`);
+  if (!(power > 1) || !Number.isFinite(power))
+    throw new EngineError(`the promax power must be a number above 1, got ${power}`);
   if (!(delta > 0)) throw new EngineError(`the geomin δ must be positive, got ${delta}`);
   if (!Number.isFinite(gamma)) throw new EngineError(`the oblimin γ must be a number, got ${gamma}`);
-  if (!Number.isInteger(starts) || starts < 1) throw new EngineError(`rotation starts must be a whole number ≥ 1, got ${starts}`);
+  if (!Number.isInteger(starts) || starts < 1)
+    throw new EngineError(`rotation starts must be a whole number ≥ 1, got ${starts}`);
   const oblique = method === 'promax' || method === 'oblimin' || method === 'geomin';
   const warnings: string[] = [];
   if (method === 'none' || m === 1) {
@@ -317,7 +322,8 @@ export function rotateLoadings(a: number[][], options: RotationOptions): Rotatio
   }
   const norms = rowNorms(a);
   const useNorm = normalize && norms.every((h) => h > 0);
-  if (normalize && !useNorm) warnings.push('an item has no common variance; Kaiser normalization was skipped');
+  if (normalize && !useNorm)
+    warnings.push('an item has no common variance; Kaiser normalization was skipped');
   const work = useNorm ? a.map((row, i) => row.map((v) => v / norms[i])) : a;
 
   let t: number[][];
@@ -332,7 +338,11 @@ export function rotateLoadings(a: number[][], options: RotationOptions): Rotatio
     iterations = out.varimax.iterations;
     converged = out.varimax.converged;
   } else if (method === 'varimax' || method === 'quartimax') {
-    const out = gpaOrthogonal(work, method === 'varimax' ? varimaxCriterion : quartimaxCriterion, identity(m));
+    const out = gpaOrthogonal(
+      work,
+      method === 'varimax' ? varimaxCriterion : quartimaxCriterion,
+      identity(m),
+    );
     ({ t, iterations, converged } = out);
     criterion = out.f;
   } else {
@@ -344,21 +354,24 @@ export function rotateLoadings(a: number[][], options: RotationOptions): Rotatio
       const t0 = s === 0 ? identity(m) : randomOrthogonal(m, () => rng.normal());
       const out = gpaOblique(work, crit, t0);
       values.push(out.f);
-      if (out.converged && (!best || !best.converged || out.f < best.f)) best = out;
-      else if (!best) best = out;
+      // Prefer a converged start, then the lowest criterion.
+      if (!best || (out.converged && (!best.converged || out.f < best.f))) best = out;
     }
     const chosen = best as GpaResult;
     ({ t, iterations, converged } = chosen);
     criterion = chosen.f;
     tried = starts;
-    reachedBest = values.filter((v) => Math.abs(v - chosen.f) <= SAME_MINIMUM * Math.max(1, Math.abs(chosen.f))).length;
+    reachedBest = values.filter(
+      (v) => Math.abs(v - chosen.f) <= SAME_MINIMUM * Math.max(1, Math.abs(chosen.f)),
+    ).length;
     if (starts > 1 && reachedBest < starts / 2) {
       warnings.push(
         `${method}: only ${reachedBest} of ${starts} starts reached the best criterion value; the rotation has competing local minima`,
       );
     }
   }
-  if (!converged) warnings.push(`${method} rotation did not converge in ${ROTATION_MAX_ITERATIONS} iterations`);
+  if (!converged)
+    warnings.push(`${method} rotation did not converge in ${ROTATION_MAX_ITERATIONS} iterations`);
   // T was found on the normalized rows; applied to A it gives the same rows rescaled back.
   const pattern = oblique ? matMul(a, transpose(inverse(t))) : matMul(a, t);
   const phi = oblique ? matMul(transpose(t), t) : identity(m);

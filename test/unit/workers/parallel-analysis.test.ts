@@ -10,7 +10,10 @@ describe('parallel analysis in the worker pool', () => {
   it('splits the replications across threads with the same result as one thread, and reports progress', async () => {
     const input = { n: 200, p: 10, seed: 42, iterations: 600 };
     const seen: number[] = [];
-    const blocks = await simulateEigenvaluesInPool(runner, input, { threads: 2, onProgress: (done) => seen.push(done) });
+    const blocks = await simulateEigenvaluesInPool(runner, input, {
+      threads: 2,
+      onProgress: (done) => seen.push(done),
+    });
     expect(blocks).toHaveLength(2);
     const whole = simulateEigenvalues({ n: 200, p: 10, seed: 42, from: 0, count: 600 });
     const merged = new Float64Array(600 * 10);
@@ -21,7 +24,11 @@ describe('parallel analysis in the worker pool', () => {
 
   it('cancels every worker when aborted', async () => {
     const controller = new AbortController();
-    const run = simulateEigenvaluesInPool(runner, { n: 500, p: 40, seed: 1, iterations: 400_000 }, { threads: 2, signal: controller.signal });
+    const run = simulateEigenvaluesInPool(
+      runner,
+      { n: 500, p: 40, seed: 1, iterations: 400_000 },
+      { threads: 2, signal: controller.signal },
+    );
     setTimeout(() => controller.abort(), 300);
     await expect(run).rejects.toThrow(/cancelled/);
   }, 120_000);

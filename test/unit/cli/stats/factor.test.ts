@@ -27,12 +27,26 @@ for (let i = 0; i < 300; i++) {
 const good = join(dir, 'pilot.csv');
 writeFileSync(good, `id,${NAMES.join(',')}\n${rows.map((r, i) => `p${i + 1},${r.join(',')}`).join('\n')}\n`);
 const flat = join(dir, 'flat.csv');
-writeFileSync(flat, `id,${NAMES.join(',')}\n${rows.map((r, i) => `p${i + 1},${[...r.slice(0, 2), 3, ...r.slice(3)].join(',')}`).join('\n')}\n`);
+writeFileSync(
+  flat,
+  `id,${NAMES.join(',')}\n${rows.map((r, i) => `p${i + 1},${[...r.slice(0, 2), 3, ...r.slice(3)].join(',')}`).join('\n')}\n`,
+);
 const items = ['--items', NAMES.join(','), '--reverse', 'route3', '--min', '1', '--max', '5'];
 
 describe('stats dimensionality (spawned CLI)', () => {
   it('prints one JSON object with the contract fields, methods and the seed', () => {
-    const run = runCli(['stats', 'dimensionality', '--data', good, ...items, '--iterations', '200', '--seed', '9', '--json']);
+    const run = runCli([
+      'stats',
+      'dimensionality',
+      '--data',
+      good,
+      ...items,
+      '--iterations',
+      '200',
+      '--seed',
+      '9',
+      '--json',
+    ]);
     expect(run.stderr).toBe('');
     expect(run.code).toBe(0);
     const out = JSON.parse(run.stdout);
@@ -48,7 +62,11 @@ describe('stats dimensionality (spawned CLI)', () => {
     expect(out.warnings).toEqual([]);
     // The command's numbers are the engine's on the same (reverse-keyed) responses.
     const keyed = rows.map((r) => [...r.slice(0, 5), 6 - r[5]]);
-    const engine = analyzeDimensionality(correlationMatrix(keyed), 300, { iterations: 200, seed: 9, percentile: 95 });
+    const engine = analyzeDimensionality(correlationMatrix(keyed), 300, {
+      iterations: 200,
+      seed: 9,
+      percentile: 95,
+    });
     expect(out.kmo).toBeCloseTo(engine.factorability.kmo, 12);
     expect(out.parallel.components.percentile).toEqual(engine.parallel?.components.percentile);
   });
@@ -68,7 +86,16 @@ describe('stats dimensionality (spawned CLI)', () => {
     expect(run.code).toBe(1);
     expect(run.stderr).toMatch(/^error: .*"traffic3" has the same answer from every respondent/);
     expect(run.stdout).toBe('');
-    const bad = runCli(['stats', 'dimensionality', '--data', good, '--items', NAMES.join(','), '--percentile', '100']);
+    const bad = runCli([
+      'stats',
+      'dimensionality',
+      '--data',
+      good,
+      '--items',
+      NAMES.join(','),
+      '--percentile',
+      '100',
+    ]);
     expect(bad.code).toBe(2);
     expect(bad.stderr).toMatch(/^error: --percentile/);
   });
@@ -76,7 +103,18 @@ describe('stats dimensionality (spawned CLI)', () => {
 
 describe('stats efa (spawned CLI)', () => {
   it('ML + oblimin: loadings by item, communalities, factor correlations, fit and omega', () => {
-    const run = runCli(['stats', 'efa', '--data', good, ...items, '--factors', '2', '--extraction', 'ml', '--json']);
+    const run = runCli([
+      'stats',
+      'efa',
+      '--data',
+      good,
+      ...items,
+      '--factors',
+      '2',
+      '--extraction',
+      'ml',
+      '--json',
+    ]);
     expect(run.stderr).toBe('');
     expect(run.code).toBe(0);
     const out = JSON.parse(run.stdout);
@@ -88,16 +126,35 @@ describe('stats efa (spawned CLI)', () => {
     expect(out.fit).toHaveProperty('rmsea');
     expect(out.fit).toHaveProperty('tli');
     expect(out.omega.model).toMatch(/Schmid–Leiman/);
-    expect(out.methods.map((m: { id: string }) => m.id)).toEqual(expect.arrayContaining(['efa.ml', 'rotation.oblimin']));
+    expect(out.methods.map((m: { id: string }) => m.id)).toEqual(
+      expect.arrayContaining(['efa.ml', 'rotation.oblimin']),
+    );
     // Each facet's items share a factor.
-    const primary = NAMES.map((n) => out.loadings[n].map(Math.abs).indexOf(Math.max(...out.loadings[n].map(Math.abs))));
+    const primary = NAMES.map((n) =>
+      out.loadings[n].map(Math.abs).indexOf(Math.max(...out.loadings[n].map(Math.abs))),
+    );
     expect(new Set(primary.slice(0, 3)).size).toBe(1);
     expect(new Set(primary.slice(3)).size).toBe(1);
     expect(primary[0]).not.toBe(primary[3]);
   });
 
   it('varimax without normalization on polychoric correlations; table within 100 columns', () => {
-    const run = runCli(['stats', 'efa', '--data', good, ...items, '--factors', '2', '--extraction', 'paf', '--rotation', 'varimax', '--no-normalize', '--correlation', 'polychoric']);
+    const run = runCli([
+      'stats',
+      'efa',
+      '--data',
+      good,
+      ...items,
+      '--factors',
+      '2',
+      '--extraction',
+      'paf',
+      '--rotation',
+      'varimax',
+      '--no-normalize',
+      '--correlation',
+      'polychoric',
+    ]);
     expect(run.code).toBe(0);
     for (const line of run.stdout.split('\n')) expect(line.length).toBeLessThanOrEqual(100);
     expect(run.stdout).toMatch(/paf, varimax/);
@@ -105,11 +162,35 @@ describe('stats efa (spawned CLI)', () => {
 
   it('usage errors exit 2: no --factors, too many factors, unknown rotation', () => {
     expect(runCli(['stats', 'efa', '--data', good, '--items', NAMES.join(',')]).code).toBe(2);
-    expect(runCli(['stats', 'efa', '--data', good, '--items', NAMES.join(','), '--factors', '6']).stderr).toMatch(/below the number of items/);
-    const r = runCli(['stats', 'efa', '--data', good, '--items', NAMES.join(','), '--factors', '2', '--rotation', 'spin']);
+    expect(
+      runCli(['stats', 'efa', '--data', good, '--items', NAMES.join(','), '--factors', '6']).stderr,
+    ).toMatch(/below the number of items/);
+    const r = runCli([
+      'stats',
+      'efa',
+      '--data',
+      good,
+      '--items',
+      NAMES.join(','),
+      '--factors',
+      '2',
+      '--rotation',
+      'spin',
+    ]);
     expect(r.code).toBe(2);
     expect(r.stderr).toMatch(/^error: --rotation must be one of/);
-    const ml = runCli(['stats', 'efa', '--data', good, '--items', NAMES.join(','), '--factors', '4', '--extraction', 'ml']);
+    const ml = runCli([
+      'stats',
+      'efa',
+      '--data',
+      good,
+      '--items',
+      NAMES.join(','),
+      '--factors',
+      '4',
+      '--extraction',
+      'ml',
+    ]);
     expect(ml.code).toBe(1);
     expect(ml.stderr).toMatch(/maximum likelihood can fit at most 3/);
   });

@@ -3,7 +3,10 @@
  * paired with the unused column of `actual` closest to it or to its negative, and the largest absolute
  * difference over the paired columns is returned, with the pairing (to reorder factor correlations).
  */
-export function loadingDistance(actual: number[][], expected: number[][]): { distance: number; order: number[]; signs: number[] } {
+export function loadingDistance(
+  actual: number[][],
+  expected: number[][],
+): { distance: number; order: number[]; signs: number[] } {
   const m = expected[0].length;
   const used = new Set<number>();
   const order: number[] = [];

@@ -1,6 +1,10 @@
 import { describe, expect, it } from 'vitest';
 import { analyzeDimensionality } from '../../../../app/engine/factor/dimensionality.ts';
-import { replicationSeed, simulateEigenvalues, summarizeParallelAnalysis } from '../../../../app/engine/factor/factor-count.ts';
+import {
+  replicationSeed,
+  simulateEigenvalues,
+  summarizeParallelAnalysis,
+} from '../../../../app/engine/factor/factor-count.ts';
 import { correlationMatrix, symmetricEigen } from '../../../../app/engine/linalg.ts';
 import { createRng } from '../../../../app/engine/rng.ts';
 
@@ -31,13 +35,34 @@ describe('parallel analysis', () => {
       simulateEigenvalues({ n: 80, p: 5, seed: 11, from: 17, count: 13 }),
       simulateEigenvalues({ n: 80, p: 5, seed: 11, from: 0, count: 17 }),
     ];
-    const observed = { observedComponents: [2, 1.2, 0.8, 0.6, 0.4], observedFactors: [1.5, 0.5, 0.1, 0, -0.1] };
-    const one = summarizeParallelAnalysis({ ...observed, blocks: [whole], iterations: 30, seed: 11, percentile: 95 });
-    const two = summarizeParallelAnalysis({ ...observed, blocks: parts, iterations: 30, seed: 11, percentile: 95 });
+    const observed = {
+      observedComponents: [2, 1.2, 0.8, 0.6, 0.4],
+      observedFactors: [1.5, 0.5, 0.1, 0, -0.1],
+    };
+    const one = summarizeParallelAnalysis({
+      ...observed,
+      blocks: [whole],
+      iterations: 30,
+      seed: 11,
+      percentile: 95,
+    });
+    const two = summarizeParallelAnalysis({
+      ...observed,
+      blocks: parts,
+      iterations: 30,
+      seed: 11,
+      percentile: 95,
+    });
     expect(two).toEqual(one);
-    expect(() => summarizeParallelAnalysis({ ...observed, blocks: [parts[0]], iterations: 30, seed: 11, percentile: 95 })).toThrow(
-      /leave replications out/,
-    );
+    expect(() =>
+      summarizeParallelAnalysis({
+        ...observed,
+        blocks: [parts[0]],
+        iterations: 30,
+        seed: 11,
+        percentile: 95,
+      }),
+    ).toThrow(/leave replications out/);
   });
 
   it("Bartlett's Wishart draw has the eigenvalue distribution of correlations of raw normal data", () => {
@@ -79,10 +104,14 @@ describe('parallel analysis', () => {
   });
 
   it('refuses more items than respondents and says why', () => {
-    expect(() => simulateEigenvalues({ n: 5, p: 6, seed: 1, from: 0, count: 1 })).toThrow(/more respondents than items/);
+    expect(() => simulateEigenvalues({ n: 5, p: 6, seed: 1, from: 0, count: 1 })).toThrow(
+      /more respondents than items/,
+    );
   });
 
   it('can be cancelled', () => {
-    expect(() => simulateEigenvalues({ n: 50, p: 4, seed: 1, from: 0, count: 10, shouldStop: () => true })).toThrow(/cancelled/);
+    expect(() =>
+      simulateEigenvalues({ n: 50, p: 4, seed: 1, from: 0, count: 10, shouldStop: () => true }),
+    ).toThrow(/cancelled/);
   });
 });

@@ -16,7 +16,8 @@ function structured(loadings: number[][], phi: number[][]): number[][] {
     Array.from({ length: p }, (_, j) => {
       if (i === j) return 1;
       let s = 0;
-      for (let a = 0; a < m; a++) for (let b = 0; b < m; b++) s += loadings[i][a] * phi[a][b] * loadings[j][b];
+      for (let a = 0; a < m; a++)
+        for (let b = 0; b < m; b++) s += loadings[i][a] * phi[a][b] * loadings[j][b];
       return s;
     }),
   );
@@ -34,24 +35,41 @@ describe('rotation properties', () => {
   const methods: RotationMethod[] = ['varimax', 'quartimax', 'promax', 'oblimin', 'geomin'];
   it('every rotation keeps the communalities diag(PΦPᵀ) of the unrotated loadings', () => {
     fc.assert(
-      fc.property(fc.integer({ min: 1, max: 1e6 }), fc.integer({ min: 2, max: 4 }), fc.constantFrom(...methods), (seed, m, method) => {
-        const a = randomLoadings(seed, 10, m);
-        const out = rotateLoadings(a, { method, seed, starts: 2 });
-        const h = a.map((row) => row.reduce((s, v) => s + v * v, 0));
-        expect(maxDiff(communalities(out.pattern, out.phi), h)).toBeLessThan(1e-9);
-      }),
+      fc.property(
+        fc.integer({ min: 1, max: 1e6 }),
+        fc.integer({ min: 2, max: 4 }),
+        fc.constantFrom(...methods),
+        (seed, m, method) => {
+          const a = randomLoadings(seed, 10, m);
+          const out = rotateLoadings(a, { method, seed, starts: 2 });
+          const h = a.map((row) => row.reduce((s, v) => s + v * v, 0));
+          expect(maxDiff(communalities(out.pattern, out.phi), h)).toBeLessThan(1e-9);
+        },
+      ),
       { numRuns: 25 },
     );
   });
 
   it('orthogonal rotations keep T orthogonal (TᵀT = I) and Φ the identity', () => {
     fc.assert(
-      fc.property(fc.integer({ min: 1, max: 1e6 }), fc.constantFrom<RotationMethod>('varimax', 'quartimax'), (seed, method) => {
-        const out = rotateLoadings(randomLoadings(seed, 12, 3), { method });
-        const tt = out.t.map((_, i) => out.t.map((_, j) => out.t.reduce((s, row) => s + row[i] * row[j], 0)));
-        expect(maxDiff(tt, [[1, 0, 0], [0, 1, 0], [0, 0, 1]])).toBeLessThan(1e-10);
-        expect(out.oblique).toBe(false);
-      }),
+      fc.property(
+        fc.integer({ min: 1, max: 1e6 }),
+        fc.constantFrom<RotationMethod>('varimax', 'quartimax'),
+        (seed, method) => {
+          const out = rotateLoadings(randomLoadings(seed, 12, 3), { method });
+          const tt = out.t.map((_, i) =>
+            out.t.map((_, j) => out.t.reduce((s, row) => s + row[i] * row[j], 0)),
+          );
+          expect(
+            maxDiff(tt, [
+              [1, 0, 0],
+              [0, 1, 0],
+              [0, 0, 1],
+            ]),
+          ).toBeLessThan(1e-10);
+          expect(out.oblique).toBe(false);
+        },
+      ),
       { numRuns: 20 },
     );
   });
@@ -59,7 +77,9 @@ describe('rotation properties', () => {
   it('oblique rotations give Φ with a unit diagonal and structure = pattern·Φ', () => {
     const out = rotateLoadings(randomLoadings(5, 9, 3), { method: 'geomin', seed: 3 });
     for (let k = 0; k < 3; k++) expect(out.phi[k][k]).toBeCloseTo(1, 12);
-    const s = out.pattern.map((row) => out.phi.map((_, j) => row.reduce((acc, v, k) => acc + v * out.phi[k][j], 0)));
+    const s = out.pattern.map((row) =>
+      out.phi.map((_, j) => row.reduce((acc, v, k) => acc + v * out.phi[k][j], 0)),
+    );
     expect(maxDiff(s, out.structure)).toBeLessThan(1e-12);
   });
 });
@@ -86,12 +106,18 @@ describe('recovery of an exactly factor-structured correlation matrix', () => {
   for (const extraction of ['paf', 'minres', 'ml'] as const) {
     for (const rotation of ['oblimin', 'geomin'] as const) {
       it(`${extraction} + ${rotation} recovers the loadings and factor correlations`, () => {
-        const out = exploratoryFactorAnalysis(truth.map((_, i) => `item${i + 1}`), r, { factors: 3, extraction, rotation, n: 500, seed: 1 });
+        const out = exploratoryFactorAnalysis(
+          truth.map((_, i) => `item${i + 1}`),
+          r,
+          { factors: 3, extraction, rotation, n: 500, seed: 1 },
+        );
         expect(out.converged).toBe(true);
         const match = loadingDistance(out.loadings, truth);
         // Geomin's δ = 0.01 pulls the exact simple structure very slightly; quartimin recovers it exactly.
         expect(match.distance).toBeLessThan(rotation === 'oblimin' ? 1e-5 : 2e-2);
-        const got = match.order.map((a, i) => match.order.map((b, j) => out.factorCorrelations[a][b] * match.signs[i] * match.signs[j]));
+        const got = match.order.map((a, i) =>
+          match.order.map((b, j) => out.factorCorrelations[a][b] * match.signs[i] * match.signs[j]),
+        );
         expect(maxDiff(got, phi)).toBeLessThan(rotation === 'oblimin' ? 1e-5 : 3e-2);
         expect(maxDiff(out.communalities, communalities(truth, phi))).toBeLessThan(1e-5);
         if (extraction === 'ml') expect(out.fit?.chiSquare).toBeLessThan(1e-6);
@@ -124,7 +150,12 @@ describe('ill-conditioned inputs give warnings, never NaN or a hang', () => {
       [0.7, 0.4, 1],
     ];
     for (const extraction of ['paf', 'minres', 'ml'] as const) {
-      const out = exploratoryFactorAnalysis(['lanes', 'signals', 'merging'], r, { factors: 1, extraction, rotation: 'none', n: 200 });
+      const out = exploratoryFactorAnalysis(['lanes', 'signals', 'merging'], r, {
+        factors: 1,
+        extraction,
+        rotation: 'none',
+        n: 200,
+      });
       expect([...out.loadings.flat(), ...out.communalities].every(Number.isFinite)).toBe(true);
       expect(out.heywood).toEqual(['lanes']);
       expect(out.warnings.join(' ')).toMatch(/Heywood case: item "lanes" reached/);

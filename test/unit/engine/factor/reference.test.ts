@@ -12,7 +12,9 @@ import { type RotationMethod, rotateLoadings } from '../../../../app/engine/fact
 import { loadingDistance, maxDiff } from './match.ts';
 
 // Fixture computed by test/reference/factor.py (numpy, scipy, statsmodels; versions inside the file).
-const fx = JSON.parse(readFileSync(new URL('../../../reference/fixtures/factor.json', import.meta.url), 'utf8'));
+const fx = JSON.parse(
+  readFileSync(new URL('../../../reference/fixtures/factor.json', import.meta.url), 'utf8'),
+);
 const R: number[][] = fx.correlation;
 const N: number = fx.n;
 const M: number = fx.factors;
@@ -98,7 +100,9 @@ describe('rotations against statsmodels factor_rotation (same unrotated input)',
         const match = loadingDistance(out.pattern, ref.loadings);
         expect(match.distance).toBeLessThan(1e-5);
         if (ref.phi) {
-          const phi = match.order.map((a, i) => match.order.map((b, j) => out.phi[a][b] * match.signs[i] * match.signs[j]));
+          const phi = match.order.map((a, i) =>
+            match.order.map((b, j) => out.phi[a][b] * match.signs[i] * match.signs[j]),
+          );
           expect(maxDiff(phi, ref.phi)).toBeLessThan(1e-5);
         }
       });
@@ -119,7 +123,13 @@ describe('omega, Guttman and polychoric against numpy and scipy', () => {
   });
 
   it('the whole EFA reports the same omegas as the fixture for PAF + oblimin', () => {
-    const out = exploratoryFactorAnalysis(fx.items, R, { factors: M, extraction: 'paf', rotation: 'oblimin', n: N, seed: 1 });
+    const out = exploratoryFactorAnalysis(fx.items, R, {
+      factors: M,
+      extraction: 'paf',
+      rotation: 'oblimin',
+      n: N,
+      seed: 1,
+    });
     expect(out.omega?.omegaHierarchical).toBeCloseTo(fx.omega.omegaHierarchical, 5);
     expect(out.omega?.model).toMatch(/Schmid–Leiman solution of 3 paf factors rotated by oblimin/);
   });
