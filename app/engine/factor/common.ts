@@ -69,11 +69,3 @@ export function squaredMultipleCorrelations(r: number[][]): number[] {
   const inv = inverse(r);
   return inv.map((row, i) => 1 - 1 / row[i]);
 }
-
-/** Frobenius-norm distance between two matrices of the same shape. */
-export function maxAbsDifference(a: number[][], b: number[][]): number {
-  let best = 0;
-  for (let i = 0; i < a.length; i++)
-    for (let j = 0; j < a[i].length; j++) best = Math.max(best, Math.abs(a[i][j] - b[i][j]));
-  return best;
-}

@@ -136,15 +136,14 @@ function frobenius(a: number[][]): number {
   return Math.sqrt(s);
 }
 
-/** U·Vᵀ of X = U·S·Vᵀ, as X·(XᵀX)^{-1/2}: the orthogonal matrix nearest X. */
+/** U·Vᵀ of X = U·S·Vᵀ, as X·(XᵀX)^{-1/2}: the orthogonal matrix nearest X (its polar factor). */
 function nearestOrthogonal(x: number[][]): number[][] {
   const { values, vectors } = symmetricEigen(matMul(transpose(x), x));
   const m = values.length;
-  const invRoot = identity(m).map((_, i) =>
-    identity(m)[i].map((_, j) => {
+  const invRoot: number[][] = Array.from({ length: m }, (_, i) =>
+    Array.from({ length: m }, (_, j) => {
       let s = 0;
-      for (let k = 0; k < m; k++)
-        s += (vectors[i][k] * vectors[j][k]) / Math.sqrt(Math.max(values[k], 1e-300));
+      for (let k = 0; k < m; k++) s += (vectors[i][k] * vectors[j][k]) / Math.sqrt(Math.max(values[k], 1e-300));
       return s;
     }),
   );
@@ -238,7 +237,7 @@ function gpaOblique(a: number[][], criterion: Criterion, t0: number[][]): GpaRes
   return { t, f, iterations: ROTATION_MAX_ITERATIONS, converged: false };
 }
 
-/** A random orthogonal m × m matrix (Gram–Schmidt on standard-normal columns). */
+/** A random orthogonal m × m matrix: the polar factor of a standard-normal matrix (uniform on O(m)). */
 function randomOrthogonal(m: number, next: () => number): number[][] {
   return nearestOrthogonal(Array.from({ length: m }, () => Array.from({ length: m }, next)));
 }
