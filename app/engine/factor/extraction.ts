@@ -7,6 +7,7 @@ import {
   squaredMultipleCorrelations,
   zeros,
 } from './common.ts';
+import { leadingEigenpairs } from './eigenvalues.ts';
 import { minimizeInBox } from './optimize.ts';
 
 export type ExtractionMethod = 'paf' | 'minres' | 'ml';
@@ -104,7 +105,7 @@ function principalAxis(r: number[][], m: number) {
   let iterations = 0;
   for (; iterations < EXTRACTION_MAX_ITERATIONS && !converged; iterations++) {
     for (let i = 0; i < p; i++) reduced[i][i] = h2[i];
-    const { values, vectors } = symmetricEigen(reduced);
+    const { values, vectors } = leadingEigenpairs(reduced, m, symmetricEigen);
     loadings = topLoadings(values, vectors, m);
     const next = rowSumsOfSquares(loadings);
     let change = 0;
@@ -120,7 +121,7 @@ function ulsObjective(r: number[][], m: number) {
   const p = r.length;
   return (psi: number[]) => {
     const a = r.map((row, i) => row.map((v, j) => (i === j ? v - psi[i] : v)));
-    const { values, vectors } = symmetricEigen(a);
+    const { values, vectors } = leadingEigenpairs(a, m, symmetricEigen);
     let value = 0;
     for (let k = 0; k < p; k++) {
       const residual = k < m ? Math.min(values[k], 0) : values[k];
@@ -138,7 +139,7 @@ function mlObjective(r: number[][], m: number) {
   return (psi: number[]) => {
     const sc = psi.map((v) => 1 / Math.sqrt(v));
     const s = r.map((row, i) => row.map((v, j) => v * sc[i] * sc[j]));
-    const { values, vectors } = symmetricEigen(s);
+    const { values, vectors } = leadingEigenpairs(s, m, symmetricEigen);
     let value = 0;
     for (let k = m; k < p; k++) value += values[k] - Math.log(values[k]) - 1;
     const l = zeros(p, m);

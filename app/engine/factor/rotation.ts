@@ -143,7 +143,8 @@ function nearestOrthogonal(x: number[][]): number[][] {
   const invRoot: number[][] = Array.from({ length: m }, (_, i) =>
     Array.from({ length: m }, (_, j) => {
       let s = 0;
-      for (let k = 0; k < m; k++) s += (vectors[i][k] * vectors[j][k]) / Math.sqrt(Math.max(values[k], 1e-300));
+      for (let k = 0; k < m; k++)
+        s += (vectors[i][k] * vectors[j][k]) / Math.sqrt(Math.max(values[k], 1e-300));
       return s;
     }),
   );

@@ -20,9 +20,17 @@ describe('ill-conditioned inputs', () => {
     expect(d.factorability.bartlett).toBeNull();
     expect(d.suggested.parallel).toBeNull();
     expect(finite([d.factorability.kmo, ...d.factorability.msa, ...d.eigenvalues])).toBe(true);
-    const efa = exploratoryFactorAnalysis(names, input.matrix, { factors: 2, extraction: 'minres', rotation: 'oblimin', n: input.n, seed: 1 });
+    const efa = exploratoryFactorAnalysis(names, input.matrix, {
+      factors: 2,
+      extraction: 'minres',
+      rotation: 'oblimin',
+      n: input.n,
+      seed: 1,
+    });
     expect(efa.warnings.join(' ')).toMatch(/only 6 respondents for 8 items/);
-    expect(finite([...efa.loadings.flat(), ...efa.communalities, ...efa.factorCorrelations.flat()])).toBe(true);
+    expect(finite([...efa.loadings.flat(), ...efa.communalities, ...efa.factorCorrelations.flat()])).toBe(
+      true,
+    );
   });
 
   it('a zero-variance item is named', () => {
@@ -32,10 +40,12 @@ describe('ill-conditioned inputs', () => {
       [3, 3, 1],
       [4, 3, 5],
     ];
-    expect(() => correlationInput(['ride', 'brake', 'signal'], data, { kind: 'pearson', missing: 'listwise' })).toThrow(
-      /item "brake" has the same answer from every respondent/,
-    );
-    expect(() => correlationInput(['ride', 'brake', 'signal'], data, { kind: 'polychoric', missing: 'listwise' })).toThrow(/"brake"/);
+    expect(() =>
+      correlationInput(['ride', 'brake', 'signal'], data, { kind: 'pearson', missing: 'listwise' }),
+    ).toThrow(/item "brake" has the same answer from every respondent/);
+    expect(() =>
+      correlationInput(['ride', 'brake', 'signal'], data, { kind: 'polychoric', missing: 'listwise' }),
+    ).toThrow(/"brake"/);
   });
 
   it('a non-positive-definite pairwise polychoric matrix is smoothed and the smoothing reported', () => {

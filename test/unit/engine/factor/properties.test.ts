@@ -1,7 +1,7 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { exploratoryFactorAnalysis } from '../../../../app/engine/factor/efa.ts';
-import { symmetricEigenvalues } from '../../../../app/engine/factor/eigenvalues.ts';
+import { leadingEigenpairs, symmetricEigenvalues } from '../../../../app/engine/factor/eigenvalues.ts';
 import { extractFactors } from '../../../../app/engine/factor/extraction.ts';
 import { type RotationMethod, rotateLoadings } from '../../../../app/engine/factor/rotation.ts';
 import { symmetricEigen } from '../../../../app/engine/linalg.ts';
@@ -138,6 +138,34 @@ describe('fast symmetric eigenvalues', () => {
       }),
       { numRuns: 40 },
     );
+  });
+});
+
+describe('leading eigenpairs by inverse iteration', () => {
+  it('match the full decomposition, including a matrix with tied eigenvalues', () => {
+    fc.assert(
+      fc.property(fc.integer({ min: 1, max: 1e6 }), fc.integer({ min: 4, max: 25 }), (seed, p) => {
+        const rng = createRng(seed);
+        const a = Array.from({ length: p }, () => new Array<number>(p).fill(0));
+        for (let i = 0; i < p; i++) for (let j = 0; j <= i; j++) a[i][j] = a[j][i] = rng.normal();
+        const full = symmetricEigen(a);
+        const lead = leadingEigenpairs(a, 3, symmetricEigen);
+        expect(maxDiff(lead.values, full.values)).toBeLessThan(1e-10);
+        expect(
+          maxDiff(
+            lead.vectors,
+            full.vectors.map((row) => row.slice(0, 3)),
+          ),
+        ).toBeLessThan(1e-8);
+      }),
+      { numRuns: 30 },
+    );
+    const tied = [
+      [2, 0, 0],
+      [0, 2, 0],
+      [0, 0, 1],
+    ];
+    expect(leadingEigenpairs(tied, 2, symmetricEigen).values).toEqual([2, 2, 1]);
   });
 });
 
