@@ -20,6 +20,7 @@ import {
   cut,
   engineStep,
   fixed,
+  helpLines,
   pValue,
 } from './factor-common.ts';
 
@@ -155,12 +156,12 @@ function toTable(loaded: LoadedItems, input: CorrelationInput, d: Dimensionality
 export const dimensionality: StatsAnalysis = {
   name: 'dimensionality',
   summary: 'how many factors: KMO, Bartlett, eigenvalues, parallel analysis, MAP',
-  help: [
-    '  --iterations N      simulated data sets for parallel analysis (default 1000)',
-    '  --percentile P      percentile of the simulated eigenvalues (default 95)',
-    '  --seed S            seed of the simulation (reported as "seed")',
-    '  --correlation KIND  pearson (default) or polychoric',
-  ].join('\n'),
+  help: helpLines([
+    ['--iterations N', `simulated data sets for parallel analysis (default 1000)`],
+    ['--percentile P', `percentile of the simulated eigenvalues (default 95)`],
+    ['--seed S', `seed of the simulation (reported as "seed")`],
+    ['--correlation KIND', `pearson (default) or polychoric`],
+  ]),
   options: {
     iterations: { type: 'string' },
     percentile: { type: 'string' },

@@ -22,6 +22,7 @@ import {
   engineStep,
   fixed,
   NAME_WIDTH,
+  helpLines,
   pValue,
 } from './factor-common.ts';
 
@@ -197,17 +198,17 @@ function toTable(loaded: LoadedItems, input: CorrelationInput, r: EfaResult): st
 export const efa: StatsAnalysis = {
   name: 'efa',
   summary: 'exploratory factor analysis: extraction, rotation, loadings, fit, omega hierarchical',
-  help: [
-    '  --factors M         number of factors (required)',
-    '  --extraction E      paf, minres or ml (default ml)',
-    '  --rotation R        none, varimax, quartimax, promax, oblimin (default) or geomin',
-    '  --no-normalize      rotate without Kaiser row normalization',
-    `  --power K           promax power (default ${DEFAULT_PROMAX_POWER})`,
-    `  --gamma G           oblimin γ (default ${DEFAULT_OBLIMIN_GAMMA}, quartimin)`,
-    `  --starts S          starts for oblimin and geomin: identity plus random (default ${DEFAULT_RANDOM_STARTS})`,
-    '  --seed S            seed of the random starts (reported as "seed")',
-    '  --correlation KIND  pearson (default) or polychoric',
-  ].join('\n'),
+  help: helpLines([
+    ['--factors M', `number of factors (required)`],
+    ['--extraction E', `paf, minres or ml (default ml)`],
+    ['--rotation R', `none, varimax, quartimax, promax, oblimin (default) or geomin`],
+    ['--no-normalize', `rotate without Kaiser row normalization`],
+    ['--power K', `promax power (default ${DEFAULT_PROMAX_POWER})`],
+    ['--gamma G', `oblimin γ (default ${DEFAULT_OBLIMIN_GAMMA}, quartimin)`],
+    ['--starts S', `starts for oblimin and geomin: identity plus random (default ${DEFAULT_RANDOM_STARTS})`],
+    ['--seed S', `seed of the random starts (reported as "seed")`],
+    ['--correlation KIND', `pearson (default) or polychoric`],
+  ]),
   options: {
     factors: { type: 'string' },
     extraction: { type: 'string' },

@@ -86,3 +86,8 @@ export function columnBlocks(count: number, fixedWidth: number, columnWidth: num
   }
   return blocks;
 }
+
+/** `--help` lines in the same columns as the common options: each [option, what it does]. */
+export function helpLines(rows: [string, string][]): string {
+  return rows.map(([option, text]) => `  ${option.padEnd(22)}${text}`).join('\n');
+}
