@@ -31,10 +31,12 @@ writeFileSync(
   flat,
   `id,${NAMES.join(',')}\n${rows.map((r, i) => `p${i + 1},${[...r.slice(0, 2), 3, ...r.slice(3)].join(',')}`).join('\n')}\n`,
 );
+/** Each spawned command starts a Node process; on a busy machine a test of several takes a while. */
+const SPAWNS = { timeout: 180_000 };
 const items = ['--items', NAMES.join(','), '--reverse', 'route3', '--min', '1', '--max', '5'];
 
 describe('stats dimensionality (spawned CLI)', () => {
-  it('prints one JSON object with the contract fields, methods and the seed', () => {
+  it('prints one JSON object with the contract fields, methods and the seed', SPAWNS, () => {
     const run = runCli([
       'stats',
       'dimensionality',
@@ -71,7 +73,7 @@ describe('stats dimensionality (spawned CLI)', () => {
     expect(out.parallel.components.percentile).toEqual(engine.parallel?.components.percentile);
   });
 
-  it('prints a table within 100 columns and answers --help', () => {
+  it('prints a table within 100 columns and answers --help', SPAWNS, () => {
     const run = runCli(['stats', 'dimensionality', '--data', good, ...items, '--iterations', '50']);
     expect(run.code).toBe(0);
     for (const line of run.stdout.split('\n')) expect(line.length).toBeLessThanOrEqual(100);
@@ -81,7 +83,7 @@ describe('stats dimensionality (spawned CLI)', () => {
     expect(help.stdout).toMatch(/--iterations N/);
   });
 
-  it('exit 1 naming a zero-variance item; exit 2 for a bad option', () => {
+  it('exit 1 naming a zero-variance item; exit 2 for a bad option', SPAWNS, () => {
     const run = runCli(['stats', 'dimensionality', '--data', flat, '--items', NAMES.join(','), '--json']);
     expect(run.code).toBe(1);
     expect(run.stderr).toMatch(/^error: .*"traffic3" has the same answer from every respondent/);
@@ -102,7 +104,7 @@ describe('stats dimensionality (spawned CLI)', () => {
 });
 
 describe('stats efa (spawned CLI)', () => {
-  it('ML + oblimin: loadings by item, communalities, factor correlations, fit and omega', () => {
+  it('ML + oblimin: loadings by item, communalities, factor correlations, fit and omega', SPAWNS, () => {
     const run = runCli([
       'stats',
       'efa',
@@ -138,7 +140,7 @@ describe('stats efa (spawned CLI)', () => {
     expect(primary[0]).not.toBe(primary[3]);
   });
 
-  it('varimax without normalization on polychoric correlations; table within 100 columns', () => {
+  it('varimax without normalization on polychoric correlations; table within 100 columns', SPAWNS, () => {
     const run = runCli([
       'stats',
       'efa',
@@ -160,7 +162,7 @@ describe('stats efa (spawned CLI)', () => {
     expect(run.stdout).toMatch(/paf, varimax/);
   });
 
-  it('usage errors exit 2: no --factors, too many factors, unknown rotation', () => {
+  it('usage errors exit 2: no --factors, too many factors, unknown rotation', SPAWNS, () => {
     expect(runCli(['stats', 'efa', '--data', good, '--items', NAMES.join(',')]).code).toBe(2);
     expect(
       runCli(['stats', 'efa', '--data', good, '--items', NAMES.join(','), '--factors', '6']).stderr,
@@ -197,7 +199,7 @@ describe('stats efa (spawned CLI)', () => {
 });
 
 describe('stats polychoric (spawned CLI)', () => {
-  it('prints items, the matrix and thresholds by item', () => {
+  it('prints items, the matrix and thresholds by item', SPAWNS, () => {
     const run = runCli(['stats', 'polychoric', '--data', good, ...items, '--json']);
     expect(run.code).toBe(0);
     const out = JSON.parse(run.stdout);
