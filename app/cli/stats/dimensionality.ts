@@ -20,7 +20,7 @@ import {
   cut,
   engineStep,
   fixed,
-  helpLines,
+  factorHelp,
   pValue,
 } from './factor-common.ts';
 
@@ -156,12 +156,16 @@ function toTable(loaded: LoadedItems, input: CorrelationInput, d: Dimensionality
 export const dimensionality: StatsAnalysis = {
   name: 'dimensionality',
   summary: 'how many factors: KMO, Bartlett, eigenvalues, parallel analysis, MAP',
-  help: helpLines([
-    ['--iterations N', `simulated data sets for parallel analysis (default 1000)`],
-    ['--percentile P', `percentile of the simulated eigenvalues (default 95)`],
-    ['--seed S', `seed of the simulation (reported as "seed")`],
-    ['--correlation KIND', `pearson (default) or polychoric`],
-  ]),
+  help: factorHelp(
+    'dimensionality --data FILE --items a,b,c [options]',
+    "How many factors: KMO and MSA, Bartlett's test, eigenvalues (Kaiser), parallel analysis for\ncomponents and common factors, and the MAP test, side by side; none is chosen for you.",
+    [
+      ['--iterations N', `simulated data sets for parallel analysis (default 1000)`],
+      ['--percentile P', `percentile of the simulated eigenvalues (default 95)`],
+      ['--seed S', `seed of the simulation (reported as "seed")`],
+      ['--correlation KIND', `pearson (default) or polychoric`],
+    ],
+  ),
   options: {
     iterations: { type: 'string' },
     percentile: { type: 'string' },

@@ -22,7 +22,7 @@ import {
   engineStep,
   fixed,
   NAME_WIDTH,
-  helpLines,
+  factorHelp,
   pValue,
 } from './factor-common.ts';
 
@@ -198,17 +198,24 @@ function toTable(loaded: LoadedItems, input: CorrelationInput, r: EfaResult): st
 export const efa: StatsAnalysis = {
   name: 'efa',
   summary: 'exploratory factor analysis: extraction, rotation, loadings, fit, omega hierarchical',
-  help: helpLines([
-    ['--factors M', `number of factors (required)`],
-    ['--extraction E', `paf, minres or ml (default ml)`],
-    ['--rotation R', `none, varimax, quartimax, promax, oblimin (default) or geomin`],
-    ['--no-normalize', `rotate without Kaiser row normalization`],
-    ['--power K', `promax power (default ${DEFAULT_PROMAX_POWER})`],
-    ['--gamma G', `oblimin γ (default ${DEFAULT_OBLIMIN_GAMMA}, quartimin)`],
-    ['--starts S', `starts for oblimin and geomin: identity plus random (default ${DEFAULT_RANDOM_STARTS})`],
-    ['--seed S', `seed of the random starts (reported as "seed")`],
-    ['--correlation KIND', `pearson (default) or polychoric`],
-  ]),
+  help: factorHelp(
+    'efa --data FILE --items a,b,c --factors M [options]',
+    'Exploratory factor analysis: extraction, rotation, loadings, communalities, factor correlations,\nthe ML fit, Heywood and convergence warnings, and omega hierarchical from a Schmid–Leiman solution.',
+    [
+      ['--factors M', `number of factors (required)`],
+      ['--extraction E', `paf, minres or ml (default ml)`],
+      ['--rotation R', `none, varimax, quartimax, promax, oblimin (default) or geomin`],
+      ['--no-normalize', `rotate without Kaiser row normalization`],
+      ['--power K', `promax power (default ${DEFAULT_PROMAX_POWER})`],
+      ['--gamma G', `oblimin γ (default ${DEFAULT_OBLIMIN_GAMMA}, quartimin)`],
+      [
+        '--starts S',
+        `starts for oblimin and geomin: identity plus random (default ${DEFAULT_RANDOM_STARTS})`,
+      ],
+      ['--seed S', `seed of the random starts (reported as "seed")`],
+      ['--correlation KIND', `pearson (default) or polychoric`],
+    ],
+  ),
   options: {
     factors: { type: 'string' },
     extraction: { type: 'string' },

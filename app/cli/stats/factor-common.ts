@@ -87,7 +87,30 @@ export function columnBlocks(count: number, fixedWidth: number, columnWidth: num
   return blocks;
 }
 
-/** `--help` lines in the same columns as the common options: each [option, what it does]. */
-export function helpLines(rows: [string, string][]): string {
-  return rows.map(([option, text]) => `  ${option.padEnd(22)}${text}`).join('\n');
+/**
+ * The whole `--help` text of a factor analysis: usage line, what it does, the common data options and
+ * the analysis's own ([option, what it does]), and the caution every analysis of a new scale carries.
+ */
+export function factorHelp(usage: string, about: string, own: [string, string][]): string {
+  const rows: [string, string][] = [
+    ['--data FILE', 'CSV or TSV file with a header row'],
+    ['--items a,b,c', 'the item columns'],
+    ['--reverse a,b', 'reverse-keyed items (needs --min and --max: score = min + max − x)'],
+    ['--min N --max N', 'declared scale bounds (values outside are refused)'],
+    ['--missing METHOD', 'listwise (default) or pairwise'],
+    ['--missing-codes -99,9', 'values that mark a missing answer'],
+    ...own,
+    ['--json', 'one JSON object instead of the table'],
+    ['--help', 'this text'],
+  ];
+  return [
+    `usage: scalewright stats ${usage}`,
+    '',
+    about,
+    '',
+    ...rows.map(([option, text]) => `  ${option.padEnd(23)}${text}`),
+    '',
+    'Rules of thumb shown advise; the researcher decides. A new scale is not validated for diagnosis,',
+    'hiring, admission or other high-stakes decisions about people.',
+  ].join('\n');
 }
