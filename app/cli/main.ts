@@ -16,6 +16,12 @@ const USAGE = `usage: scalewright <command> [options]
                                            confirmatory factor analysis: fit, loadings, CR, AVE, HTMT
   stats icc --data FILE --columns a,b,c [options]
                                            the six intraclass correlations with intervals, SEM, MDC
+  stats dimensionality --data FILE --items a,b,c [options]
+                                           how many factors: KMO, Bartlett, parallel analysis, MAP
+  stats efa --data FILE --items a,b,c --factors M [options]
+                                           exploratory factor analysis with rotation
+  stats polychoric --data FILE --items a,b,c [options]
+                                           polychoric correlations of ordinal items
   project new FILE [--demo]                create a study file
   project status FILE [--json]             phases, states, counts, open gates
   project import FILE --data CSV --role pilot|validation|retest [--map map.json]

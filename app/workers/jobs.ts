@@ -1,4 +1,6 @@
 import { EngineError } from '../engine/errors.ts';
+import { simulateEigenvalues } from '../engine/factor/factor-count.ts';
+import { polychoricMatrix } from '../engine/factor/polychoric.ts';
 import { type ItemAnalysis, type ItemAnalysisInput, analyseItems } from '../engine/reliability.ts';
 import { readDataFileJob } from '../phases/pilot-read.ts';
 
@@ -83,6 +85,25 @@ export const JOBS = {
       }),
     };
   },
+  /**
+   * One block of parallel-analysis replications (from … from + count − 1); each replication has its
+   * own seeded stream, so blocks may run in any thread and in any order.
+   */
+  'factor.parallel-block': (
+    input: { n: number; p: number; seed: number; from: number; count: number },
+    ctx: JobContext,
+  ) =>
+    simulateEigenvalues({
+      ...input,
+      onProgress: (done, total) => ctx.progress(done, total),
+      shouldStop: () => ctx.shouldStop(),
+    }),
+  /** A polychoric correlation matrix (the pairs are the slow part). */
+  'factor.polychoric': (input: { items: string[]; data: (number | null)[][] }, ctx: JobContext) =>
+    polychoricMatrix(input.items, input.data, {
+      onProgress: (done, total) => ctx.progress(done, total),
+      shouldStop: () => ctx.shouldStop(),
+    }),
   /** Reads and checks a data file for import (parse, validate, compact columns); nothing is stored. */
   'import.read': readDataFileJob,
 } satisfies Record<string, (input: never, ctx: JobContext) => unknown>;

@@ -1,4 +1,5 @@
 import { EngineError } from '../errors.ts';
+import { FACTOR_ANALYSIS_METHODS } from './factor-analysis.ts';
 import { RELIABILITY_METHODS } from './reliability.ts';
 import type { Reference, RegistryEntry } from './types.ts';
 import { VALIDITY_METHODS } from './validity.ts';
@@ -12,6 +13,7 @@ export type { MethodEntry, Reference, RegistryEntry, RuleEntry } from './types.t
 export const METHODS: ReadonlyMap<string, RegistryEntry> = buildRegistry([
   ...RELIABILITY_METHODS,
   ...VALIDITY_METHODS,
+  ...FACTOR_ANALYSIS_METHODS,
 ]);
 
 function buildRegistry(entries: RegistryEntry[]): ReadonlyMap<string, RegistryEntry> {

@@ -1,0 +1,116 @@
+import { EngineError } from '../../engine/errors.ts';
+import { type CorrelationInput, type CorrelationKind, correlationInput } from '../../engine/factor/input.ts';
+import { DataError, type OptionValues, UsageError } from '../types.ts';
+import type { LoadedItems } from './data.ts';
+
+/** Widest a command-line table may be. */
+export const TABLE_WIDTH = 100;
+/** Item names in tables are cut to this many characters (with an ellipsis). */
+export const NAME_WIDTH = 16;
+
+/** The options the factor analyses share: which correlations to analyse. */
+export const CORRELATION_OPTION = { correlation: { type: 'string' as const } };
+
+export function correlationKindOption(values: OptionValues): CorrelationKind {
+  const raw = values.correlation;
+  if (raw === undefined) return 'pearson';
+  if (raw !== 'pearson' && raw !== 'polychoric') {
+    throw new UsageError(`--correlation must be pearson or polychoric (got "${String(raw)}")`);
+  }
+  return raw;
+}
+
+/** One of a fixed set of words for an option, or its default. */
+export function choiceOption<T extends string>(
+  values: OptionValues,
+  name: string,
+  choices: readonly T[],
+  fallback: T,
+): T {
+  const raw = values[name];
+  if (raw === undefined) return fallback;
+  if (typeof raw !== 'string' || !choices.includes(raw as T)) {
+    throw new UsageError(`--${name} must be one of ${choices.join(', ')} (got "${String(raw)}")`);
+  }
+  return raw as T;
+}
+
+/** The correlation matrix of the loaded items; engine refusals become data errors naming the file. */
+export function correlationsOf(loaded: LoadedItems, kind: CorrelationKind): CorrelationInput {
+  if (loaded.names.length < 2) throw new UsageError('give at least two items in --items');
+  try {
+    return correlationInput(loaded.names, loaded.data, { kind, missing: loaded.missing });
+  } catch (error) {
+    if (error instanceof EngineError) throw new DataError(`${loaded.file}: ${error.message}`);
+    throw error;
+  }
+}
+
+/** Runs an engine computation; its refusal is a data error (exit 1) naming the file. */
+export function engineStep<T>(file: string, run: () => T): T {
+  try {
+    return run();
+  } catch (error) {
+    if (error instanceof EngineError) throw new DataError(`${file}: ${error.message}`);
+    throw error;
+  }
+}
+
+/** A number rounded for a table; a value that rounds to zero prints without a minus sign. */
+export function fixed(x: number | null | undefined, digits = 3): string {
+  if (x === null || x === undefined || !Number.isFinite(x)) return '—';
+  const text = x.toFixed(digits);
+  return Number(text) === 0 ? text.replace('-', '') : text;
+}
+
+/** A p-value for a table: "< .001" below that. */
+export function pValue(p: number | null): string {
+  if (p === null) return '—';
+  return p < 0.001 ? '< .001' : fixed(p, 3);
+}
+
+/** An item name cut to `width` characters with an ellipsis. */
+export function cut(name: string, width = NAME_WIDTH): string {
+  return name.length <= width ? name : `${name.slice(0, width - 1)}…`;
+}
+
+/**
+ * Splits numeric columns into blocks so that each printed table stays within TABLE_WIDTH: `fixedWidth`
+ * is what the leading columns take, `columnWidth` each numeric column (with its separator).
+ */
+export function columnBlocks(count: number, fixedWidth: number, columnWidth: number): number[][] {
+  const per = Math.max(1, Math.floor((TABLE_WIDTH - fixedWidth) / columnWidth));
+  const blocks: number[][] = [];
+  for (let start = 0; start < count; start += per) {
+    blocks.push(Array.from({ length: Math.min(per, count - start) }, (_, i) => start + i));
+  }
+  return blocks;
+}
+
+/**
+ * The whole `--help` text of a factor analysis: usage line, what it does, the common data options and
+ * the analysis's own ([option, what it does]), and the caution every analysis of a new scale carries.
+ */
+export function factorHelp(usage: string, about: string, own: [string, string][]): string {
+  const rows: [string, string][] = [
+    ['--data FILE', 'CSV or TSV file with a header row'],
+    ['--items a,b,c', 'the item columns'],
+    ['--reverse a,b', 'reverse-keyed items (needs --min and --max: score = min + max − x)'],
+    ['--min N --max N', 'declared scale bounds (values outside are refused)'],
+    ['--missing METHOD', 'listwise (default) or pairwise'],
+    ['--missing-codes -99,9', 'values that mark a missing answer'],
+    ...own,
+    ['--json', 'one JSON object instead of the table'],
+    ['--help', 'this text'],
+  ];
+  return [
+    `usage: scalewright stats ${usage}`,
+    '',
+    about,
+    '',
+    ...rows.map(([option, text]) => `  ${option.padEnd(23)}${text}`),
+    '',
+    'Rules of thumb shown advise; the researcher decides. A new scale is not validated for diagnosis,',
+    'hiring, admission or other high-stakes decisions about people.',
+  ].join('\n');
+}
