@@ -20,6 +20,9 @@ const USAGE = `usage: scalewright <command> [options]
   project status FILE [--json]             phases, states, counts, open gates
   project import FILE --data CSV --role pilot|validation|retest [--map map.json]
                                            import a data file into the study
+  project datasets FILE [--json]           datasets, their rows and SHA-256, the current one of each role
+  project use FILE --dataset N --reason TEXT
+                                           make a dataset current for its role (a logged decision)
   project verify FILE                      check the file and its decision log
 
 Run from the project root as: npm run -s cli -- <command> [options]`;

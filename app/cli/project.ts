@@ -3,6 +3,7 @@ import { fillDemoStudy, DEMO_TITLE } from '../demo/index.ts';
 import { Study } from '../../db/study.ts';
 import { studyOverview } from '../phases/index.ts';
 import { parseStrict, resolveUserPath } from './main.ts';
+import { datasetsCommand, useCommand } from './project-datasets.ts';
 import { importCommand } from './project-import.ts';
 import { formatTable } from './table.ts';
 import { type CliContext, DataError, UsageError } from './types.ts';
@@ -82,6 +83,8 @@ export const projectCommands: Record<string, ProjectCommand> = {
   },
 
   import: importCommand,
+  datasets: datasetsCommand,
+  use: useCommand,
 
   async verify(args, ctx) {
     const values = parseStrict(args, { json: { type: 'boolean' } }, 1);

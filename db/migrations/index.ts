@@ -2,10 +2,17 @@ import { migration0001 } from './0001-core.ts';
 import { migration0002 } from './0002-item-pool.ts';
 import { migration0003 } from './0003-datasets.ts';
 import { migration0004 } from './0004-purification.ts';
+import { migration0005 } from './0005-dataset-choice.ts';
 import type { Migration } from './types.ts';
 
 /** Every migration, in order. A new one is a new numbered file appended here (see DEVELOPERS.md). */
-export const MIGRATIONS: readonly Migration[] = [migration0001, migration0002, migration0003, migration0004];
+export const MIGRATIONS: readonly Migration[] = [
+  migration0001,
+  migration0002,
+  migration0003,
+  migration0004,
+  migration0005,
+];
 
 for (let i = 0; i < MIGRATIONS.length; i++) {
   if (MIGRATIONS[i].version !== i + 1) {

@@ -1,6 +1,7 @@
 import path from 'node:path';
 import Database from 'better-sqlite3';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
+import { LATEST_VERSION } from '../../../db/migrations/index.ts';
 import { APPLICATION_ID } from '../../../db/study-file.ts';
 import { migrate, Study } from '../../../db/study.ts';
 import { TEST_ACTOR, tempDir } from '../../helpers/tmp.ts';
@@ -38,7 +39,7 @@ describe('migration 4: purification rounds and decisions', () => {
     buildVersion3(file);
     const study = Study.open(file, { actor: TEST_ACTOR, app: 'test' });
     try {
-      expect(study.version).toBe(4);
+      expect(study.version).toBe(LATEST_VERSION);
       expect(study.db.prepare('SELECT code FROM item').pluck().all()).toEqual(['TR1']);
       const tables = study.db
         .prepare("SELECT name, sql FROM sqlite_master WHERE type = 'table' AND name LIKE 'purification_%'")

@@ -188,7 +188,13 @@ describe('the broken-file corpus through the study import path', () => {
           reading: { delimiter: parse.delimiter, encoding: parse.encoding },
         });
         const result = await readDataFile({ ...read, maxBytes: parse.maxBytes });
-        outcome = { id: storeImport(study, plan, result, entry.bytes, { acceptProblems: false }) };
+        outcome = {
+          // Stored beside the others, not current: one log row per import.
+          id: storeImport(study, plan, result, entry.bytes, {
+            acceptProblems: false,
+            current: { makeCurrent: false },
+          }),
+        };
       } catch (error) {
         outcome = { error: error as Error };
       }
