@@ -36,6 +36,7 @@ export const COMMON_STATS_OPTIONS: NonNullable<ParseArgsConfig['options']> = {
   max: { type: 'string' },
   missing: { type: 'string' },
   'missing-codes': { type: 'string' },
+  'decimal-mark': { type: 'string' },
   seed: { type: 'string' },
   json: { type: 'boolean' },
 };

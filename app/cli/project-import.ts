@@ -3,7 +3,7 @@ import { z } from 'zod';
 import { StudyFileError } from '../../db/errors.ts';
 import { checkWritable, Study } from '../../db/study.ts';
 import type { ColumnMapping, ColumnRole } from '../import/mapping.ts';
-import { type MissingCodes, parseNumber } from '../import/numbers.ts';
+import { type DecimalMark, type MissingCodes, parseNumber } from '../import/numbers.ts';
 import { TableError } from '../import/table-error.ts';
 import { currentActor } from '../launch/user-data.ts';
 import {
@@ -16,6 +16,7 @@ import {
   type ImportRequest,
   MAX_DATASET_NAME,
   planImport,
+  previewDataFile,
   respondentCount,
   storeImport,
 } from '../phases/pilot.ts';
@@ -231,19 +232,24 @@ export async function importCommand(args: string[], ctx: CliContext): Promise<nu
   const overrides: ColumnMapping = Object.fromEntries(
     Object.entries(map.columns ?? {}).map(([column, spec]) => [column, toRole(spec)]),
   );
-  const request = (study: Study): ImportRequest => ({
-    fileName,
-    role: role as (typeof DATASET_ROLES)[number],
-    name: map.name,
-    mapping: automaticMapping(study, overrides),
-    missingCodes: missingCodesOf(map.missing ?? []),
-    reading: {
-      ...(map.delimiter === undefined ? {} : { delimiter: map.delimiter }),
-      ...(map.encoding === undefined ? {} : { encoding: map.encoding }),
-      ...(map.decimalMark === undefined ? {} : { decimalMark: map.decimalMark }),
-      ...(map.sheet === undefined ? {} : { sheet: map.sheet }),
-    },
-  });
+  /** The map file's decimal mark, else the one the preview detects (set below, before any read). */
+  let detectedMark: DecimalMark | undefined;
+  const request = (study: Study): ImportRequest => {
+    const decimalMark = map.decimalMark ?? detectedMark;
+    return {
+      fileName,
+      role: role as (typeof DATASET_ROLES)[number],
+      name: map.name,
+      mapping: automaticMapping(study, overrides),
+      missingCodes: missingCodesOf(map.missing ?? []),
+      reading: {
+        ...(map.delimiter === undefined ? {} : { delimiter: map.delimiter }),
+        ...(map.encoding === undefined ? {} : { encoding: map.encoding }),
+        ...(decimalMark === undefined ? {} : { decimalMark }),
+        ...(map.sheet === undefined ? {} : { sheet: map.sheet }),
+      },
+    };
+  };
   const acceptProblems = map.acceptProblems === true;
   // Every read and check runs on the study opened read-only, so that a refused import leaves the
   // study file byte for byte as it was; only a valid import opens it for writing.
@@ -257,6 +263,16 @@ export async function importCommand(args: string[], ctx: CliContext): Promise<nu
   let result: ImportRead;
   let check: ImportCheck;
   try {
+    // The decimal mark as the import screen's preview detects it, so both read a file the same way.
+    if (map.decimalMark === undefined) {
+      try {
+        detectedMark = (await previewDataFile(checking, bytes, fileName, request(checking).reading))
+          .decimalMark;
+      } catch (error) {
+        if (error instanceof RuleError && error.code === 'file') throw new DataError(error.message);
+        throw error;
+      }
+    }
     const { plan, read } = planImport(checking, bytes, request(checking));
     try {
       result = await readDataFile(read);

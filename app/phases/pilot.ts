@@ -27,15 +27,16 @@ import {
   type ScreeningResult,
   screenRespondents,
 } from '../engine/screening.ts';
-import type { ImportProblem } from '../import/dataset.ts';
+import { chooseDecimalMark, type ImportProblem } from '../import/dataset.ts';
 import { delimiterName } from '../import/detect-format.ts';
+import { DECIMAL_MARK_ROWS } from '../import/limits.ts';
 import {
   type ColumnMapping,
   type ColumnRole,
   type ProposedMapping,
   proposeMapping,
 } from '../import/mapping.ts';
-import { type DecimalMark, detectDecimalMark, type MissingCodes, parseNumber } from '../import/numbers.ts';
+import { type DecimalMark, type MissingCodes, parseNumber } from '../import/numbers.ts';
 import type { ParsedTable } from '../import/parse-table.ts';
 import { previewTable } from '../import/preview.ts';
 import { TableError } from '../import/table-error.ts';
@@ -69,7 +70,7 @@ export const MAX_UPLOAD_BYTES = 128 * 1024 * 1024;
 export const PREVIEW_SHOWN_ROWS = 20;
 
 /** Rows of the file's start looked at for likely missing-value codes. */
-export const SUGGESTION_ROWS = 500;
+export const SUGGESTION_ROWS = DECIMAL_MARK_ROWS;
 
 /** Most suggested missing-value codes shown. */
 const MAX_SUGGESTIONS = 8;
@@ -259,9 +260,10 @@ export async function previewDataFile(
     ['item', 'criterion', 'duration'].includes(proposal.mapping[h]?.role ?? '') ? [i] : [],
   );
   const columns = numeric.length > 0 ? numeric : table.header.map((_, i) => i);
-  const mark =
-    reading.decimalMark ??
-    detectDecimalMark(table.rows.flatMap((row) => columns.map((c) => row[c] ?? ''))).mark;
+  // The same rule, over the same rows, as the read of the whole file (chooseDecimalMark); the check
+  // step and the command line then read with the mark shown here.
+  const warnings = [...table.warnings];
+  const mark = chooseDecimalMark(table.rows, columns, reading.decimalMark, warnings);
   const bounds = declaredBounds(study);
   const quoteChar = start.kind === 'workbook' ? '' : (table.quoteChar ?? '"');
   return {
@@ -278,7 +280,7 @@ export async function previewDataFile(
     rows: table.rows.slice(0, PREVIEW_SHOWN_ROWS),
     rowNumbers: (table.rowNumbers ?? table.rows.map((_, i) => i + 2)).slice(0, PREVIEW_SHOWN_ROWS),
     truncated: start.truncated,
-    warnings: table.warnings,
+    warnings,
     proposal,
     suggestedMissing: suggestMissing(table, proposal.mapping, mark, bounds),
     bounds,

@@ -68,7 +68,7 @@ test('imports the demo pilot file through the wizard, screens it and excludes th
   await expect(missing.locator('.suggestions')).toContainText('-9');
   await page.getByRole('button', { name: 'Read the whole file' }).click();
   const check = page.getByTestId('import-check');
-  await expect(check.getByTestId('check-respondents')).toHaveText('480 respondents');
+  await expect(check.getByTestId('check-respondents')).toHaveText('480 respondents', { timeout: 60_000 });
   await expect(check.locator('.problem-head')).toContainText('cells need a look');
   await expect(check.locator('.problem-table tbody tr').first()).toContainText(
     'value -9 is outside the declared scale 1 to 5',
@@ -81,7 +81,7 @@ test('imports the demo pilot file through the wizard, screens it and excludes th
 
   // Step 5: the whole file read in a worker; no problems now.
   await page.getByRole('button', { name: 'Read the whole file' }).click();
-  await expect(check.getByTestId('check-respondents')).toHaveText('480 respondents');
+  await expect(check.getByTestId('check-respondents')).toHaveText('480 respondents', { timeout: 60_000 });
   await expect(check.getByTestId('no-problems')).toBeVisible();
   await expect(check).toContainText('This very file (same SHA-256) is already in the study');
   await page.screenshot({ path: path.join(SCREENSHOTS, 'pilot-wizard-check.png'), fullPage: true });

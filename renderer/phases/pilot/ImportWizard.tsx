@@ -137,7 +137,8 @@ export function ImportWizard(props: {
         role,
         mapping,
         missingCodes: missing,
-        reading,
+        // The decimal mark shown in the preview (detected or chosen) is the one the whole file is read with.
+        reading: { ...reading, decimalMark: reading.decimalMark ?? preview.decimalMark },
       });
       setTaskId(started.taskId);
       setStep('check');

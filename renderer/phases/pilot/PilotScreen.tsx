@@ -10,6 +10,20 @@ import { MissingPanel } from './MissingPanel.tsx';
 import { ScreeningPanel } from './ScreeningPanel.tsx';
 import './pilot.css';
 
+function shortDate(iso: string): string {
+  return new Date(iso).toLocaleDateString(undefined, { year: 'numeric', month: 'short', day: 'numeric' });
+}
+
+/** Why a dataset is current or not, from the choice that last named it. */
+function standingText(d: DatasetListEntry): string {
+  const c = d.standing.choice;
+  if (!c) return 'Never made current.';
+  const when = `${shortDate(c.decidedAt)}, ${c.decidedBy}`;
+  if (d.current) return `Since ${when}: ${c.reason}`;
+  if (c.withdrawn) return `Withdrawn ${when}: ${c.reason}`;
+  return `Current from ${when}, until another dataset was made current.`;
+}
+
 /**
  * Make current or withdraw, with the reason the log needs. The reason stays in the box until the
  * change is stored, so a refused change loses nothing typed.
@@ -74,7 +88,6 @@ function DatasetTable(props: {
             <th>Dataset</th>
             <th>Respondents</th>
             <th>Used by analyses</th>
-            <th>Imported</th>
             <th>Screening</th>
           </tr>
         </thead>
@@ -96,6 +109,9 @@ function DatasetTable(props: {
                 <div className="muted small-text">
                   {d.fileName} · {formatBytes(d.fileSize)} · {plural(d.items, 'item')}
                 </div>
+                <div className="muted small-text" title={formatTime(d.importedAt)}>
+                  imported {shortDate(d.importedAt)} by {d.importedBy}
+                </div>
                 <div className="dataset-badges">
                   <span className={`badge role-${d.role}`}>{d.roleLabel}</span>
                   {d.id === props.selected && <span className="badge shown">shown below</span>}
@@ -111,21 +127,8 @@ function DatasetTable(props: {
                 ) : (
                   <span className="badge not-current">not current</span>
                 )}
-                <div className="muted small-text standing-why">
-                  {d.standing.text}
-                  {d.standing.choice && ` (${d.standing.choice.decidedBy})`}
-                </div>
+                <div className="muted small-text standing-why">{standingText(d)}</div>
                 <ChoiceAction dataset={d} locked={props.locked(d)} />
-              </td>
-              <td>
-                <span className="nowrap" title={formatTime(d.importedAt)}>
-                  {new Date(d.importedAt).toLocaleDateString(undefined, {
-                    year: 'numeric',
-                    month: 'short',
-                    day: 'numeric',
-                  })}
-                </span>
-                <div className="muted small-text">{d.importedBy}</div>
               </td>
               <td>
                 {d.screening ? (
