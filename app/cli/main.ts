@@ -26,6 +26,9 @@ const USAGE = `usage: scalewright <command> [options]
   project status FILE [--json]             phases, states, counts, open gates
   project import FILE --data CSV --role pilot|validation|retest [--map map.json]
                                            import a data file into the study
+  project datasets FILE [--json]           datasets, their rows and SHA-256, the current one of each role
+  project use FILE --dataset N --reason TEXT
+                                           make a dataset current for its role (a logged decision)
   project verify FILE [--head SEQ:HASH]    check the file, its log, stored files, runs and content;
                                            with --head, that the log still holds that row
 
@@ -40,6 +43,7 @@ export const COMMON_STATS_OPTIONS: NonNullable<ParseArgsConfig['options']> = {
   max: { type: 'string' },
   missing: { type: 'string' },
   'missing-codes': { type: 'string' },
+  'decimal-mark': { type: 'string' },
   seed: { type: 'string' },
   json: { type: 'boolean' },
 };

@@ -3,7 +3,7 @@ import { z } from 'zod';
 import { StudyFileError } from '../../db/errors.ts';
 import { checkWritable, Study } from '../../db/study.ts';
 import type { ColumnMapping, ColumnRole } from '../import/mapping.ts';
-import { type MissingCodes, parseNumber } from '../import/numbers.ts';
+import { type DecimalMark, type MissingCodes, parseNumber } from '../import/numbers.ts';
 import { TableError } from '../import/table-error.ts';
 import { currentActor } from '../launch/user-data.ts';
 import {
@@ -12,13 +12,16 @@ import {
   checkRead,
   DATASET_ROLES,
   type ImportCheck,
+  importChoice,
   type ImportRequest,
   MAX_DATASET_NAME,
   planImport,
+  previewDataFile,
   respondentCount,
   storeImport,
 } from '../phases/pilot.ts';
 import { type ImportRead, readDataFile } from '../phases/pilot-read.ts';
+import { currentDataset } from '../phases/analysis-data.ts';
 import { RuleError } from '../phases/errors.ts';
 import { readUserFile } from './files.ts';
 import { parseStrict, resolveUserPath } from './main.ts';
@@ -42,7 +45,34 @@ import { type CliContext, DataError, UsageError } from './types.ts';
  *       "missing": [-9, "NA"],
  *       "delimiter": ";", "encoding": "windows-1252", "decimalMark": ",", "sheet": "Responses",
  *       "acceptProblems": false }
+ *
+ * Whether the new dataset becomes the current one of its role (the data analyses use): `--current
+ * yes|no`. Without it, an import into a role with no current dataset becomes current, and an import
+ * into a role that has one leaves that one current; the output says which happened and how to change
+ * it. Making it replace a current dataset needs `--reason TEXT` (logged with the choice).
  */
+
+export const IMPORT_HELP = `usage: scalewright project import FILE --data CSV --role pilot|validation|retest
+                                  [--map map.json] [--current yes|no] [--reason TEXT] [--json]
+
+Reads a data file (CSV, TSV or .xlsx) into the study: item columns matched to the item pool by
+code, id and duration columns by their usual names, the map file's settings on top. A file with
+problems (text in a numeric column, values outside the response format) is refused unless the
+map file says "acceptProblems": true.
+
+  --data FILE      the data file
+  --role ROLE      pilot, validation or retest
+  --map FILE       JSON with any of: name, columns, missing, delimiter, encoding,
+                   decimalMark ("." or ","), sheet, acceptProblems
+  --current yes|no whether the new dataset becomes the current one of its role (the data its
+                   analyses use). Default: yes when the role has no current dataset; otherwise
+                   no: the current one stays, and the output says how to switch with
+                   project use FILE --dataset N --reason TEXT
+  --reason TEXT    why the new dataset replaces the current one (needed with --current yes
+                   when the role already has a current dataset)
+  --json           one JSON object (current: whether it became current; currentDataset: the
+                   current dataset of its role after the import)
+  --help           this text`;
 
 const CLI_APP = 'the Scalewright command line';
 
@@ -157,12 +187,18 @@ function inspectForImport(studyPath: string, actor: ReturnType<typeof currentAct
  * data cannot be imported (with the reason, row and column), 2 for a usage mistake or a malformed map file.
  */
 export async function importCommand(args: string[], ctx: CliContext): Promise<number> {
+  if (args.includes('--help')) {
+    process.stdout.write(`${IMPORT_HELP}\n`);
+    return 0;
+  }
   const values = parseStrict(
     args,
     {
       data: { type: 'string' },
       role: { type: 'string' },
       map: { type: 'string' },
+      current: { type: 'string' },
+      reason: { type: 'string' },
       json: { type: 'boolean' },
     },
     1,
@@ -178,6 +214,14 @@ export async function importCommand(args: string[], ctx: CliContext): Promise<nu
       `project import needs --role pilot, validation or retest${role === undefined ? '' : ` (got "${role}")`}`,
     );
   }
+  const currentRaw = option(values, 'current');
+  if (currentRaw !== undefined && currentRaw !== 'yes' && currentRaw !== 'no') {
+    throw new UsageError(`--current must be yes or no (got "${currentRaw}")`);
+  }
+  const reason = option(values, 'reason');
+  if (reason !== undefined && currentRaw !== 'yes') {
+    throw new UsageError('--reason goes with --current yes: it says why the new dataset becomes current');
+  }
   const mapPath = option(values, 'map');
   const map: MapFile = mapPath === undefined ? {} : await readMap(mapPath, ctx);
   const dataPath = resolveUserPath(data, ctx);
@@ -188,19 +232,24 @@ export async function importCommand(args: string[], ctx: CliContext): Promise<nu
   const overrides: ColumnMapping = Object.fromEntries(
     Object.entries(map.columns ?? {}).map(([column, spec]) => [column, toRole(spec)]),
   );
-  const request = (study: Study): ImportRequest => ({
-    fileName,
-    role: role as (typeof DATASET_ROLES)[number],
-    name: map.name,
-    mapping: automaticMapping(study, overrides),
-    missingCodes: missingCodesOf(map.missing ?? []),
-    reading: {
-      ...(map.delimiter === undefined ? {} : { delimiter: map.delimiter }),
-      ...(map.encoding === undefined ? {} : { encoding: map.encoding }),
-      ...(map.decimalMark === undefined ? {} : { decimalMark: map.decimalMark }),
-      ...(map.sheet === undefined ? {} : { sheet: map.sheet }),
-    },
-  });
+  /** The map file's decimal mark, else the one the preview detects (set below, before any read). */
+  let detectedMark: DecimalMark | undefined;
+  const request = (study: Study): ImportRequest => {
+    const decimalMark = map.decimalMark ?? detectedMark;
+    return {
+      fileName,
+      role: role as (typeof DATASET_ROLES)[number],
+      name: map.name,
+      mapping: automaticMapping(study, overrides),
+      missingCodes: missingCodesOf(map.missing ?? []),
+      reading: {
+        ...(map.delimiter === undefined ? {} : { delimiter: map.delimiter }),
+        ...(map.encoding === undefined ? {} : { encoding: map.encoding }),
+        ...(decimalMark === undefined ? {} : { decimalMark }),
+        ...(map.sheet === undefined ? {} : { sheet: map.sheet }),
+      },
+    };
+  };
   const acceptProblems = map.acceptProblems === true;
   // Every read and check runs on the study opened read-only, so that a refused import leaves the
   // study file byte for byte as it was; only a valid import opens it for writing.
@@ -214,6 +263,16 @@ export async function importCommand(args: string[], ctx: CliContext): Promise<nu
   let result: ImportRead;
   let check: ImportCheck;
   try {
+    // The decimal mark as the import screen's preview detects it, so both read a file the same way.
+    if (map.decimalMark === undefined) {
+      try {
+        detectedMark = (await previewDataFile(checking, bytes, fileName, request(checking).reading))
+          .decimalMark;
+      } catch (error) {
+        if (error instanceof RuleError && error.code === 'file') throw new DataError(error.message);
+        throw error;
+      }
+    }
     const { plan, read } = planImport(checking, bytes, request(checking));
     try {
       result = await readDataFile(read);
@@ -222,6 +281,12 @@ export async function importCommand(args: string[], ctx: CliContext): Promise<nu
       throw error;
     }
     check = checkRead(checking, plan, result);
+    const choice = importChoice(checking, plan.role);
+    if (currentRaw === 'yes' && choice.current && (reason ?? '').trim() === '') {
+      throw new UsageError(
+        `${choice.ifMadeCurrent}: give --reason TEXT saying why (or leave out --current to keep "${choice.current.name}")`,
+      );
+    }
     try {
       checkImportable(plan, result, bytes, { acceptProblems });
     } catch (error) {
@@ -239,8 +304,22 @@ export async function importCommand(args: string[], ctx: CliContext): Promise<nu
   try {
     // The plan again under the writer's lock: the phase may have been signed off meanwhile.
     const { plan } = planImport(study, bytes, request(study));
-    const datasetId = storeImport(study, plan, result, bytes, { acceptProblems });
+    const before = importChoice(study, plan.role);
+    const datasetId = storeImport(study, plan, result, bytes, {
+      acceptProblems,
+      ...(currentRaw === undefined
+        ? {}
+        : { current: { makeCurrent: currentRaw === 'yes', ...(reason === undefined ? {} : { reason }) } }),
+    });
+    const nowCurrent = currentDataset(study, plan.role);
+    const madeCurrent = nowCurrent?.id === datasetId;
+    const currentNote = madeCurrent
+      ? `dataset ${datasetId} is now the current ${plan.role} data${before.current ? ` (replacing dataset ${before.current.id} "${before.current.name}")` : ''}`
+      : nowCurrent
+        ? `dataset ${nowCurrent.id} "${nowCurrent.name}" stays the current ${plan.role} data; to use the new one: project use ${studyFile} --dataset ${datasetId} --reason TEXT`
+        : `no ${plan.role} data is current; to use the new one: project use ${studyFile} --dataset ${datasetId} --reason TEXT`;
     const warnings = [
+      ...(madeCurrent ? [] : [currentNote]),
       ...check.warnings,
       ...check.problems.map((p) => p.message),
       ...(check.poolItemsWithoutColumn.length > 0
@@ -270,6 +349,8 @@ export async function importCommand(args: string[], ctx: CliContext): Promise<nu
       bounds: check.bounds,
       problemCount: check.problemCount,
       problems: check.problems,
+      current: madeCurrent,
+      currentDataset: nowCurrent ? { id: nowCurrent.id, name: nowCurrent.name } : null,
       logRows: study.log.count(),
       warnings,
     };
@@ -279,6 +360,7 @@ export async function importCommand(args: string[], ctx: CliContext): Promise<nu
       const codes = ['blank', ...check.missingCodes.numeric.map(String), ...check.missingCodes.text];
       const lines = [
         `imported ${check.role} data "${check.name}" into ${study.path} as dataset ${datasetId}`,
+        currentNote,
         `file: ${check.fileName}, ${check.byteLength} bytes, SHA-256 ${check.sha256}`,
         `read as: ${check.kind === 'workbook' ? `sheet "${check.sheet}"` : `${check.encoding}, ${check.delimiterName}-separated`}, decimal ${check.decimalMark === '.' ? 'point' : 'comma'}`,
         `${respondentCount(check.respondents, 0)}; columns: ${describeColumns(check)}`,

@@ -4,6 +4,7 @@ import { Study } from '../../db/study.ts';
 import { type BreakCheck, breakPlace, parseHead, verifyStudy } from '../../db/verify.ts';
 import { studyOverview } from '../phases/index.ts';
 import { parseStrict, resolveUserPath } from './main.ts';
+import { datasetsCommand, useCommand } from './project-datasets.ts';
 import { importCommand } from './project-import.ts';
 import { formatTable } from './table.ts';
 import { type CliContext, DataError, UsageError } from './types.ts';
@@ -86,6 +87,8 @@ export const projectCommands: Record<string, ProjectCommand> = {
   },
 
   import: importCommand,
+  datasets: datasetsCommand,
+  use: useCommand,
 
   async verify(args, ctx) {
     const values = parseStrict(args, { json: { type: 'boolean' }, head: { type: 'string' } }, 1);

@@ -12,6 +12,7 @@ import {
   outOfRangeMessage,
   precisionWarning,
 } from './numbers.ts';
+import { DECIMAL_MARK_ROWS } from './limits.ts';
 import type { ParsedTable } from './parse-table.ts';
 import { TableError } from './table-error.ts';
 
@@ -31,6 +32,11 @@ export interface DatasetOptions {
   /** Declared bounds of the item response format; values outside are listed, never clipped. */
   scaleMin?: number;
   scaleMax?: number;
+  /**
+   * The response format's values are the whole numbers from scaleMin to scaleMax (a rating scale of
+   * points): an item answer between them (4.5 on a 1–5 format) is listed as a problem, kept as is.
+   */
+  wholePoints?: boolean;
   /** Decimal mark; detected from the numeric columns when absent. */
   decimalMark?: DecimalMark;
   /** Problems listed one by one (default DEFAULT_MAX_PROBLEMS). */
@@ -172,6 +178,7 @@ export class DatasetAssembler {
   /** Per slot, the empty cells of the current batch (missing, taken on the fast path). */
   private readonly emptyCells: Int32Array;
   private readonly bounds?: { min: number; max: number };
+  private readonly wholePoints: boolean;
   private readonly maxProblems: number;
   private readonly missingCodes: MissingCodes;
   private readonly ids: string[] = [];
@@ -197,6 +204,7 @@ export class DatasetAssembler {
     this.missingCodes = options.missingCodes ?? NO_MISSING_CODES;
     this.reader = new CellReader(this.missingCodes, decimalMark);
     this.bounds = checkScaleBounds(options.scaleMin, options.scaleMax);
+    this.wholePoints = options.wholePoints === true && this.bounds !== undefined;
     this.maxProblems = options.maxProblems ?? DEFAULT_MAX_PROBLEMS;
     const slot = (column: number, role: NumericRole, itemCode?: string): NumericSlot => ({
       column,
@@ -297,6 +305,12 @@ export class DatasetAssembler {
         rowNumber,
         slot.column,
         `value ${String(value)} is outside the declared scale ${this.bounds.min} to ${this.bounds.max} (kept as is, not clipped)`,
+      );
+    } else if (slot.bounded && this.wholePoints && !Number.isInteger(value)) {
+      this.note(
+        rowNumber,
+        slot.column,
+        `value ${String(value)} is not one of the response format's points (whole numbers ${this.bounds?.min} to ${this.bounds?.max}); kept as is`,
       );
     } else if (slot.role === 'duration' && value < 0) {
       this.note(rowNumber, slot.column, `the duration ${String(value)} is negative`);
@@ -564,7 +578,10 @@ export function numericColumns(header: readonly string[], mapping: ColumnMapping
 
 /**
  * Chooses the decimal mark for a table: the given one, else the one detectDecimalMark finds in the
- * numeric columns of `records`. Adds a warning when both marks occur.
+ * numeric columns of the first DECIMAL_MARK_ROWS of `records` (the same rows for every reader, so a
+ * preview of the file's start and a read of the whole file agree). Adds a warning when both marks
+ * occur there; cells written with the other mark are then problems named by row and column.
+ * Cost O(DECIMAL_MARK_ROWS × columns).
  */
 export function chooseDecimalMark(
   records: readonly (readonly string[])[],
@@ -574,7 +591,7 @@ export function chooseDecimalMark(
 ): DecimalMark {
   if (given) return given;
   const cells: string[] = [];
-  for (const record of records) {
+  for (const record of records.slice(0, DECIMAL_MARK_ROWS)) {
     for (const c of columns) {
       const cell = record[c];
       if (cell !== undefined && cell.length >= 3) cells.push(cell);

@@ -31,5 +31,12 @@ export const BINARY_CONTROL_SHARE = 0.01;
 /** Records looked at when guessing the delimiter and the quote character. */
 export const SNIFF_RECORDS = 50;
 
+/**
+ * Data rows whose numeric cells decide the decimal mark of a file (chooseDecimalMark). Every reading
+ * of a file (the import preview, the check of the whole file, the command line's import and its
+ * `stats` analyses) looks at the same rows, so they all read the file the same way.
+ */
+export const DECIMAL_MARK_ROWS = 500;
+
 /** Row numbers listed in one warning before the rest are summarised as a count. */
 export const MAX_LISTED_ROWS = 10;

@@ -22,29 +22,33 @@ export type ColumnMapping = Record<string, ColumnRole>;
 /** Roles a dataset may give to one column only. */
 const SINGLE_ROLES: RoleName[] = ['id', 'retestLink', 'duration'];
 
-/** Header names read as a respondent id unless the researcher says otherwise (compared folded). */
-const ID_HEADERS = [
-  'id',
-  'respondent',
-  'respondent_id',
-  'respondentid',
-  'participant',
-  'participant_id',
-  'case',
-];
+/**
+ * Headers proposed as the respondent id, after `words` (lower case, every run of other characters one
+ * underscore): "ID", "respondent_id", "Respondent ID", "participant no.", "Case number", "resp_id",
+ * "subject_id", "pid". The researcher confirms or changes every proposal.
+ */
+const ID_HEADER =
+  /^(?:(?:respondent|participant|case)(?:_?(?:id|no|nr|num|number|code))?|(?:subject|person|resp|part|record|response)_?(?:id|no|nr|num|number|code)|id|p_?id|r_?id|uid|id_?code)$/;
 
-/** Header names read as the response duration unless the researcher says otherwise (compared folded). */
-const DURATION_HEADERS = [
-  'duration',
-  'duration_s',
-  'duration_sec',
-  'duration_seconds',
-  'seconds',
-  'time_taken',
-];
+/**
+ * Headers proposed as the response duration, after `words`: "duration", "duration_s", "Duration
+ * (sec)", "time_taken", "Time taken (seconds)", "completion time", "response_time_ms", "seconds",
+ * "elapsed".
+ */
+const DURATION_HEADER =
+  /^(?:duration|time_taken|time_spent|total_time|response_time|completion_time|time_to_complete|elapsed(?:_time)?|seconds|secs|minutes|mins)(?:_(?:in_)?(?:s|sec|secs|seconds|ms|msec|milliseconds|m|min|mins|minutes))?$/;
 
 function fold(name: string): string {
   return name.trim().toLowerCase();
+}
+
+/** A header as words: lower case, each run of characters other than letters and digits one underscore. */
+function words(name: string): string {
+  return name
+    .trim()
+    .toLowerCase()
+    .replace(/[^\p{L}\p{N}]+/gu, '_')
+    .replace(/^_+|_+$/g, '');
 }
 
 export interface ProposedMapping {
@@ -53,13 +57,17 @@ export interface ProposedMapping {
   unmatchedItems: string[];
   /** Columns left ignored because nothing matched them. */
   unmatchedColumns: string[];
+  /** Why each guessed role was proposed, by header ("its header is item code TR01"), for the researcher to confirm. */
+  reasons: Record<string, string>;
   warnings: string[];
 }
 
 /**
  * Proposes a mapping for the researcher to confirm: a column whose header equals an item code
- * (trimmed, letter case ignored) becomes that item; "id"-like and "duration"-like headers take those
- * roles; `overrides` (by header) win over every guess. Nothing else is guessed. Cost O(columns + items).
+ * (trimmed, letter case ignored) becomes that item; the first header that names a respondent id and
+ * the first that names a response time (in their usual spellings: ID_HEADER, DURATION_HEADER) take
+ * those roles; `overrides` (by header) win over every guess. Nothing else is guessed; `reasons` says
+ * why each guess was made. Cost O(columns + items).
  * Throws TableError when an override names a column that is not in the header.
  */
 export function proposeMapping(
@@ -82,6 +90,7 @@ export function proposeMapping(
   const mapping: ColumnMapping = {};
   const matchedCodes = new Set<string>();
   const unmatchedColumns: string[] = [];
+  const reasons: Record<string, string> = {};
   const warnings: string[] = [];
   let idTaken = Object.values(overrides).some((r) => r.role === 'id');
   let durationTaken = Object.values(overrides).some((r) => r.role === 'duration');
@@ -96,22 +105,25 @@ export function proposeMapping(
     if (code !== undefined && !matchedCodes.has(code)) {
       mapping[name] = { role: 'item', itemCode: code };
       matchedCodes.add(code);
+      reasons[name] = `its header is item code ${code}`;
     } else if (code !== undefined) {
       mapping[name] = { role: 'ignored' };
       warnings.push(`column '${name}' also matches item ${code}, already mapped; left ignored`);
-    } else if (!idTaken && ID_HEADERS.includes(fold(name))) {
+    } else if (!idTaken && ID_HEADER.test(words(name))) {
       mapping[name] = { role: 'id' };
       idTaken = true;
-    } else if (!durationTaken && DURATION_HEADERS.includes(fold(name))) {
+      reasons[name] = 'its header names a respondent id';
+    } else if (!durationTaken && DURATION_HEADER.test(words(name))) {
       mapping[name] = { role: 'duration' };
       durationTaken = true;
+      reasons[name] = 'its header names a response time';
     } else {
       mapping[name] = { role: 'ignored' };
       unmatchedColumns.push(name);
     }
   }
   const unmatchedItems = itemCodes.filter((c) => !matchedCodes.has(c));
-  return { mapping, unmatchedItems, unmatchedColumns, warnings };
+  return { mapping, unmatchedItems, unmatchedColumns, reasons, warnings };
 }
 
 /** A mapping checked against a header: column indexes grouped by role. */

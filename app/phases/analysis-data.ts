@@ -1,9 +1,10 @@
 import { getConstruct } from '../../db/repos/construct.ts';
 import {
+  currentDatasetChoice,
+  type DatasetRole,
   type DatasetSummary,
   currentExclusions,
   getDatasetSummary,
-  listDatasets,
   loadEncodedDataset,
 } from '../../db/repos/datasets.ts';
 import type { Study } from '../../db/study.ts';
@@ -73,9 +74,19 @@ export function analysisData(study: Study, datasetId: number, itemCodes: string[
   };
 }
 
-/** The pilot data analyses use: the latest dataset imported with the role "pilot". */
+/**
+ * The dataset of a role that analyses use: the one the latest logged choice of that role made
+ * current, or none (no choice yet, or the current one withdrawn). An import never changes it
+ * silently; see makeDatasetCurrent and withdrawDataset in pilot.ts.
+ */
+export function currentDataset(study: Study, role: DatasetRole): DatasetSummary | undefined {
+  const choice = currentDatasetChoice(study, role);
+  return choice?.datasetId == null ? undefined : getDatasetSummary(study, choice.datasetId);
+}
+
+/** The pilot data analyses use (see currentDataset). */
 export function currentPilotDataset(study: Study): DatasetSummary | undefined {
-  return listDatasets(study, 'pilot').at(-1);
+  return currentDataset(study, 'pilot');
 }
 
 /** The response format's declared bounds (never the observed ones): reverse scores and range checks use them. */

@@ -99,6 +99,8 @@ function datasetOptions(request: ReadRequest): DatasetOptions {
     missingCodes: request.missingCodes,
     scaleMin: request.bounds.min,
     scaleMax: request.bounds.max,
+    // The study's response format is a scale of whole-number points (see declaredBounds).
+    wholePoints: true,
     decimalMark: request.reading.decimalMark,
   };
 }

@@ -1,12 +1,17 @@
 import { listRuns, type RunRecord } from '../../db/repos/analysis-runs.ts';
 import { getConstruct, listFacets } from '../../db/repos/construct.ts';
+import { listRounds } from '../../db/repos/purification.ts';
 import {
+  currentDatasetChoice,
   currentExclusions,
+  type DatasetChoice,
   type DatasetRole,
   type DatasetSummary,
   getDatasetSummary,
   insertDataset,
+  insertDatasetChoice,
   insertExclusions,
+  listDatasetChoices,
   listDatasets,
   listExclusionDecisions,
   loadEncodedDataset,
@@ -22,21 +27,22 @@ import {
   type ScreeningResult,
   screenRespondents,
 } from '../engine/screening.ts';
-import type { ImportProblem } from '../import/dataset.ts';
+import { chooseDecimalMark, type ImportProblem } from '../import/dataset.ts';
 import { delimiterName } from '../import/detect-format.ts';
+import { DECIMAL_MARK_ROWS } from '../import/limits.ts';
 import {
   type ColumnMapping,
   type ColumnRole,
   type ProposedMapping,
   proposeMapping,
 } from '../import/mapping.ts';
-import { type DecimalMark, detectDecimalMark, type MissingCodes, parseNumber } from '../import/numbers.ts';
+import { type DecimalMark, type MissingCodes, parseNumber } from '../import/numbers.ts';
 import type { ParsedTable } from '../import/parse-table.ts';
 import { previewTable } from '../import/preview.ts';
 import { TableError } from '../import/table-error.ts';
 import { readWorkbook } from '../import/workbook.ts';
 import { changeInPhase, recordRun } from './change.ts';
-import { currentPilotDataset, declaredBounds } from './analysis-data.ts';
+import { currentDataset, currentPilotDataset, declaredBounds } from './analysis-data.ts';
 import { RuleError } from './errors.ts';
 import {
   type DataFileKind,
@@ -64,7 +70,7 @@ export const MAX_UPLOAD_BYTES = 128 * 1024 * 1024;
 export const PREVIEW_SHOWN_ROWS = 20;
 
 /** Rows of the file's start looked at for likely missing-value codes. */
-export const SUGGESTION_ROWS = 500;
+export const SUGGESTION_ROWS = DECIMAL_MARK_ROWS;
 
 /** Most suggested missing-value codes shown. */
 const MAX_SUGGESTIONS = 8;
@@ -254,9 +260,10 @@ export async function previewDataFile(
     ['item', 'criterion', 'duration'].includes(proposal.mapping[h]?.role ?? '') ? [i] : [],
   );
   const columns = numeric.length > 0 ? numeric : table.header.map((_, i) => i);
-  const mark =
-    reading.decimalMark ??
-    detectDecimalMark(table.rows.flatMap((row) => columns.map((c) => row[c] ?? ''))).mark;
+  // The same rule, over the same rows, as the read of the whole file (chooseDecimalMark); the check
+  // step and the command line then read with the mark shown here.
+  const warnings = [...table.warnings];
+  const mark = chooseDecimalMark(table.rows, columns, reading.decimalMark, warnings);
   const bounds = declaredBounds(study);
   const quoteChar = start.kind === 'workbook' ? '' : (table.quoteChar ?? '"');
   return {
@@ -273,7 +280,7 @@ export async function previewDataFile(
     rows: table.rows.slice(0, PREVIEW_SHOWN_ROWS),
     rowNumbers: (table.rowNumbers ?? table.rows.map((_, i) => i + 2)).slice(0, PREVIEW_SHOWN_ROWS),
     truncated: start.truncated,
-    warnings: table.warnings,
+    warnings,
     proposal,
     suggestedMissing: suggestMissing(table, proposal.mapping, mark, bounds),
     bounds,
@@ -460,6 +467,8 @@ export interface ImportCheck {
   alreadyImported: { id: number; name: string; role: DatasetRole; importedAt: string }[];
   /** Items of the pool (not retired) that no column answers. */
   poolItemsWithoutColumn: string[];
+  /** What storing it would do to the current dataset of its role (see importChoice). */
+  currentChoice: ReturnType<typeof importChoice>;
 }
 
 /** What a read looks like to the researcher: counts, columns, problems by row and column. Cost O(columns + respondents). */
@@ -506,6 +515,7 @@ export function checkRead(study: Study, plan: ImportPlan, read: ImportRead): Imp
     poolItemsWithoutColumn: listItems(study)
       .filter((it) => it.state !== 'retired' && !mapped.has(it.code.toLowerCase()))
       .map((it) => it.code),
+    currentChoice: importChoice(study, plan.role),
   };
 }
 
@@ -548,68 +558,255 @@ export function storeImport(
   plan: ImportPlan,
   read: ImportRead,
   bytes: Uint8Array,
-  options: { acceptProblems: boolean },
+  options: { acceptProblems: boolean; current?: CurrentOnImport },
 ): number {
   checkImportable(plan, read, bytes, options);
+  const makeCurrent = resolveCurrentOnImport(study, plan.role, options.current);
   const mapping = poolMapping(study, read.mapping);
   const { dataset } = read;
   const byRole = (role: ColumnRole['role']) => Object.keys(mapping).filter((c) => mapping[c].role === role);
   const items = dataset.columns.filter((c) => c.role === 'item');
-  return changeInPhase(
-    study,
-    {
-      phase: plan.phase,
-      kind: 'dataset-imported',
-      target: `${ROLE_LABEL[plan.role]} "${plan.name}"`,
-      detail: {
-        role: plan.role,
-        name: plan.name,
-        fileName: plan.fileName,
-        sha256: read.sha256,
-        bytes: read.byteLength,
-        kind: read.kind,
-        sheet: read.sheet ?? null,
-        encoding: read.encoding,
-        delimiter: read.delimiter,
-        decimalMark: dataset.decimalMark,
-        respondents: dataset.n,
-        idColumn: dataset.idColumn ?? null,
-        items: items.map((c) => ({ column: c.name, item: c.itemCode })),
-        criteria: byRole('criterion'),
-        groups: byRole('group'),
-        retestLink: byRole('retestLink')[0] ?? null,
-        duration: byRole('duration')[0] ?? null,
-        attention: dataset.attention.map((a) => ({ column: a.name, correctAnswer: a.correctAnswer })),
-        ignored: read.header.filter((h) => (mapping[h]?.role ?? 'ignored') === 'ignored'),
-        missingCodes: plan.missingCodes,
-        bounds: plan.bounds,
-        problems: dataset.problemCount,
-        problemsAccepted: dataset.problemCount > 0,
-        warnings: dataset.warnings,
-      },
-    },
-    () =>
-      insertDataset(study, {
-        role: plan.role,
-        name: plan.name,
-        fileName: plan.fileName,
-        fileSha256: read.sha256,
-        fileBytes: bytes,
-        reading: {
+  const storeDataset = (): number =>
+    changeInPhase(
+      study,
+      {
+        phase: plan.phase,
+        kind: 'dataset-imported',
+        target: `${ROLE_LABEL[plan.role]} "${plan.name}"`,
+        detail: {
+          role: plan.role,
+          name: plan.name,
+          fileName: plan.fileName,
+          sha256: read.sha256,
+          bytes: read.byteLength,
           kind: read.kind,
+          sheet: read.sheet ?? null,
           encoding: read.encoding,
           delimiter: read.delimiter,
           decimalMark: dataset.decimalMark,
+          respondents: dataset.n,
+          idColumn: dataset.idColumn ?? null,
+          items: items.map((c) => ({ column: c.name, item: c.itemCode })),
+          criteria: byRole('criterion'),
+          groups: byRole('group'),
+          retestLink: byRole('retestLink')[0] ?? null,
+          duration: byRole('duration')[0] ?? null,
+          attention: dataset.attention.map((a) => ({ column: a.name, correctAnswer: a.correctAnswer })),
+          ignored: read.header.filter((h) => (mapping[h]?.role ?? 'ignored') === 'ignored'),
           missingCodes: plan.missingCodes,
-          scaleBounds: plan.bounds,
-          header: read.header,
-          ...(read.sheet === undefined ? {} : { sheet: read.sheet }),
-          ...(read.quoteChar === '' ? {} : { quoteChar: read.quoteChar }),
+          bounds: plan.bounds,
+          problems: dataset.problemCount,
+          problemsAccepted: dataset.problemCount > 0,
+          warnings: dataset.warnings,
         },
-        mapping,
-        dataset,
-      }),
+      },
+      () =>
+        insertDataset(study, {
+          role: plan.role,
+          name: plan.name,
+          fileName: plan.fileName,
+          fileSha256: read.sha256,
+          fileBytes: bytes,
+          reading: {
+            kind: read.kind,
+            encoding: read.encoding,
+            delimiter: read.delimiter,
+            decimalMark: dataset.decimalMark,
+            missingCodes: plan.missingCodes,
+            scaleBounds: plan.bounds,
+            header: read.header,
+            ...(read.sheet === undefined ? {} : { sheet: read.sheet }),
+            ...(read.quoteChar === '' ? {} : { quoteChar: read.quoteChar }),
+          },
+          mapping,
+          dataset,
+        }),
+    );
+  // The dataset and, when it becomes current, the logged choice: both stored or neither.
+  return study.db.transaction(() => {
+    const datasetId = storeDataset();
+    if (makeCurrent) recordChoice(study, plan.role, datasetId, makeCurrent.reason);
+    return datasetId;
+  })();
+}
+
+// ── The current dataset of each role ──────────────────────────────────────────────────────────
+
+/**
+ * Whether a new import becomes the current dataset of its role. Absent, the safe default applies: it
+ * becomes current only when its role has no current dataset, so an analysis never moves to other
+ * data without a logged choice.
+ */
+export interface CurrentOnImport {
+  makeCurrent: boolean;
+  /** Why; required when the import replaces a current dataset. */
+  reason?: string;
+}
+
+/** The reason recorded when a first import of a role becomes current by default. */
+function firstImportReason(role: DatasetRole): string {
+  return `made current on import: the study had no current ${ROLE_LABEL[role]}`;
+}
+
+function resolveCurrentOnImport(
+  study: Study,
+  role: DatasetRole,
+  given: CurrentOnImport | undefined,
+): { reason: string } | undefined {
+  const current = currentDataset(study, role);
+  const make = given?.makeCurrent ?? current === undefined;
+  if (!make) return undefined;
+  const reason = (given?.reason ?? '').trim();
+  if (reason.length > MAX_REASON) throw new RuleError(`a reason may have at most ${MAX_REASON} characters`);
+  if (current && reason === '') {
+    throw new RuleError(
+      `say why the new file replaces "${current.name}" as the current ${ROLE_LABEL[role]}; the reason goes into the decision log`,
+    );
+  }
+  return { reason: reason || firstImportReason(role) };
+}
+
+/** Purification rounds that ran on a dataset (only pilot data has rounds). */
+function roundsOn(study: Study, datasetId: number): number[] {
+  return listRounds(study)
+    .filter((r) => r.datasetId === datasetId)
+    .map((r) => r.number);
+}
+
+function roundList(numbers: number[]): string {
+  return numbers.length === 1 ? `round ${numbers[0]}` : `rounds ${list(numbers.map(String))}`;
+}
+
+/**
+ * What an import into a role does to the study's choice of data, in words the import screen and the
+ * command line show before and after: the current dataset (if any) and the rounds that ran on it.
+ */
+export function importChoice(study: Study, role: DatasetRole) {
+  const current = currentDataset(study, role);
+  const rounds = current ? roundsOn(study, current.id) : [];
+  return {
+    role,
+    current: current ? { id: current.id, name: current.name, respondents: current.respondents } : null,
+    roundsOnCurrent: rounds,
+    /** Without a choice, the import becomes current only when there is no current dataset. */
+    defaultMakeCurrent: current === undefined,
+    ifMadeCurrent: current
+      ? `the new file replaces "${current.name}" as the current ${ROLE_LABEL[role]}` +
+        (rounds.length > 0
+          ? `; ${roundList(rounds)} ran on "${current.name}" and will be marked out of date`
+          : '')
+      : `the new file becomes the current ${ROLE_LABEL[role]}`,
+    ifKept: current
+      ? `"${current.name}" stays the current ${ROLE_LABEL[role]}; the new file is stored beside it and can be made current later`
+      : `no ${ROLE_LABEL[role]} is current; the new file is stored and can be made current later`,
+  };
+}
+
+function recordChoice(study: Study, role: DatasetRole, datasetId: number | null, reason: string): void {
+  const before = currentDataset(study, role);
+  const chosen = datasetId === null ? undefined : requireDataset(study, datasetId);
+  const affected = before ? roundsOn(study, before.id) : [];
+  const made = chosen !== undefined;
+  const subject = made ? chosen : (before as DatasetSummary);
+  changeInPhase(
+    study,
+    {
+      phase: phaseOfRole(role),
+      kind: made ? 'dataset-made-current' : 'dataset-withdrawn',
+      target: `${ROLE_LABEL[role]} "${subject.name}"`,
+      rationale: reason,
+      detail: {
+        role,
+        datasetId: made ? chosen.id : null,
+        dataset: made ? chosen.name : null,
+        fileSha256: made ? chosen.fileSha256 : null,
+        previous: before ? { datasetId: before.id, dataset: before.name } : null,
+        roundsOnPrevious: affected,
+      },
+    },
+    () => insertDatasetChoice(study, { role, datasetId, reason }),
   );
+}
+
+/**
+ * Makes a dataset the one its role's analyses use, as a logged decision with the researcher's reason;
+ * rounds that ran on another dataset are then out of date (see roundSummaries). Reversible by a later
+ * choice. Cost O(rounds). Throws RuleError for an unknown dataset, a dataset already current, a blank
+ * or overlong reason, or a signed-off phase.
+ */
+export function makeDatasetCurrent(study: Study, datasetId: number, reason: string): DatasetChoice {
+  const summary = requireDataset(study, datasetId);
+  const why = checkReason(reason, `"${summary.name}" becomes the current ${ROLE_LABEL[summary.role]}`);
+  if (currentDataset(study, summary.role)?.id === datasetId) {
+    throw new RuleError(
+      `"${summary.name}" (dataset ${datasetId}) is already the current ${ROLE_LABEL[summary.role]}`,
+    );
+  }
+  recordChoice(study, summary.role, datasetId, why);
+  return currentDatasetChoice(study, summary.role) as DatasetChoice;
+}
+
+/**
+ * Withdraws the current dataset of its role: no dataset of that role is current until one is made
+ * current again (the withdrawn one included). A logged decision with the researcher's reason. Cost
+ * O(rounds). Throws RuleError for an unknown dataset, one that is not current, a blank or overlong
+ * reason, or a signed-off phase.
+ */
+export function withdrawDataset(study: Study, datasetId: number, reason: string): DatasetChoice {
+  const summary = requireDataset(study, datasetId);
+  const why = checkReason(reason, `"${summary.name}" is withdrawn`);
+  if (currentDataset(study, summary.role)?.id !== datasetId) {
+    throw new RuleError(
+      `"${summary.name}" (dataset ${datasetId}) is not the current ${ROLE_LABEL[summary.role]}; only the current dataset can be withdrawn`,
+    );
+  }
+  recordChoice(study, summary.role, null, why);
+  return currentDatasetChoice(study, summary.role) as DatasetChoice;
+}
+
+/** Why a dataset is (or is not) current: the latest choice that named it, in words. */
+export interface CurrentStanding {
+  current: boolean;
+  /** The choice that made it current, or withdrew it; null when no choice ever named it. */
+  choice: { reason: string; decidedAt: string; decidedBy: string; withdrawn: boolean } | null;
+  /** One line for lists: "current since … : reason" or "withdrawn …" or "not current". */
+  text: string;
+}
+
+function standings(study: Study): Map<number, CurrentStanding> {
+  const out = new Map<number, CurrentStanding>();
+  const choices = listDatasetChoices(study);
+  const byRole = new Map<DatasetRole, DatasetChoice>();
+  for (const c of choices) byRole.set(c.role, c);
+  // Walk every choice in order: a dataset's last "made current" and a withdrawal of it while current.
+  const holder = new Map<DatasetRole, number | null>();
+  const last = new Map<number, DatasetChoice & { withdrawn: boolean }>();
+  for (const c of choices) {
+    if (c.datasetId === null) {
+      const was = holder.get(c.role);
+      if (was != null) last.set(was, { ...c, withdrawn: true });
+    } else last.set(c.datasetId, { ...c, withdrawn: false });
+    holder.set(c.role, c.datasetId);
+  }
+  for (const d of listDatasets(study)) {
+    const current = byRole.get(d.role)?.datasetId === d.id;
+    const c = last.get(d.id);
+    const day = c ? c.decidedAt.slice(0, 10) : '';
+    out.set(d.id, {
+      current,
+      choice: c
+        ? { reason: c.reason, decidedAt: c.decidedAt, decidedBy: c.decidedBy, withdrawn: c.withdrawn }
+        : null,
+      text: current
+        ? `current since ${day}: ${c?.reason ?? ''}`
+        : c?.withdrawn
+          ? `withdrawn ${day}: ${c.reason}`
+          : c
+            ? `was current from ${day}; another dataset was made current since`
+            : 'never made current',
+    });
+  }
+  return out;
 }
 
 // ── Views ───────────────────────────────────────────────────────────────────────────────────────
@@ -633,8 +830,10 @@ export interface DatasetListEntry {
   delimiterName: string;
   decimalMark: string;
   missingCodes: MissingCodes;
-  /** True for the pilot dataset the next phases use (the most recent pilot import). */
+  /** True for the dataset of its role that analyses use (the latest logged choice). */
   current: boolean;
+  /** Why it is current or not: the choice that made it current or withdrew it. */
+  standing: CurrentStanding;
   screening: { runId: number; at: string; flagged: number } | null;
 }
 
@@ -644,7 +843,7 @@ function latestScreening(study: Study, datasetId: number): RunRecord | undefined
     .at(-1);
 }
 
-function listEntry(study: Study, d: DatasetSummary, currentId: number | undefined): DatasetListEntry {
+function listEntry(study: Study, d: DatasetSummary, standing: CurrentStanding): DatasetListEntry {
   const excluded = currentExclusions(study, d.id).size;
   const run = latestScreening(study, d.id);
   const mapping = d.mapping as ColumnMapping;
@@ -667,7 +866,8 @@ function listEntry(study: Study, d: DatasetSummary, currentId: number | undefine
     delimiterName: d.reading.delimiter === '' ? '' : delimiterName(d.reading.delimiter),
     decimalMark: d.reading.decimalMark,
     missingCodes: { text: codes?.text ?? [], numeric: codes?.numeric ?? [] },
-    current: d.id === currentId,
+    current: standing.current,
+    standing,
     screening: run
       ? { runId: run.id, at: run.createdAt, flagged: (run.results as ScreeningResult).flagged }
       : null,
@@ -679,9 +879,11 @@ export function pilotView(study: Study) {
   const construct = getConstruct(study);
   const facets = new Map(listFacets(study, { includeRetired: true }).map((f) => [f.id, f.name]));
   const current = currentPilotDataset(study);
+  const standing = standings(study);
   return {
-    datasets: listDatasets(study).map((d) => listEntry(study, d, current?.id)),
+    datasets: listDatasets(study).map((d) => listEntry(study, d, standing.get(d.id) as CurrentStanding)),
     currentPilotId: current?.id ?? null,
+    importChoices: DATASET_ROLES.map((role) => importChoice(study, role)),
     pool: listItems(study).map((it) => ({
       code: it.code,
       text: it.text,
@@ -749,9 +951,8 @@ export function datasetDetail(study: Study, datasetId: number) {
   const items = encoded.columns
     .filter((c) => c.role === 'item')
     .map((c) => ({ column: c.name, itemCode: c.itemCode ?? c.name, values: decodeColumn(c.encoded) }));
-  const current = currentPilotDataset(study);
   return {
-    ...listEntry(study, summary, current?.id),
+    ...listEntry(study, summary, standings(study).get(datasetId) as CurrentStanding),
     reading: summary.reading,
     mapping: summary.mapping as ColumnMapping,
     columns: encoded.columns.map((c) => ({
@@ -1097,7 +1298,7 @@ export const pilotRules: PhaseRules = {
   holds(study) {
     const all = listDatasets(study);
     const pilots = all.filter((d) => d.role === 'pilot');
-    const current = pilots.at(-1);
+    const current = currentPilotDataset(study);
     const out = [plural(pilots.length, 'pilot dataset')];
     if (current) out.push(respondentCount(current.respondents, currentExclusions(study, current.id).size));
     const retest = all.filter((d) => d.role === 'retest');
@@ -1122,7 +1323,9 @@ export const pilotRules: PhaseRules = {
         met: current !== undefined,
         detail: current
           ? `"${current.name}": ${respondentCount(current.respondents, exclusions.length)}`
-          : 'no pilot data yet',
+          : listDatasets(study, 'pilot').length > 0
+            ? 'no pilot dataset is current; make one current'
+            : 'no pilot data yet',
       },
       {
         id: 'mapped',

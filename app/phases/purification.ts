@@ -1,7 +1,12 @@
 import { canonicalJson } from '../../db/canonical-json.ts';
 import { getRun } from '../../db/repos/analysis-runs.ts';
 import { type FacetRecord, listFacets } from '../../db/repos/construct.ts';
-import { currentExclusions, type DatasetSummary, loadEncodedDataset } from '../../db/repos/datasets.ts';
+import {
+  currentDatasetChoice,
+  currentExclusions,
+  type DatasetSummary,
+  loadEncodedDataset,
+} from '../../db/repos/datasets.ts';
 import { getItemByCode, type ItemRecord, listItems } from '../../db/repos/items.ts';
 import { getPhaseStatus } from '../../db/repos/phase-state.ts';
 import {
@@ -554,6 +559,33 @@ export interface RoundSummary {
   returned: string[];
   /** Whether the round ran on the current pilot data with the current exclusions. */
   onCurrentData: boolean;
+  /** Why the round is out of date (null when it ran on the current data), in words. */
+  outOfDate: string | null;
+}
+
+/**
+ * Why a round no longer reflects the data analyses use: another dataset made current (or none), or
+ * the exclusions changed since. Null when the round ran on the current data.
+ */
+function outOfDateReason(
+  study: Study,
+  pilot: DatasetSummary | undefined,
+  excludedNow: number[],
+  inputs: StoredInputs,
+): string | null {
+  const ran = `"${inputs.dataset.name}" (dataset ${inputs.dataset.id})`;
+  if (!pilot) {
+    const choice = currentDatasetChoice(study, 'pilot');
+    return `ran on ${ran}; no pilot dataset is current now${choice ? ` (withdrawn ${choice.decidedAt.slice(0, 10)}: ${choice.reason})` : ''}`;
+  }
+  if (pilot.id !== inputs.dataset.id || pilot.fileSha256 !== inputs.dataset.fileSha256) {
+    const choice = currentDatasetChoice(study, 'pilot');
+    return `ran on ${ran}; the current pilot data is now "${pilot.name}" (dataset ${pilot.id})${choice ? `, chosen ${choice.decidedAt.slice(0, 10)}: ${choice.reason}` : ''}`;
+  }
+  if (canonicalJson(excludedNow) !== canonicalJson(inputs.dataset.excludedRespondents)) {
+    return `the exclusions from "${pilot.name}" changed after this round (${inputs.dataset.excluded} then, ${excludedNow.length} now)`;
+  }
+  return null;
 }
 
 interface StoredInputs {
@@ -613,12 +645,10 @@ export function roundSummaries(study: Study): RoundSummary[] {
       sem: scale.measurementError?.sem ?? null,
       left: before.filter((c) => !codes.includes(c)),
       returned: before.length === 0 ? [] : codes.filter((c) => !before.includes(c)),
-      onCurrentData:
-        pilot !== undefined &&
-        pilot.id === inputs.dataset.id &&
-        pilot.fileSha256 === inputs.dataset.fileSha256 &&
-        canonicalJson(excludedNow) === canonicalJson(inputs.dataset.excludedRespondents),
+      onCurrentData: false,
+      outOfDate: outOfDateReason(study, pilot, excludedNow, inputs),
     };
+    summary.onCurrentData = summary.outOfDate === null;
     before = codes;
     return summary;
   });
@@ -1073,7 +1103,7 @@ function checklist(study: Study): ChecklistItem[] {
         ? 'no round yet'
         : last.onCurrentData
           ? `round ${last.number} on "${last.datasetName}": ${last.n} respondents analysed after ${plural(last.excluded, 'exclusion')}`
-          : `round ${last.number} ran before the pilot data or its exclusions changed: run a new round`,
+          : `round ${last.number} is out of date: ${last.outOfDate}; run a new round`,
   });
 
   const lastRound = listRounds(study).at(-1);

@@ -378,6 +378,12 @@ export interface RatingsPreview {
   /** Ratings the file holds (rows with a problem left out). */
   ratingCount: number;
   experts: { code: string; onPanel: boolean; ratings: number }[];
+  /**
+   * Expert codes of the file that are not on the round's panel: each must be confirmed before the
+   * file is imported (a typo must not create an expert), with where it first occurs and the panel
+   * code it may have been meant as.
+   */
+  unknownExperts: UnknownExpert[];
   itemCount: number;
   hasEssential: boolean;
   hasFacet: boolean;
@@ -394,6 +400,33 @@ export interface RatingsPreview {
   }[];
   problems: FileProblem[];
   warnings: string[];
+}
+
+export interface UnknownExpert {
+  code: string;
+  ratings: number;
+  /** First occurrence in the file (header = row 1) and its column. */
+  row: number;
+  column: string;
+  /** A panel code one letter away (a likely typo), if any. */
+  closest: string | null;
+  /** "row 5, column 'expert': expert code 'E9' is not on the panel …" */
+  text: string;
+}
+
+/** Edit distance between two short codes, compared without letter case. Cost O(|a|·|b|). */
+function editDistance(a: string, b: string): number {
+  const x = a.toLowerCase();
+  const y = b.toLowerCase();
+  let previous = Array.from({ length: y.length + 1 }, (_, j) => j);
+  for (let i = 1; i <= x.length; i++) {
+    const row = [i];
+    for (let j = 1; j <= y.length; j++) {
+      row[j] = Math.min(previous[j] + 1, row[j - 1] + 1, previous[j - 1] + (x[i - 1] === y[j - 1] ? 0 : 1));
+    }
+    previous = row;
+  }
+  return previous[y.length];
 }
 
 interface ParsedRatingsFile {
@@ -418,6 +451,7 @@ function parseRatingsFile(
     header: [],
     ratingCount: 0,
     experts: [],
+    unknownExperts: [],
     itemCount: 0,
     hasEssential: false,
     hasFacet: false,
@@ -603,12 +637,25 @@ function parseRatingsFile(
     entry.ratings++;
     expertCounts.set(r.expertCode.toLowerCase(), entry);
   }
-  const newExperts = [...expertCounts.values()].filter((e) => !e.onPanel).map((e) => e.code);
-  if (newExperts.length > 0 && problems.length === 0) {
-    warnings.push(
-      `${countWord(newExperts.length, 'expert')} not yet on the panel will be added: ${newExperts.join(', ')} (give roles in the panel afterwards)`,
-    );
-  }
+  const unknownExperts: UnknownExpert[] = [...expertCounts.values()]
+    .filter((e) => !e.onPanel)
+    .map((e) => {
+      const first = ratings.find((r) => r.expertCode.toLowerCase() === e.code.toLowerCase()) as ParsedRating;
+      const column = expertColumn(e.code);
+      const closest = ctx.experts.find((p) => editDistance(p.code, e.code) <= 1)?.code ?? null;
+      const message =
+        `expert code '${e.code}' (${countWord(e.ratings, 'rating')}) is not on the panel of round ${ctx.round.number}` +
+        (closest ? ` (did you mean ${closest}?)` : '') +
+        '; correct the file, or confirm adding the expert to the panel';
+      return {
+        code: e.code,
+        ratings: e.ratings,
+        row: first.row,
+        column,
+        closest,
+        text: describeProblem({ row: first.row, column, message }, header),
+      };
+    });
   const ratedItems = new Set(ratings.map((r) => r.itemId));
   const ratedBefore = new Set(stored.map((r) => r.itemId));
   const unrated = ctx.roundItems.filter((it) => !ratedItems.has(it.id) && !ratedBefore.has(it.id));
@@ -628,6 +675,7 @@ function parseRatingsFile(
       header,
       ratingCount: ratings.length,
       experts: [...expertCounts.values()],
+      unknownExperts,
       itemCount: ratedItems.size,
       hasEssential: file.hasEssential,
       hasFacet: file.hasFacet,
@@ -746,19 +794,28 @@ function storeRun(
 
 /**
  * Imports a ratings file into a round after reading it again: any problem refuses the whole file
- * and nothing is written. Experts not yet on the panel are added; the revision each item was rated
- * in is fixed; the content-validity statistics are stored as an analysis run that the log row names.
+ * and nothing is written. An expert code that is not on the round's panel is refused too (code
+ * "unknown-experts") unless `addExperts` confirms it, so a typo never creates an expert; confirmed
+ * experts are added to the panel in the same transaction. The revision each item was rated in is
+ * fixed; the content-validity statistics are stored as an analysis run that the log row names.
  */
 export function importRatings(
   study: Study,
   roundId: number,
   bytes: Uint8Array,
   fileName: string,
+  options: { addExperts?: readonly string[] } = {},
 ): { imported: number; runId: number | null } {
   const { preview, ratings } = parseRatingsFile(study, roundId, bytes, fileName);
   if (preview.problems.length > 0) {
     const more = preview.problems.length > 1 ? ` (and ${preview.problems.length - 1} more)` : '';
     throw new RuleError(`${fileName} was not imported: ${preview.problems[0].text}${more}`, 'file');
+  }
+  const confirmed = new Set((options.addExperts ?? []).map((c) => c.trim().toLowerCase()));
+  const unconfirmed = preview.unknownExperts.filter((e) => !confirmed.has(e.code.toLowerCase()));
+  if (unconfirmed.length > 0) {
+    const more = unconfirmed.length > 1 ? ` (and ${unconfirmed.length - 1} more)` : '';
+    throw new RuleError(`${fileName} was not imported: ${unconfirmed[0].text}${more}`, 'unknown-experts');
   }
   const ctx = roundContext(study, roundId);
   const combined = [

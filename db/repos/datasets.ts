@@ -242,3 +242,68 @@ export function listExclusionDecisions(study: Study, datasetId: number): Exclusi
     decidedAt: r.decidedAt,
   }));
 }
+
+/** One choice of the dataset a role's analyses use; `datasetId` null means none (the current one withdrawn). */
+export interface DatasetChoice {
+  id: number;
+  role: DatasetRole;
+  datasetId: number | null;
+  reason: string;
+  decidedAt: string;
+  decidedBy: string;
+}
+
+interface ChoiceRow {
+  id: number;
+  role: DatasetRole;
+  dataset_id: number | null;
+  reason: string;
+  decided_at: string;
+  decided_by: string;
+}
+
+function choice(row: ChoiceRow): DatasetChoice {
+  return {
+    id: row.id,
+    role: row.role,
+    datasetId: row.dataset_id,
+    reason: row.reason,
+    decidedAt: row.decided_at,
+    decidedBy: row.decided_by,
+  };
+}
+
+/** Call inside the transaction that logs the choice. */
+export function insertDatasetChoice(
+  study: Study,
+  c: { role: DatasetRole; datasetId: number | null; reason: string },
+): number {
+  return Number(
+    study.db
+      .prepare(
+        'INSERT INTO dataset_choice (role, dataset_id, reason, decided_at, decided_by) VALUES (?, ?, ?, ?, ?)',
+      )
+      .run(c.role, c.datasetId, c.reason, new Date().toISOString(), study.actor.name).lastInsertRowid,
+  );
+}
+
+/** The choice in force for a role (the latest), or undefined when none was ever made. */
+export function currentDatasetChoice(study: Study, role: DatasetRole): DatasetChoice | undefined {
+  const row = study.db
+    .prepare(
+      'SELECT id, role, dataset_id, reason, decided_at, decided_by FROM dataset_choice WHERE role = ? ORDER BY id DESC LIMIT 1',
+    )
+    .get(role) as ChoiceRow | undefined;
+  return row ? choice(row) : undefined;
+}
+
+/** Every choice, oldest first (of one role when given). */
+export function listDatasetChoices(study: Study, role?: DatasetRole): DatasetChoice[] {
+  return (
+    study.db
+      .prepare(
+        'SELECT id, role, dataset_id, reason, decided_at, decided_by FROM dataset_choice WHERE (? IS NULL OR role = ?) ORDER BY id',
+      )
+      .all(role ?? null, role ?? null) as ChoiceRow[]
+  ).map(choice);
+}

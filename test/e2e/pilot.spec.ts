@@ -68,7 +68,7 @@ test('imports the demo pilot file through the wizard, screens it and excludes th
   await expect(missing.locator('.suggestions')).toContainText('-9');
   await page.getByRole('button', { name: 'Read the whole file' }).click();
   const check = page.getByTestId('import-check');
-  await expect(check.getByTestId('check-respondents')).toHaveText('480 respondents');
+  await expect(check.getByTestId('check-respondents')).toHaveText('480 respondents', { timeout: 60_000 });
   await expect(check.locator('.problem-head')).toContainText('cells need a look');
   await expect(check.locator('.problem-table tbody tr').first()).toContainText(
     'value -9 is outside the declared scale 1 to 5',
@@ -81,7 +81,7 @@ test('imports the demo pilot file through the wizard, screens it and excludes th
 
   // Step 5: the whole file read in a worker; no problems now.
   await page.getByRole('button', { name: 'Read the whole file' }).click();
-  await expect(check.getByTestId('check-respondents')).toHaveText('480 respondents');
+  await expect(check.getByTestId('check-respondents')).toHaveText('480 respondents', { timeout: 60_000 });
   await expect(check.getByTestId('no-problems')).toBeVisible();
   await expect(check).toContainText('This very file (same SHA-256) is already in the study');
   await page.screenshot({ path: path.join(SCREENSHOTS, 'pilot-wizard-check.png'), fullPage: true });
@@ -90,11 +90,17 @@ test('imports the demo pilot file through the wizard, screens it and excludes th
   await check.getByRole('button', { name: 'Next: confirm' }).click();
   const confirm = page.getByTestId('import-confirm');
   await confirm.getByLabel('Name of the dataset').fill('Pilot survey, second copy');
+  // The study has current pilot data, so keeping it is preselected; this copy replaces it, with a reason.
+  await confirm.getByLabel('Make the new file the current pilot data').check();
+  await expect(confirm.getByRole('button', { name: 'Import 480 respondents' })).toBeDisabled();
+  await confirm
+    .getByLabel('Why does it replace “Pilot survey, spring (demo)”? (goes into the decision log)')
+    .fill('The second copy is screened afresh to check the import path.');
   await confirm.getByRole('button', { name: 'Import 480 respondents' }).click();
   await expect(page.getByTestId('import-confirm')).toHaveCount(0);
   const row = page.locator('.dataset-table tr[data-dataset="Pilot survey, second copy"]');
   await expect(row.getByTestId('dataset-counts')).toHaveText('480 respondents, 0 excluded');
-  await expect(row.locator('.badge.current')).toHaveText('current pilot');
+  await expect(row.locator('.badge.current')).toHaveText('current pilot data');
 
   // Screening: run it, review the flags, exclude the straight-liners by rule with a reason.
   const counts = page.getByTestId('screening-counts');
@@ -146,4 +152,5 @@ test('imports the demo pilot file through the wizard, screens it and excludes th
   await expect(page.locator('.log-table')).toContainText('exclusions reversed');
   await expect(page.locator('.log-table')).toContainText('respondents excluded');
   await expect(page.locator('.log-table')).toContainText('dataset imported');
+  await expect(page.locator('.log-table')).toContainText('dataset made current');
 });

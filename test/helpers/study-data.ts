@@ -1,7 +1,12 @@
 import { streamDataset } from '../../app/import/stream-dataset.ts';
 import type { ColumnMapping } from '../../app/import/mapping.ts';
 import type { MissingCodes } from '../../app/import/numbers.ts';
-import { type DatasetRole, insertDataset } from '../../db/repos/datasets.ts';
+import {
+  currentDatasetChoice,
+  type DatasetRole,
+  insertDataset,
+  insertDatasetChoice,
+} from '../../db/repos/datasets.ts';
 import { insertItem } from '../../db/repos/items.ts';
 import type { Study } from '../../db/study.ts';
 
@@ -23,6 +28,8 @@ export async function storeCsv(
     missingCodes?: MissingCodes;
     scaleMin?: number;
     scaleMax?: number;
+    /** Make it the current dataset of its role (default: when the role has none). */
+    current?: boolean;
   } = {},
 ): Promise<number> {
   const name = options.name ?? 'Pilot';
@@ -34,9 +41,10 @@ export async function storeCsv(
     scaleMin: options.scaleMin,
     scaleMax: options.scaleMax,
   });
-  return study.change({ phase: 'pilot', kind: 'imported', target: fileName }, () =>
-    insertDataset(study, {
-      role: options.role ?? 'pilot',
+  const role = options.role ?? 'pilot';
+  return study.change({ phase: 'pilot', kind: 'imported', target: fileName }, () => {
+    const id = insertDataset(study, {
+      role,
       name,
       fileName,
       fileSha256: dataset.sha256,
@@ -50,8 +58,13 @@ export async function storeCsv(
       },
       mapping,
       dataset,
-    }),
-  );
+    });
+    // As an import does by default: current when its role has no current dataset.
+    if (options.current ?? currentDatasetChoice(study, role)?.datasetId == null) {
+      insertDatasetChoice(study, { role, datasetId: id, reason: 'stored by a test' });
+    }
+    return id;
+  });
 }
 
 /** Respondents × items as a CSV with an id column `rid` (p1, p2, …), blank where missing, and its mapping. */

@@ -22,6 +22,8 @@ import {
   screenDataset,
   screeningView,
   storeImport,
+  makeDatasetCurrent,
+  withdrawDataset,
 } from '../../phases/pilot.ts';
 import type { ImportRead, ReadSettings } from '../../phases/pilot-read.ts';
 import { RuleError } from '../../phases/errors.ts';
@@ -188,6 +190,8 @@ export const pilotCommands = {
       readId: text(64),
       acceptProblems: z.boolean().default(false),
       name: text(MAX_DATASET_NAME).trim().optional(),
+      /** Whether the new dataset becomes current for its role; absent, only when the role has none. */
+      current: z.object({ makeCurrent: z.boolean(), reason: text(MAX_REASON).optional() }).optional(),
     }),
     (s, input) => {
       const staged = staging.get(s);
@@ -202,6 +206,7 @@ export const pilotCommands = {
       const plan = input.name ? { ...checked.plan, name: input.name } : checked.plan;
       const datasetId = storeImport(s.study, plan, checked.read, staged.bytes, {
         acceptProblems: input.acceptProblems,
+        ...(input.current ? { current: input.current } : {}),
       });
       staging.delete(s);
       return { datasetId, name: plan.name, role: plan.role, respondents: checked.read.dataset.n };
@@ -215,6 +220,15 @@ export const pilotCommands = {
     staging.delete(s);
     return { discarded: staged !== undefined };
   }),
+
+  /** Makes a dataset the one its role's analyses use (a logged decision with a reason). */
+  'pilot.makeCurrent': command(z.object({ datasetId: id, reason }), (s, input) =>
+    makeDatasetCurrent(s.study, input.datasetId, input.reason),
+  ),
+  /** Withdraws the current dataset of its role (a logged decision; reversed by making it current again). */
+  'pilot.withdraw': command(z.object({ datasetId: id, reason }), (s, input) =>
+    withdrawDataset(s.study, input.datasetId, input.reason),
+  ),
 
   'pilot.screen': command(
     z.object({

@@ -57,8 +57,16 @@ export const reviewCommands = {
     (s, input) => previewRatings(s.study, input.roundId, fileBytes(input.content), input.fileName),
   ),
   'review.importRatings': command(
-    z.object({ roundId, ...uploadedFile(MAX_RATINGS_FILE_BYTES) }),
-    (s, input) => importRatings(s.study, input.roundId, fileBytes(input.content), input.fileName),
+    z.object({
+      roundId,
+      ...uploadedFile(MAX_RATINGS_FILE_BYTES),
+      /** Expert codes of the file, not on the panel, that the researcher confirms adding. */
+      addExperts: z.array(text(40)).max(1000).default([]),
+    }),
+    (s, input) =>
+      importRatings(s.study, input.roundId, fileBytes(input.content), input.fileName, {
+        addExperts: input.addExperts,
+      }),
   ),
   'review.withdrawRatings': command(z.object({ importId: id, rationale }), (s, input) =>
     withdrawRatings(s.study, input.importId, input.rationale),

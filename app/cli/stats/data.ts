@@ -2,6 +2,8 @@ import { createHash } from 'node:crypto';
 import type { MissingMethod } from '../../engine/item-stats.ts';
 import { DEFAULT_SEED } from '../../engine/rng.ts';
 import { type ResponseMatrix, reverseScore, type ScaleBounds } from '../../engine/scoring.ts';
+import { chooseDecimalMark } from '../../import/dataset.ts';
+import { type DecimalMark, parseNumber } from '../../import/numbers.ts';
 import { columnLabel, parseTable, TableError } from '../../import/parse-table.ts';
 import { losesPrecision, outOfRangeMessage, precisionWarning } from '../../import/numbers.ts';
 import { readUserFile } from '../files.ts';
@@ -37,6 +39,16 @@ export interface LoadOptions {
 
 const NUMBER = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
 const DECIMAL_COMMA = /^[+-]?\d+,\d+$/;
+const DECIMAL_POINT = /^[+-]?\d+\.\d+$/;
+
+/** --decimal-mark point|comma; absent, the mark is detected (chooseDecimalMark). */
+function decimalMarkOption(values: OptionValues): DecimalMark | undefined {
+  const raw = text(values, 'decimal-mark');
+  if (raw === undefined) return undefined;
+  if (raw === 'point') return '.';
+  if (raw === 'comma') return ',';
+  throw new UsageError(`--decimal-mark must be point or comma (got "${raw}")`);
+}
 
 function text(values: OptionValues, name: string): string | undefined {
   const value = values[name];
@@ -114,7 +126,8 @@ function boundsOption(values: OptionValues): ScaleBounds | null {
 /**
  * The shared loader of every `stats` analysis: reads --data with parseTable, picks the --items columns
  * (or another option's), turns empty cells and --missing-codes into missing values, parses numbers
- * (a decimal comma is accepted in files not separated by commas, with a warning), checks values against
+ * with one decimal mark for the file (detected as the import detects it, or --decimal-mark), a cell
+ * written with the other mark being an error named by row and column, checks values against
  * --min/--max when given, and applies --reverse as min + max − x.
  *
  * Throws UsageError (exit 2) for a missing --data or items option, a malformed option, --reverse
@@ -175,21 +188,26 @@ export async function loadItemData(
   });
   const rowNumbers = table.rowNumbers ?? table.rows.map((_, i) => i + 2);
   const warnings = [...table.warnings];
-  let decimalCommas = 0;
   let rounded: { where: string; cell: string; value: number } | undefined;
   let roundedCount = 0;
+  // One rule for the decimal mark, over the same rows, as the import of a data file into a study.
+  const mark = chooseDecimalMark(table.rows, columns, decimalMarkOption(values), warnings);
+  const other = mark === '.' ? DECIMAL_COMMA : DECIMAL_POINT;
   const raw: ResponseMatrix = table.rows.map((row, r) =>
     columns.map((c) => {
       const cell = (row[c] ?? '').trim();
       if (cell === '' || missingCodes.includes(cell)) return null;
-      let value: number;
-      if (NUMBER.test(cell)) value = Number(cell);
-      else if (table.delimiter !== ',' && DECIMAL_COMMA.test(cell)) {
-        value = Number(cell.replace(',', '.'));
-        decimalCommas++;
-      } else {
+      const value = parseNumber(cell, mark);
+      if (value === undefined) {
+        const where = `${file}, row ${rowNumbers[r]}, ${columnLabel(c, table.header)}`;
+        if (other.test(cell)) {
+          throw new DataError(
+            `${where}: value "${cell}" uses the other decimal mark; this file is read with the decimal ` +
+              `${mark === '.' ? 'point' : 'comma'} (give --decimal-mark ${mark === '.' ? 'comma' : 'point'} if that is wrong)`,
+          );
+        }
         throw new DataError(
-          `${file}, row ${rowNumbers[r]}, ${columnLabel(c, table.header)}: value "${cell}" is not a number ` +
+          `${where}: value "${cell}" is not a number ` +
             '(leave the cell empty or list it in --missing-codes if it marks a missing answer)',
         );
       }
@@ -212,7 +230,7 @@ export async function loadItemData(
   );
   if (rounded !== undefined)
     warnings.push(precisionWarning(rounded.where, rounded.cell, rounded.value, roundedCount - 1));
-  if (decimalCommas > 0) warnings.push(`read ${decimalCommas} value(s) with a decimal comma as decimals`);
+  if (mark === ',') warnings.push('read with the decimal comma (detected, or given with --decimal-mark)');
   const data = reverse.length > 0 && bounds ? reverseScore(raw, names, reverse, bounds) : raw;
   return {
     file,

@@ -28,6 +28,64 @@ function columnSummary(check: ReadCheck): string {
     .join(', ');
 }
 
+/** Whether the new dataset becomes the current one of its role, and why. */
+export interface CurrentChoice {
+  makeCurrent: boolean;
+  reason?: string;
+}
+
+/**
+ * The question an import asks before storing: does the new file become the data analyses use? The
+ * safe answer is preselected (keep the current dataset when there is one) and the effect of each
+ * answer is spelled out; replacing the current dataset needs a reason for the log.
+ */
+function CurrentQuestion(props: {
+  check: ReadCheck;
+  value: CurrentChoice;
+  onChange(value: CurrentChoice): void;
+}) {
+  const c = props.check.currentChoice;
+  const label = `${props.check.role} data`;
+  return (
+    <fieldset className="current-question" data-testid="current-question">
+      <legend>Which {label} do the analyses use?</legend>
+      <label>
+        <input
+          type="radio"
+          name="current-choice"
+          checked={!props.value.makeCurrent}
+          onChange={() => props.onChange({ makeCurrent: false })}
+        />{' '}
+        {c.current ? `Keep “${c.current.name}” current` : 'Store it without making it current'}
+        <span className="hint"> — {c.ifKept}.</span>
+      </label>
+      <label>
+        <input
+          type="radio"
+          name="current-choice"
+          checked={props.value.makeCurrent}
+          onChange={() => props.onChange({ makeCurrent: true, reason: props.value.reason })}
+        />{' '}
+        Make the new file the current {label}
+        <span className="hint"> — {c.ifMadeCurrent}.</span>
+      </label>
+      {props.value.makeCurrent && c.current && (
+        <div className="field">
+          <label htmlFor="current-reason">
+            Why does it replace “{c.current.name}”? (goes into the decision log)
+          </label>
+          <input
+            id="current-reason"
+            value={props.value.reason ?? ''}
+            maxLength={10_000}
+            onChange={(e) => props.onChange({ makeCurrent: true, reason: e.target.value })}
+          />
+        </div>
+      )}
+    </fieldset>
+  );
+}
+
 /**
  * Steps 5 and 6: what the whole file gave (respondents, columns, missing cells, every problem by row
  * and column, notes), then the confirmation that stores it. A file with problems is stored only when
@@ -40,11 +98,16 @@ export function CheckStep(props: {
   error?: string;
   onBack(): void;
   onContinue(): void;
-  onImport(name: string, acceptProblems: boolean): void;
+  onImport(name: string, acceptProblems: boolean, current: CurrentChoice): void;
 }) {
   const { check } = props;
   const [name, setName] = useState(check.name);
   const [accept, setAccept] = useState(false);
+  const [current, setCurrent] = useState<CurrentChoice>({
+    makeCurrent: check.currentChoice.defaultMakeCurrent,
+  });
+  const reasonMissing =
+    current.makeCurrent && check.currentChoice.current !== null && (current.reason ?? '').trim() === '';
   const items = check.columns.filter((c) => c.role === 'item');
   const missingCells = items.reduce((s, c) => s + (c.missing ?? 0), 0);
   const hasProblems = check.problemCount > 0;
@@ -62,6 +125,7 @@ export function CheckStep(props: {
           <code>{check.sha256.slice(0, 16)}…</code>), how it was read, the column roles, the missing-value
           codes, and the answers exactly as given; the import is logged under your name.
         </p>
+        <CurrentQuestion check={check} value={current} onChange={setCurrent} />
         {hasProblems && (
           <label className="accept-problems">
             <input type="checkbox" checked={accept} onChange={(e) => setAccept(e.target.checked)} />I have
@@ -76,8 +140,8 @@ export function CheckStep(props: {
           <button
             type="button"
             className="primary"
-            disabled={props.busy || name.trim() === '' || (hasProblems && !accept)}
-            onClick={() => props.onImport(name.trim(), accept)}
+            disabled={props.busy || name.trim() === '' || (hasProblems && !accept) || reasonMissing}
+            onClick={() => props.onImport(name.trim(), accept, current)}
           >
             Import {plural(check.respondents, 'respondent')}
           </button>

@@ -101,9 +101,11 @@ export function ColumnsStep(props: {
         )}
       </p>
       <p className="hint">
-        Columns whose header is an item code were matched to that item; “id” and “duration” headers took those
-        roles. Give the other columns their roles: the answers are stored as they are in the file, and reverse
-        keys are applied from the item pool when scores are computed.
+        Columns whose header is an item code were matched to that item; a header that names a respondent id
+        (“ID”, “Respondent ID”, “participant no.”…) or a response time (“duration_s”, “Duration (sec)”,
+        “time_taken”…) was proposed for that role: check each proposal. Give the other columns their roles:
+        the answers are stored as they are in the file, and reverse keys are applied from the item pool when
+        scores are computed.
       </p>
       <div className="button-row">
         <button type="button" className="secondary" onClick={() => props.onChange(preview.proposal.mapping)}>
@@ -180,6 +182,13 @@ export function ColumnsStep(props: {
                         {automatic && <span className="badge matched">matched by code</span>}
                       </span>
                     )}
+                    {(role.role === 'id' || role.role === 'duration') &&
+                      proposed?.role === role.role &&
+                      preview.proposal.reasons[column] && (
+                        <span className="badge matched" title={preview.proposal.reasons[column]}>
+                          proposed: {preview.proposal.reasons[column]}
+                        </span>
+                      )}
                     {role.role === 'attention' && (
                       <input
                         aria-label={`Correct answer of attention check ${column}`}

@@ -9,7 +9,7 @@ import { call } from '../../api/client.ts';
 import { ErrorNote, Panel } from '../../shared/components.tsx';
 import { TaskProgress } from '../../shared/task-progress.tsx';
 import { useMutation } from '../../shared/use-command.ts';
-import { CheckStep } from './CheckStep.tsx';
+import { CheckStep, type CurrentChoice } from './CheckStep.tsx';
 import { ColumnsStep } from './ColumnsStep.tsx';
 import { formatBytes, readFileBase64 } from '../../shared/files.ts';
 import { type MissingDraft, MissingStep } from './MissingStep.tsx';
@@ -137,7 +137,8 @@ export function ImportWizard(props: {
         role,
         mapping,
         missingCodes: missing,
-        reading,
+        // The decimal mark shown in the preview (detected or chosen) is the one the whole file is read with.
+        reading: { ...reading, decimalMark: reading.decimalMark ?? preview.decimalMark },
       });
       setTaskId(started.taskId);
       setStep('check');
@@ -167,9 +168,9 @@ export function ImportWizard(props: {
     props.onClose();
   }
 
-  async function store(name: string, acceptProblems: boolean) {
+  async function store(name: string, acceptProblems: boolean, current: CurrentChoice) {
     if (!check) return;
-    const done = await confirm.run({ readId: check.readId, name, acceptProblems });
+    const done = await confirm.run({ readId: check.readId, name, acceptProblems, current });
     if (done) onImported(done.datasetId);
   }
 

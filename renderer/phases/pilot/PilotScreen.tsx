@@ -2,7 +2,7 @@ import { useContext, useState } from 'react';
 import type { DatasetListEntry } from '../../../app/phases/pilot.ts';
 import { ErrorNote, formatTime, Panel } from '../../shared/components.tsx';
 import { SignOffAside } from '../../shared/phase-controls.tsx';
-import { StudyRevision, useQuery } from '../../shared/use-command.ts';
+import { StudyRevision, useMutation, useQuery } from '../../shared/use-command.ts';
 import { formatBytes } from '../../shared/files.ts';
 import { plural } from '../../shared/format.ts';
 import { ImportWizard } from './ImportWizard.tsx';
@@ -10,9 +10,74 @@ import { MissingPanel } from './MissingPanel.tsx';
 import { ScreeningPanel } from './ScreeningPanel.tsx';
 import './pilot.css';
 
+function shortDate(iso: string): string {
+  return new Date(iso).toLocaleDateString(undefined, { year: 'numeric', month: 'short', day: 'numeric' });
+}
+
+/** Why a dataset is current or not, from the choice that last named it. */
+function standingText(d: DatasetListEntry): string {
+  const c = d.standing.choice;
+  if (!c) return 'Never made current.';
+  const when = `${shortDate(c.decidedAt)}, ${c.decidedBy}`;
+  if (d.current) return `Since ${when}: ${c.reason}`;
+  if (c.withdrawn) return `Withdrawn ${when}: ${c.reason}`;
+  return `Current from ${when}, until another dataset was made current.`;
+}
+
+/**
+ * Make current or withdraw, with the reason the log needs. The reason stays in the box until the
+ * change is stored, so a refused change loses nothing typed.
+ */
+function ChoiceAction(props: { dataset: DatasetListEntry; locked: boolean }) {
+  const d = props.dataset;
+  const make = useMutation('pilot.makeCurrent');
+  const withdraw = useMutation('pilot.withdraw');
+  const [open, setOpen] = useState(false);
+  const [reason, setReason] = useState('');
+  const action = d.current ? withdraw : make;
+  const label = d.current ? 'Withdraw…' : 'Make current…';
+  if (props.locked) return null;
+  if (!open) {
+    return (
+      <button type="button" className="link choice-open" onClick={() => setOpen(true)}>
+        {label}
+      </button>
+    );
+  }
+  const prompt = d.current
+    ? `Why is “${d.name}” withdrawn? (no ${d.roleLabel} will be current)`
+    : `Why do the analyses of ${d.roleLabel} use “${d.name}” from now on?`;
+  return (
+    <form
+      className="choice-form"
+      onSubmit={async (e) => {
+        e.preventDefault();
+        const done = await action.run({ datasetId: d.id, reason });
+        if (done) {
+          setOpen(false);
+          setReason('');
+        }
+      }}
+    >
+      <label htmlFor={`choice-reason-${d.id}`}>{prompt}</label>
+      <input id={`choice-reason-${d.id}`} value={reason} onChange={(e) => setReason(e.target.value)} />
+      <div className="button-row">
+        <button type="submit" className="primary" disabled={action.busy || reason.trim() === ''}>
+          {d.current ? 'Withdraw' : 'Make current'}
+        </button>
+        <button type="button" className="link" onClick={() => setOpen(false)}>
+          Cancel
+        </button>
+      </div>
+      <ErrorNote message={action.error} />
+    </form>
+  );
+}
+
 function DatasetTable(props: {
   datasets: DatasetListEntry[];
   selected: number | undefined;
+  locked: (d: DatasetListEntry) => boolean;
   onSelect(id: number): void;
 }) {
   return (
@@ -22,7 +87,7 @@ function DatasetTable(props: {
           <tr>
             <th>Dataset</th>
             <th>Respondents</th>
-            <th>Imported</th>
+            <th>Used by analyses</th>
             <th>Screening</th>
           </tr>
         </thead>
@@ -44,32 +109,26 @@ function DatasetTable(props: {
                 <div className="muted small-text">
                   {d.fileName} · {formatBytes(d.fileSize)} · {plural(d.items, 'item')}
                 </div>
+                <div className="muted small-text" title={formatTime(d.importedAt)}>
+                  imported {shortDate(d.importedAt)} by {d.importedBy}
+                </div>
                 <div className="dataset-badges">
                   <span className={`badge role-${d.role}`}>{d.roleLabel}</span>
                   {d.id === props.selected && <span className="badge shown">shown below</span>}
-                  {d.current && (
-                    <span
-                      className="badge current"
-                      title="The most recent pilot import: the data purification works on"
-                    >
-                      current pilot
-                    </span>
-                  )}
                 </div>
               </td>
 
               <td className="nowrap" data-testid="dataset-counts">
                 {d.counts}
               </td>
-              <td>
-                <span className="nowrap" title={formatTime(d.importedAt)}>
-                  {new Date(d.importedAt).toLocaleDateString(undefined, {
-                    year: 'numeric',
-                    month: 'short',
-                    day: 'numeric',
-                  })}
-                </span>
-                <div className="muted small-text">{d.importedBy}</div>
+              <td className="dataset-standing" data-testid="dataset-standing">
+                {d.current ? (
+                  <span className="badge current">current {d.roleLabel}</span>
+                ) : (
+                  <span className="badge not-current">not current</span>
+                )}
+                <div className="muted small-text standing-why">{standingText(d)}</div>
+                <ChoiceAction dataset={d} locked={props.locked(d)} />
               </td>
               <td>
                 {d.screening ? (
@@ -219,7 +278,15 @@ export function PilotScreen() {
                 or an .xlsx workbook, with a header row.
               </p>
             ) : (
-              <DatasetTable datasets={data.datasets} selected={selected} onSelect={setChosen} />
+              <DatasetTable
+                datasets={data.datasets}
+                selected={selected}
+                onSelect={setChosen}
+                locked={(d) => {
+                  const phaseOfRole = data.roles.find((r) => r.role === d.role)?.phase ?? 'pilot';
+                  return overview.data?.find((p) => p.id === phaseOfRole)?.status === 'signed-off';
+                }}
+              />
             )}
           </Panel>
         </div>

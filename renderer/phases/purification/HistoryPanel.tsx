@@ -102,7 +102,7 @@ export function HistoryPanel(props: {
                   Round {r.number}
                 </button>
                 {!r.onCurrentData && (
-                  <span className="stale" title="The pilot data or its exclusions changed after this round">
+                  <span className="stale" title={r.outOfDate ?? undefined}>
                     older data
                   </span>
                 )}

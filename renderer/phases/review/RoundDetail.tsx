@@ -94,8 +94,13 @@ export function RatingsPanel({ round, maxFileBytes }: { round: RoundView; maxFil
   const [preview, setPreview] = useState<Preview | undefined>();
   const [readError, setReadError] = useState<string | undefined>();
   const [inputKey, setInputKey] = useState(0);
+  /** Codes not on the panel that the researcher has confirmed adding (lower case). */
+  const [confirmed, setConfirmed] = useState<Set<string>>(new Set());
+  const unknown = preview?.unknownExperts ?? [];
+  const allConfirmed = unknown.every((e) => confirmed.has(e.code.toLowerCase()));
 
   function reset() {
+    setConfirmed(new Set());
     setFile(undefined);
     setPreview(undefined);
     setReadError(undefined);
@@ -169,6 +174,29 @@ export function RatingsPanel({ round, maxFileBytes }: { round: RoundView; maxFil
               : `${plural(preview.problems.length, 'problem')} to fix first; nothing will be imported.`}
           </p>
           <FileNotes problems={preview.problems} warnings={preview.warnings} />
+          {preview.problems.length === 0 && unknown.length > 0 && (
+            <fieldset className="unknown-experts" data-testid="unknown-experts">
+              <legend>
+                {plural(unknown.length, 'expert code')} not on the panel: a typo must not create an expert
+              </legend>
+              {unknown.map((e) => (
+                <label key={e.code}>
+                  <input
+                    type="checkbox"
+                    checked={confirmed.has(e.code.toLowerCase())}
+                    onChange={(ev) => {
+                      const next = new Set(confirmed);
+                      if (ev.target.checked) next.add(e.code.toLowerCase());
+                      else next.delete(e.code.toLowerCase());
+                      setConfirmed(next);
+                    }}
+                  />{' '}
+                  Add {e.code} to the panel
+                  <span className="hint"> — {e.text}</span>
+                </label>
+              ))}
+            </fieldset>
+          )}
           {preview.rows.length > 0 && (
             <div className="preview-scroll">
               <table className="data-table">
@@ -205,13 +233,14 @@ export function RatingsPanel({ round, maxFileBytes }: { round: RoundView; maxFil
             <button
               type="button"
               className="primary"
-              disabled={preview.problems.length > 0 || importRatings.busy || !file}
+              disabled={preview.problems.length > 0 || !allConfirmed || importRatings.busy || !file}
               onClick={async () => {
                 if (!file) return;
                 const done = await importRatings.run({
                   roundId: round.id,
                   fileName: file.name,
                   content: file.content,
+                  addExperts: unknown.map((e) => e.code),
                 });
                 if (done !== undefined) reset();
               }}

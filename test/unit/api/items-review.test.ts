@@ -152,7 +152,10 @@ describe('expert review commands', () => {
     const file = { roundId, fileName: 'ratings.csv', content: b64(ratings.join('\n')) };
     const preview = await ok<{ ratingCount: number; problems: unknown[] }>('review.previewRatings', file);
     expect(preview).toMatchObject({ ratingCount: 9, problems: [] });
-    await ok('review.importRatings', file);
+    // E2 and E3 are not on the panel: refused until confirmed, then added.
+    const refused = await dispatch(session, 'review.importRatings', file);
+    expect(refused).toMatchObject({ ok: false, error: { code: 'unknown-experts' } });
+    await ok('review.importRatings', { ...file, addExperts: ['E2', 'E3'] });
     const view = await ok<{
       rounds: { items: { code: string; itemId: number; stats: { iCvi: number; flags: string[] } }[] }[];
     }>('review.get', {});

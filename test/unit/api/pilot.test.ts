@@ -191,10 +191,11 @@ describe('the import commands', () => {
     const check = await ok<ReadCheck>('pilot.collectRead', { taskId: started.taskId });
     expect(check).toMatchObject({ kind: 'workbook', sheet: 'Wave 1', respondents: 2, role: 'validation' });
     await ok('pilot.confirmImport', { readId: check.readId });
-    expect(session.study.log.list({ limit: 1 })[0]).toMatchObject({
-      phase: 'validity',
-      kind: 'dataset-imported',
-    });
+    // The first validation data of the study becomes current: two rows, the import and the choice.
+    expect(session.study.log.list({ limit: 2 })).toMatchObject([
+      { phase: 'validity', kind: 'dataset-made-current' },
+      { phase: 'validity', kind: 'dataset-imported' },
+    ]);
   });
 
   it('answers bad files and bad requests with clear messages, never a crash', async () => {

@@ -82,6 +82,9 @@ describe('project import', () => {
       missingCodes: { text: ['NA'], numeric: [-9] },
       bounds: { min: 1, max: 5 },
       problemCount: 0,
+      // The study's first validation data becomes current by default.
+      current: true,
+      currentDataset: { id: out.datasetId, name: 'Validation wave' },
     });
     // SHA-256 as node:crypto computes it over the file the user gave.
     expect(out.sha256).toBe(createHash('sha256').update(fs.readFileSync(pilotFile)).digest('hex'));
@@ -100,7 +103,10 @@ describe('project import', () => {
       expect(
         Buffer.from(loadDatasetFile(study, out.datasetId) ?? []).equals(fs.readFileSync(pilotFile)),
       ).toBe(true);
-      expect(study.log.list({ limit: 1 })[0]).toMatchObject({ phase: 'validity', kind: 'dataset-imported' });
+      expect(study.log.list({ limit: 2 })).toMatchObject([
+        { phase: 'validity', kind: 'dataset-made-current' },
+        { phase: 'validity', kind: 'dataset-imported' },
+      ]);
     } finally {
       study.close();
     }

@@ -81,3 +81,58 @@ describe('resolveMapping', () => {
     expect(() => resolveMapping(['a'], { a: { role: 'ignored' } })).toThrow(TableError);
   });
 });
+
+describe('proposeMapping: id and duration headers in their usual spellings', () => {
+  // Common practice in survey exports: ids and response times under many names; each guess is shown
+  // with its reason and the researcher confirms or changes it.
+  it.each([
+    ['ID'],
+    ['respondent_id'],
+    ['Respondent ID'],
+    ['participant no.'],
+    ['Case number'],
+    ['resp_id'],
+    ['PID'],
+  ])('proposes %s as the respondent id, with its reason', (name) => {
+    const { mapping, reasons } = proposeMapping([name, 'q1'], ['q1']);
+    expect(mapping[name]).toEqual({ role: 'id' });
+    expect(reasons[name]).toBe('its header names a respondent id');
+    expect(reasons.q1).toBe('its header is item code q1');
+  });
+
+  it.each([
+    ['duration_s'],
+    ['Duration (sec)'],
+    ['time_taken'],
+    ['Time taken (seconds)'],
+    ['completion time'],
+    ['response_time_ms'],
+  ])('proposes %s as the response duration', (name) => {
+    const { mapping, reasons } = proposeMapping(['q1', name], ['q1']);
+    expect(mapping[name]).toEqual({ role: 'duration' });
+    expect(reasons[name]).toBe('its header names a response time');
+  });
+
+  it('leaves look-alikes alone, gives each role to the first match only, and lets the researcher change it', () => {
+    const header = [
+      'identity',
+      'response',
+      'idle',
+      'party',
+      'Respondent ID',
+      'ID',
+      'duration_s',
+      'Duration (sec)',
+    ];
+    const { mapping, unmatchedColumns } = proposeMapping(header, []);
+    expect(unmatchedColumns).toEqual(['identity', 'response', 'idle', 'party', 'ID', 'Duration (sec)']);
+    expect(mapping['Respondent ID']).toEqual({ role: 'id' });
+    expect(mapping.duration_s).toEqual({ role: 'duration' });
+    const confirmed = proposeMapping(header, [], {
+      ID: { role: 'id' },
+      'Respondent ID': { role: 'ignored' },
+    });
+    expect(confirmed.mapping.ID).toEqual({ role: 'id' });
+    expect(confirmed.mapping['Respondent ID']).toEqual({ role: 'ignored' });
+  });
+});

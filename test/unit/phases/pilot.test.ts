@@ -28,6 +28,7 @@ import { phaseOverview, reopenPhase, signOffPhase } from '../../../app/phases/in
 import { addItem } from '../../../app/phases/items.ts';
 import {
   automaticMapping,
+  type CurrentOnImport,
   datasetDetail,
   excludeRespondents,
   includeRespondents,
@@ -149,6 +150,7 @@ async function importCsv(
     missing?: MissingCodes;
     accept?: boolean;
     name?: string;
+    current?: CurrentOnImport;
   } = {},
 ): Promise<number> {
   const bytes = utf8(csv);
@@ -161,7 +163,10 @@ async function importCsv(
     reading: {},
   });
   const result = await readDataFile(read);
-  return storeImport(s, plan, result, bytes, { acceptProblems: options.accept ?? false });
+  return storeImport(s, plan, result, bytes, {
+    acceptProblems: options.accept ?? false,
+    ...(options.current ? { current: options.current } : {}),
+  });
 }
 
 function state(s: Study) {
@@ -181,7 +186,7 @@ const SMALL =
   'rid,q1,q2,q3,q4,grp,secs\nr1,1,2,3,4,a,300\nr2,4,-9,5,3,b,320\nr3,2,2,,2,a,50\nr4,5,4,3,5,b,310\nr5,3,3,3,3,a,290\nr6,2,4,1,5,b,330\n';
 
 describe('importing a data file into the study', () => {
-  it('stores the original bytes, their SHA-256, how the file was read, the mapping and the codes, with one log row', async () => {
+  it('stores the original bytes, their SHA-256, how the file was read, the mapping and the codes, with its log row and the choice that makes it current', async () => {
     const before = study.log.count();
     const id = await importCsv(study, SMALL, {
       mapping: automaticMapping(study, {
@@ -213,8 +218,13 @@ describe('importing a data file into the study', () => {
     });
     // Header q1 is matched to the pool's item Q1 and stored in the pool's spelling.
     expect(summary?.mapping.q1).toEqual({ role: 'item', itemCode: 'Q1' });
-    expect(study.log.count()).toBe(before + 1);
-    const row = study.log.list({ limit: 1 })[0];
+    // The import and, as the first pilot data of the study, the choice that makes it current.
+    expect(study.log.count()).toBe(before + 2);
+    expect(study.log.list({ limit: 1 })[0]).toMatchObject({
+      kind: 'dataset-made-current',
+      detail: { datasetId: id },
+    });
+    const row = study.log.list({ limit: 2 })[1];
     expect(row).toMatchObject({ phase: 'pilot', kind: 'dataset-imported', target: 'pilot data "pilot"' });
     expect(row.detail).toMatchObject({
       sha256: summary?.fileSha256,
@@ -248,7 +258,7 @@ describe('importing a data file into the study', () => {
       9, 3,
     ]);
     expect(encoded?.problemCount).toBe(2);
-    expect(study.log.list({ limit: 1 })[0].detail).toMatchObject({ problems: 2, problemsAccepted: true });
+    expect(study.log.list({ limit: 2 })[1].detail).toMatchObject({ problems: 2, problemsAccepted: true });
   });
 
   it('refuses what it cannot honour before reading: a signed-off phase, an item not in the pool, a number given as a text code', () => {
@@ -445,7 +455,10 @@ describe('the phase checklist', () => {
     expect(unmet()).toEqual(['mapped', 'screened']);
     expect(pilotRules.checklist(study).find((c) => c.id === 'mapped')?.detail).toBe('no column for Q3, Q4');
     screenDataset(study, partial);
-    const id = await importCsv(study, SMALL, { missing: { text: [], numeric: [-9] } });
+    const id = await importCsv(study, SMALL, {
+      missing: { text: [], numeric: [-9] },
+      current: { makeCurrent: true, reason: 'the full file replaces the partial one' },
+    });
     expect(unmet()).toEqual(['screened']);
     screenDataset(study, id);
     expect(unmet()).toEqual([]);

@@ -496,7 +496,8 @@ describe('decisions and the next round', () => {
     checklist = phaseOverview(study, 'purification').checklist;
     expect(checklist.find((c) => c.id === 'round-on-current-data')).toMatchObject({
       met: false,
-      detail: 'round 1 ran before the pilot data or its exclusions changed: run a new round',
+      detail:
+        'round 1 is out of date: the exclusions from "Pilot" changed after this round (12 then, 11 now); run a new round',
     });
   });
 });

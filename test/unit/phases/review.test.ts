@@ -119,11 +119,20 @@ afterEach(() => {
   tmp.cleanup();
 });
 
+/**
+ * Imports a ratings file with every expert code it holds confirmed for the panel (most tests start
+ * from an empty panel); the confirmation itself is tested below.
+ */
+function importConfirmed(study: Study, roundId: number, bytes: Uint8Array, fileName: string) {
+  const unknown = previewRatings(study, roundId, bytes, fileName).unknownExperts.map((e) => e.code);
+  return importRatings(study, roundId, bytes, fileName, { addExperts: unknown });
+}
+
 describe('content-validity statistics of an imported round', () => {
   it('reproduces the worked example of Polit, Beck & Owen (2007): N = 6, A = 5 gives I-CVI .83, Pc .094, k* .82', () => {
     const id = addRound(study, { label: 'R1', scope: 'kept' });
     const file = longFile(ratingsFor(6, { TR01: [4, 4, 3, 4, 3, 2], TR02: [4, 3, 2, 2, 4, 4] }));
-    importRatings(study, id, encode(`item,expert,relevance\n${file}`), 'r.csv');
+    importConfirmed(study, id, encode(`item,expert,relevance\n${file}`), 'r.csv');
     const tr01 = stats(id, 'TR01');
     // Polit, Beck & Owen (2007), worked example in the text: I-CVI .83, Pc .094, k* .82 (excellent).
     expect(tr01?.iCvi).toBeCloseTo(0.83, 2);
@@ -141,7 +150,7 @@ describe('content-validity statistics of an imported round', () => {
 
   it('applies Lynn’s (1986) benchmark of 1.00 for panels of three to five experts', () => {
     const id = addRound(study, { label: 'R1', scope: 'kept' });
-    importRatings(
+    importConfirmed(
       study,
       id,
       encode(`item,expert,relevance\n${longFile(ratingsFor(5, { RP01: [4, 4, 4, 4, 2] }))}`),
@@ -155,7 +164,7 @@ describe('content-validity statistics of an imported round', () => {
     updateForm(study, id, { asksEssential: true, asksFacet: false, asksComment: false, instructions: '' });
     // Wilson, Pan & Schumsky (2012); Ayre & Scally (2014): critical CVR for N = 8 is .750 (6 of 8 essential).
     const essential = (item: string, e: number) => [item === 'TR03' && e >= 5 ? 'useful' : 'essential'];
-    importRatings(
+    importConfirmed(
       study,
       id,
       encode(`item,expert,relevance,essential\n${longFile(ratingsFor(8), essential)}`),
@@ -170,7 +179,7 @@ describe('content-validity statistics of an imported round', () => {
 
   it('stores the statistics as an analysis run named by the log row, and fixes the rated wording', () => {
     const id = addRound(study, { label: 'R1', scope: 'kept' });
-    importRatings(study, id, encode(`item,expert,relevance\n${longFile(ratingsFor(4))}`), 'r.csv');
+    importConfirmed(study, id, encode(`item,expert,relevance\n${longFile(ratingsFor(4))}`), 'r.csv');
     const entry = study.log.list({ limit: 1 })[0];
     expect(entry).toMatchObject({
       phase: 'review',
@@ -263,7 +272,7 @@ describe('bad rating files are refused with the row and column, and the study st
     expect(preview.problems[0].text).toMatch(message);
     expect(snapshot()).toEqual(before);
     expectRule(
-      () => importRatings(study, id, encode(content), 'ratings.csv'),
+      () => importConfirmed(study, id, encode(content), 'ratings.csv'),
       /^ratings\.csv was not imported: row \d/,
     );
     expect(snapshot()).toEqual(before);
@@ -271,7 +280,7 @@ describe('bad rating files are refused with the row and column, and the study st
 
   it('names an item of the pool that the round does not cover', () => {
     const first = addRound(study, { label: 'R1', scope: 'kept' });
-    importRatings(study, first, encode(`item,expert,relevance\n${longFile(ratingsFor(3))}`), 'r1.csv');
+    importConfirmed(study, first, encode(`item,expert,relevance\n${longFile(ratingsFor(3))}`), 'r1.csv');
     decideItem(study, {
       roundId: first,
       itemId: itemId('TR01'),
@@ -301,10 +310,10 @@ describe('bad rating files are refused with the row and column, and the study st
 
   it('refuses a second rating of a pair already stored, naming the earlier file', () => {
     const id = addRound(study, { label: 'R1', scope: 'kept' });
-    importRatings(study, id, encode('item,expert,relevance\nTR01,E1,4\n'), 'first.csv');
+    importConfirmed(study, id, encode('item,expert,relevance\nTR01,E1,4\n'), 'first.csv');
     const before = snapshot();
     expectRule(
-      () => importRatings(study, id, encode('item,expert,relevance\nTR02,E1,4\nTR01,E1,3\n'), 'second.csv'),
+      () => importConfirmed(study, id, encode('item,expert,relevance\nTR02,E1,4\nTR01,E1,3\n'), 'second.csv'),
       /row 3, column 2 \('expert'\): expert E1 already has a rating for TR01 in round 1 \(from "first\.csv"\)/,
     );
     expect(snapshot()).toEqual(before);
@@ -312,21 +321,33 @@ describe('bad rating files are refused with the row and column, and the study st
 });
 
 describe('the panel and the rating form', () => {
-  it('adds experts found in a file to the panel, and says so in the preview', () => {
+  it('treats an expert code not on the panel as a problem to confirm: refused, the study is unchanged; confirmed, added', () => {
     const id = addRound(study, { label: 'R1', scope: 'kept' });
     addExpert(study, id, { code: 'E1', role: 'traffic engineer', name: '', nameWithheld: false });
-    const content = encode('item,expert,relevance\nTR01,e1,4\nTR01,E2,3\n');
+    const content = encode('item,expert,relevance\nTR01,e1,4\nTR01,E2,3\nTR02,E2,4\n');
     const preview = previewRatings(study, id, content, 'r.csv');
     expect(preview.experts).toEqual([
       { code: 'E1', onPanel: true, ratings: 1 },
-      { code: 'E2', onPanel: false, ratings: 1 },
+      { code: 'E2', onPanel: false, ratings: 2 },
     ]);
-    expect(preview.warnings.join(' ')).toMatch(/1 expert not yet on the panel will be added: E2/);
-    importRatings(study, id, content, 'r.csv');
+    expect(preview.unknownExperts).toEqual([
+      expect.objectContaining({ code: 'E2', ratings: 2, row: 3, column: 'expert', closest: 'E1' }),
+    ]);
+    expect(preview.unknownExperts[0].text).toBe(
+      "row 3, column 2 ('expert'): expert code 'E2' (2 ratings) is not on the panel of round 1 (did you mean E1?); correct the file, or confirm adding the expert to the panel",
+    );
+    const before = { log: study.log.count(), experts: round(id).experts.length };
+    expect(() => importRatings(study, id, content, 'r.csv')).toThrow(
+      /^r\.csv was not imported: row 3, column 2 \('expert'\): expert code 'E2'/,
+    );
+    expect(() => importRatings(study, id, content, 'r.csv', { addExperts: ['E3'] })).toThrow(RuleError);
+    expect({ log: study.log.count(), experts: round(id).experts.length }).toEqual(before);
+    importRatings(study, id, content, 'r.csv', { addExperts: ['e2'] });
     expect(round(id).experts.map((e) => [e.code, e.role, e.ratings])).toEqual([
       ['E1', 'traffic engineer', 1],
-      ['E2', '', 1],
+      ['E2', '', 2],
     ]);
+    expect(study.log.list({ limit: 1 })[0].detail).toMatchObject({ addedToPanel: ['E2'] });
   });
 
   it('never writes an expert’s name into the append-only log', () => {
@@ -352,7 +373,7 @@ describe('the panel and the rating form', () => {
       instructions: 'Rate each.',
     });
     expect(round(id).form).toMatchObject({ asksEssential: true, relevanceMin: 1, relevanceMax: 4 });
-    importRatings(study, id, encode('item,expert,relevance\nTR01,E1,4\n'), 'r.csv');
+    importConfirmed(study, id, encode('item,expert,relevance\nTR01,E1,4\n'), 'r.csv');
     expectRule(
       () =>
         updateForm(study, id, { asksEssential: false, asksFacet: true, asksComment: true, instructions: '' }),
@@ -362,7 +383,7 @@ describe('the panel and the rating form', () => {
 
   it('withdraws an import with a reason, keeping its record', () => {
     const id = addRound(study, { label: 'R1', scope: 'kept' });
-    importRatings(study, id, encode(`item,expert,relevance\n${longFile(ratingsFor(3))}`), 'r.csv');
+    importConfirmed(study, id, encode(`item,expert,relevance\n${longFile(ratingsFor(3))}`), 'r.csv');
     const importId = round(id).imports[0].id;
     expectRule(
       () => withdrawRatings(study, importId, ' '),
@@ -417,7 +438,7 @@ describe('decisions and later rounds', () => {
       () => decideItem(study, { roundId: id, itemId: itemId('TR01'), decision: 'keep', rationale: 'Fine.' }),
       /round 1 has no ratings yet/,
     );
-    importRatings(
+    importConfirmed(
       study,
       id,
       encode(
@@ -468,7 +489,7 @@ describe('decisions and later rounds', () => {
 
   it('re-rates revised items in a second round and shows both rounds side by side', () => {
     const first = addRound(study, { label: 'R1', scope: 'kept' });
-    importRatings(
+    importConfirmed(
       study,
       first,
       encode(`item,expert,relevance\n${longFile(ratingsFor(6, { TR02: [4, 3, 2, 2, 1, 4] }))}`),
@@ -484,7 +505,7 @@ describe('decisions and later rounds', () => {
     const second = addRound(study, { label: 'R2', scope: 'revised' });
     expect(round(second).items.map((it) => it.code)).toEqual(['TR02']);
     expect(round(second).experts.map((e) => e.code)).toEqual(['E1', 'E2', 'E3', 'E4', 'E5', 'E6']);
-    importRatings(
+    importConfirmed(
       study,
       second,
       encode(`item,expert,relevance\n${longFile({ TR02: [4, 4, 3, 4, 4, 4] })}`),
@@ -513,9 +534,14 @@ describe('decisions and later rounds', () => {
     const some = Object.fromEntries(
       Object.entries(ratingsFor(3, { RP01: [4, 2, 4] })).filter(([c]) => c !== 'RP03'),
     );
-    importRatings(study, id, encode(`item,expert,relevance\n${longFile(some)}`), 'r.csv');
+    importConfirmed(study, id, encode(`item,expert,relevance\n${longFile(some)}`), 'r.csv');
     expect(unmet()).toEqual(['rated: round 1, not rated: RP03', 'decided: undecided: RP01 (round 1)']);
-    importRatings(study, id, encode('item,expert,relevance\nRP03,E1,4\nRP03,E2,4\nRP03,E3,4\n'), 'rp03.csv');
+    importConfirmed(
+      study,
+      id,
+      encode('item,expert,relevance\nRP03,E1,4\nRP03,E2,4\nRP03,E3,4\n'),
+      'rp03.csv',
+    );
     decideItem(study, {
       roundId: id,
       itemId: itemId('RP01'),

@@ -48,7 +48,7 @@ describe('loadItemData', () => {
       [1.5, 2],
       [3, 4.5],
     ]);
-    expect(loaded.warnings).toContain('read 2 value(s) with a decimal comma as decimals');
+    expect(loaded.warnings).toContain('read with the decimal comma (detected, or given with --decimal-mark)');
   });
 
   it('usage errors: missing --data or --items, lone --min, reversed name not in --items, bad --missing', async () => {

@@ -1,0 +1,152 @@
+import { Study } from '../../db/study.ts';
+import { currentActor } from '../launch/user-data.ts';
+import { pilotView, makeDatasetCurrent } from '../phases/pilot.ts';
+import { parseStrict, resolveUserPath } from './main.ts';
+import { formatTable } from './table.ts';
+import { type CliContext, UsageError } from './types.ts';
+
+const CLI_APP = 'the Scalewright command line';
+
+/** Longest dataset name shown in the table; longer names end in an ellipsis (the JSON has them whole). */
+const NAME_WIDTH = 28;
+
+export const DATASETS_HELP = `usage: scalewright project datasets FILE [--json]
+
+Lists the study's datasets: id, role, name, rows (respondents in the file), excluded respondents,
+SHA-256 of the original file, and which one is current for its role (the one analyses use), with
+the reason recorded when it was made current or withdrawn.
+
+  --json   one JSON object: {path, datasets: [{id, role, name, fileName, rows, excluded,
+           sha256, importedAt, current, standing}], current: {pilot, validation, retest}}
+  --help   this text`;
+
+export const USE_HELP = `usage: scalewright project use FILE --dataset N --reason TEXT [--json]
+
+Makes dataset N the current dataset of its role: the data the analyses of that role use from now
+on. A logged decision with your reason; rounds that ran on other data are then marked out of date.
+Reverse it by making the earlier dataset current again (project datasets lists them).
+
+  --dataset N     the dataset's id, as project datasets lists it
+  --reason TEXT   why (goes into the decision log; required)
+  --json          one JSON object describing the choice
+  --help          this text`;
+
+function cut(text: string, width: number): string {
+  return text.length > width ? `${text.slice(0, width - 1)}…` : text;
+}
+
+function wantsHelp(args: string[], help: string): boolean {
+  if (!args.includes('--help')) return false;
+  process.stdout.write(`${help}\n`);
+  return true;
+}
+
+/** `project datasets FILE [--json]`: every dataset with role, rows, SHA-256, and the current one of each role. */
+export async function datasetsCommand(args: string[], ctx: CliContext): Promise<number> {
+  if (wantsHelp(args, DATASETS_HELP)) return 0;
+  const values = parseStrict(args, { json: { type: 'boolean' } }, 1);
+  const file = values._[0];
+  if (!file) throw new UsageError('project datasets needs the study FILE');
+  const study = Study.open(resolveUserPath(file, ctx), { actor: currentActor(), app: CLI_APP, mode: 'read' });
+  try {
+    const view = pilotView(study);
+    const datasets = view.datasets.map((d) => ({
+      id: d.id,
+      role: d.role,
+      name: d.name,
+      fileName: d.fileName,
+      rows: d.respondents,
+      excluded: d.excluded,
+      sha256: d.fileSha256,
+      importedAt: d.importedAt,
+      current: d.current,
+      standing: d.standing.text,
+    }));
+    const currentOf = (role: string) => datasets.find((d) => d.role === role && d.current)?.id ?? null;
+    const value = {
+      path: study.path,
+      datasets,
+      current: {
+        pilot: currentOf('pilot'),
+        validation: currentOf('validation'),
+        retest: currentOf('retest'),
+      },
+    };
+    if (values.json === true) {
+      process.stdout.write(`${JSON.stringify(value)}\n`);
+      return 0;
+    }
+    const lines = [
+      study.path,
+      '',
+      datasets.length === 0
+        ? 'no datasets yet; add one with project import'
+        : formatTable(
+            ['id', 'role', 'name', 'rows', 'excl.', 'SHA-256', 'current'],
+            datasets.map((d) => [
+              String(d.id),
+              d.role,
+              cut(d.name, NAME_WIDTH),
+              String(d.rows),
+              String(d.excluded),
+              `${d.sha256.slice(0, 12)}…`,
+              d.current ? 'yes' : '',
+            ]),
+            ['right', 'left', 'left', 'right', 'right', 'left', 'left'],
+          ),
+      '',
+      ...datasets.map((d) => cut(`${d.id}: ${d.standing}`, 100)),
+    ];
+    process.stdout.write(`${lines.join('\n')}\n`);
+    return 0;
+  } finally {
+    study.close();
+  }
+}
+
+/** `project use FILE --dataset N --reason TEXT`: makes a dataset current for its role, as a logged decision. */
+export async function useCommand(args: string[], ctx: CliContext): Promise<number> {
+  if (wantsHelp(args, USE_HELP)) return 0;
+  const values = parseStrict(
+    args,
+    { dataset: { type: 'string' }, reason: { type: 'string' }, json: { type: 'boolean' } },
+    1,
+  );
+  const file = values._[0];
+  if (!file) throw new UsageError('project use needs the study FILE');
+  const raw = values.dataset;
+  if (typeof raw !== 'string') throw new UsageError('project use needs --dataset N (see project datasets)');
+  if (!/^\d+$/.test(raw.trim()) || Number(raw) < 1) {
+    throw new UsageError(`--dataset must be a dataset id, a whole number from 1 (got "${raw}")`);
+  }
+  const reason = typeof values.reason === 'string' ? values.reason.trim() : '';
+  if (reason === '')
+    throw new UsageError('project use needs --reason TEXT: why this dataset becomes current');
+  const study = Study.open(resolveUserPath(file, ctx), { actor: currentActor(), app: CLI_APP });
+  try {
+    const before = pilotView(study).datasets;
+    const choice = makeDatasetCurrent(study, Number(raw), reason);
+    const dataset = before.find((d) => d.id === choice.datasetId);
+    const previous = before.find((d) => d.role === choice.role && d.current);
+    const value = {
+      path: study.path,
+      datasetId: choice.datasetId,
+      role: choice.role,
+      name: dataset?.name ?? '',
+      previous: previous ? { id: previous.id, name: previous.name } : null,
+      reason: choice.reason,
+      decidedAt: choice.decidedAt,
+      logRows: study.log.count(),
+    };
+    if (values.json === true) process.stdout.write(`${JSON.stringify(value)}\n`);
+    else {
+      process.stdout.write(
+        `dataset ${value.datasetId} "${value.name}" is now the current ${value.role} data` +
+          `${previous ? ` (was dataset ${previous.id} "${previous.name}")` : ''}; logged as row ${value.logRows}\n`,
+      );
+    }
+    return 0;
+  } finally {
+    study.close();
+  }
+}
