@@ -20,8 +20,8 @@ import {
 } from '../phases/pilot.ts';
 import { type ImportRead, readDataFile } from '../phases/pilot-read.ts';
 import { RuleError } from '../phases/errors.ts';
-import { readUserFile } from './files.ts';
-import { parseStrict, resolveUserPath } from './main.ts';
+import { type CliCommand, type ParsedArgs, stringValue } from './command.ts';
+import { readUserFile, resolveUserPath } from './files.ts';
 import { formatTable } from './table.ts';
 import { type CliContext, DataError, UsageError } from './types.ts';
 
@@ -114,12 +114,6 @@ async function readMap(file: string, ctx: CliContext): Promise<MapFile> {
   return parsed.data;
 }
 
-function option(values: Record<string, unknown>, name: string): string | undefined {
-  const value = values[name];
-  if (value === true) throw new UsageError(`--${name} needs a value`);
-  return typeof value === 'string' ? value : undefined;
-}
-
 function describeColumns(check: ImportCheck): string {
   const count = (role: string) => check.columns.filter((c) => c.role === role).length;
   const some = (role: string, one: string, many: string) =>
@@ -156,29 +150,19 @@ function inspectForImport(studyPath: string, actor: ReturnType<typeof currentAct
  * Runs `project import` (see the module comment): exit 0 with the stored dataset's summary, 1 when the
  * data cannot be imported (with the reason, row and column), 2 for a usage mistake or a malformed map file.
  */
-export async function importCommand(args: string[], ctx: CliContext): Promise<number> {
-  const values = parseStrict(
-    args,
-    {
-      data: { type: 'string' },
-      role: { type: 'string' },
-      map: { type: 'string' },
-      json: { type: 'boolean' },
-    },
-    1,
-  );
+async function runImport(values: ParsedArgs, ctx: CliContext): Promise<number> {
   const studyFile = values._[0];
   if (!studyFile) throw new UsageError('project import needs the study FILE');
-  const data = option(values, 'data');
+  const data = stringValue(values, 'data');
   if (data === undefined)
     throw new UsageError('project import needs --data FILE (a CSV, TSV or .xlsx data file)');
-  const role = option(values, 'role');
+  const role = stringValue(values, 'role');
   if (role === undefined || !(DATASET_ROLES as readonly string[]).includes(role)) {
     throw new UsageError(
       `project import needs --role pilot, validation or retest${role === undefined ? '' : ` (got "${role}")`}`,
     );
   }
-  const mapPath = option(values, 'map');
+  const mapPath = stringValue(values, 'map');
   const map: MapFile = mapPath === undefined ? {} : await readMap(mapPath, ctx);
   const dataPath = resolveUserPath(data, ctx);
   const bytes = await readUserFile(data, 'data file', ctx);
@@ -303,3 +287,32 @@ export async function importCommand(args: string[], ctx: CliContext): Promise<nu
     study.close();
   }
 }
+
+export const importCommand: CliCommand = {
+  name: 'project import',
+  summary:
+    'import a data file (CSV, TSV or .xlsx) into the study as the import screen does: item columns matched to the item pool by code, the map file on top; the Pilot data phase must be open (not signed off)',
+  args: [{ name: 'FILE', description: 'the study file (.scalewright)' }],
+  options: {
+    data: {
+      type: 'string',
+      value: 'CSV',
+      required: true,
+      description: 'the data file: CSV, TSV or .xlsx with a header row',
+    },
+    role: {
+      type: 'string',
+      value: DATASET_ROLES.join('|'),
+      required: true,
+      description: 'what the data is for',
+    },
+    map: {
+      type: 'string',
+      value: 'map.json',
+      description:
+        'column roles, missing-value codes and reading settings (keys name, columns, missing, delimiter, encoding, decimalMark, sheet, acceptProblems; all optional)',
+    },
+    json: { type: 'boolean', description: 'print one JSON object instead of the readable text' },
+  },
+  run: runImport,
+};
