@@ -62,26 +62,45 @@ function checklistLines(items: ChecklistItem[]): string[] {
   return items.map((c) => wrapIndented(`${c.met ? '✓' : '○'} ${c.label}: ${c.detail}`, 4, 2));
 }
 
-function changeLine(c: UpstreamChange): string {
-  return wrapIndented(
-    `row ${c.seq}, ${when(c.at)}, ${c.by}: ${c.phaseTitle}, ${kindText(c.kind)}: ${c.target}`,
-    6,
-    4,
-  );
-}
-
-/** What changed before a phase since its sign-off, for the readable output. */
-function reviewLines(p: PhaseOverview): string[] {
-  const review = p.needsReview;
-  if (!review) return [];
-  const count = review.changes.length;
+/**
+ * The readable form of stale sign-offs: which phases need review (signed off when), then one table
+ * of the changes in earlier phases since, each with the phases it puts up for review.
+ */
+function reviewSection(stale: PhaseOverview[]): string[] {
+  if (stale.length === 0) return [];
+  const changes = new Map<number, { change: UpstreamChange; phases: string[] }>();
+  for (const p of stale) {
+    for (const change of p.needsReview?.changes ?? []) {
+      const entry = changes.get(change.seq) ?? { change, phases: [] };
+      entry.phases.push(p.title);
+      changes.set(change.seq, entry);
+    }
+  }
+  const phases = stale
+    .map((p) => `${p.title} (signed off ${when(p.needsReview?.signedOffAt ?? '')})`)
+    .join(', ');
   return [
-    wrapIndented(
-      `${p.title}: signed off ${when(review.signedOffAt)}; ${count} change${count === 1 ? '' : 's'} in earlier phases since ${when(review.since)}:`,
-      4,
-      2,
+    '',
+    wrapIndented(`Needs review: ${phases}. Earlier phases changed after these sign-offs:`, 0),
+    '',
+    formatTable(
+      ['log row', 'when', 'by', 'change', 'needs review'],
+      [...changes.values()]
+        .sort((a, b) => a.change.seq - b.change.seq)
+        .map(({ change: c, phases: affected }) => [
+          String(c.seq),
+          when(c.at),
+          c.by,
+          `${c.phaseTitle}, ${kindText(c.kind)}: ${c.target}`,
+          affected.join(', '),
+        ]),
+      ['right', 'left', 'left', 'left', 'left'],
     ),
-    ...review.changes.map(changeLine),
+    '',
+    wrapIndented(
+      'Sign such a phase off again with why it is still valid (project signoff), or reopen it (project reopen).',
+      0,
+    ),
   ];
 }
 
@@ -225,7 +244,6 @@ const statusCommand: CliCommand = {
             .map((c) => ({ id: c.id, label: c.label, detail: c.detail })),
         })),
       };
-      const stale = phases.filter((p) => p.needsReview);
       const lines = [
         cut(value.title || value.path, LINE_WIDTH),
         wrapIndented(`${value.path} · file version ${value.version} · ${rows} log rows`, 2),
@@ -243,16 +261,7 @@ const statusCommand: CliCommand = {
           ['left', 'left', 'left', 'right'],
         ),
       ];
-      if (stale.length > 0) {
-        lines.push(
-          '',
-          wrapIndented(
-            'Needs review: signed off before these changes in earlier phases. Sign the phase off again (project signoff, with why it is still valid) or reopen it.',
-            0,
-          ),
-          ...stale.flatMap(reviewLines),
-        );
-      }
+      lines.push(...reviewSection(phases.filter((p) => p.needsReview)));
       print(values.json === true, value, lines.join('\n'));
       return 0;
     } finally {
