@@ -60,12 +60,10 @@ function usageParts(spec: CommandSpec): string[] {
   return parts;
 }
 
-/** `scalewright project status FILE [--json]`: required options bare, the others in brackets. */
-export function usageLine(spec: CommandSpec): string {
-  return usageParts(spec).join(' ').replaceAll(KEEP_TOGETHER, ' ');
-}
-
-/** The usage line wrapped between options, never inside one. */
+/**
+ * The usage line (`scalewright project status FILE [--json]`: required options bare, the others in
+ * brackets), wrapped between options, never inside one.
+ */
 function wrappedUsage(spec: CommandSpec, prefix: string, indent: number, first: number): string {
   return wrapIndented(`${prefix}${usageParts(spec).join(' ')}`, indent, first).replaceAll(KEEP_TOGETHER, ' ');
 }

@@ -1,7 +1,7 @@
 import { EngineError } from '../../engine/errors.ts';
 import { type ItemAnalysis, analyseItems, DEFAULT_CI_LEVEL } from '../../engine/reliability.ts';
 import { MIN_BOOTSTRAP_RESAMPLES } from '../../engine/reliability/bootstrap.ts';
-import { formatTable } from '../table.ts';
+import { formatTable, wrapIndented } from '../table.ts';
 import { DataError, type StatsAnalysis, type StatsResult, UsageError } from '../types.ts';
 import {
   COMMON_STATS_OPTIONS,
@@ -91,8 +91,11 @@ export function reliabilityJson(loaded: LoadedItems, a: ItemAnalysis, seed: numb
 export function reliabilityTable(loaded: LoadedItems, a: ItemAnalysis): string {
   const pct = `${Math.round(a.alphaCI.level * 100)}%`;
   const lines = [
-    `Reliability of ${a.k} items from ${loaded.file}: n = ${a.n} (${a.missingData.method} deletion, ` +
-      `${a.missingData.dropped} of ${a.missingData.respondents} respondents left out)`,
+    wrapIndented(
+      `Reliability of ${a.k} items from ${loaded.file}: n = ${a.n} (${a.missingData.method} deletion, ` +
+        `${a.missingData.dropped} of ${a.missingData.respondents} respondents left out)`,
+      2,
+    ),
     '',
     `  alpha                 ${round(a.alpha.value)}  ${a.alpha.band}`,
     `    ${pct} CI            ${round(a.alphaCI.lower)} to ${round(a.alphaCI.upper)} (Feldt)`,

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { COMMANDS } from '../../../app/cli/main.ts';
+import { formatTable } from '../../../app/cli/table.ts';
 import { runCli, runCliHere } from '../../helpers/cli.ts';
 
 const EVERY_COMMAND = Object.values(COMMANDS).flatMap((group) => Object.values(group));
@@ -78,5 +79,44 @@ describe('--help', () => {
     const run = await runCliHere(['project', 'status', 'x.scalewright', '--wide']);
     expect(run.code).toBe(2);
     expect(run.stderr).toMatch(/^error: unknown option '--wide'.*see project status --help\)\n$/);
+  });
+});
+
+describe('readable output fits 100 columns', () => {
+  it.each([
+    [
+      'stats reliability',
+      'stats reliability --data assets/examples/validation-wave.csv --items TR01,TR02,TR03,TR04,TR05,TR06,TR07,TR08,TR09 --missing-codes -9',
+    ],
+    ['stats content', 'stats content --ratings assets/examples/ratings.csv'],
+  ])('%s on the example files', async (_name, line) => {
+    const run = await runCliHere(line.split(' '));
+    expect(run.code).toBe(0);
+    expect(widest(run.stdout)).toBeLessThanOrEqual(100);
+  });
+});
+
+describe('formatTable', () => {
+  it('wraps the text columns of a table wider than the line, keeps numbers whole, and cuts a word longer than its column', () => {
+    const long = 'word '.repeat(40).trim();
+    const table = formatTable(
+      ['name', 'notes', 'n'],
+      [
+        ['first', long, '12345'],
+        ['second', `${'x'.repeat(150)} end`, '7'],
+      ],
+      ['left', 'left', 'right'],
+    );
+    const lines = table.split('\n');
+    expect(widest(table)).toBeLessThanOrEqual(100);
+    expect(lines[2]).toMatch(/^first +word word .* 12345$/);
+    // Every word of the wrapped cell is still there, in order.
+    expect((table.match(/word/g) ?? []).length).toBe(40);
+    expect(table).toMatch(/x…/);
+    expect(table).toMatch(/ end/);
+  });
+
+  it('leaves a table that fits as it was', () => {
+    expect(formatTable(['a', 'b'], [['1', 'two']])).toBe('a  b\n─  ───\n1  two');
   });
 });
