@@ -12,9 +12,10 @@ export function cut(text: string, width: number): string {
 
 /**
  * Breaks `text` into lines of at most `width` characters at spaces; a word longer than a line is
- * cut with an ellipsis. Line breaks already in the text are kept.
+ * cut with an ellipsis. Line breaks already in the text are kept; text that fits is left as it is.
  */
 export function wrap(text: string, width: number): string[] {
+  if (text.length <= width && !text.includes('\n')) return [text];
   const lines: string[] = [];
   for (const paragraph of text.split('\n')) {
     let line = '';
