@@ -216,6 +216,27 @@ export class DecisionLog {
     return out;
   }
 
+  /** The latest row of `kind` written by `phase`, if any. */
+  latest(phase: string, kind: string): LogEntry | undefined {
+    const row = this.db
+      .prepare('SELECT * FROM decision_log WHERE phase = ? AND kind = ? ORDER BY seq DESC LIMIT 1')
+      .get(phase, kind) as LogRow | undefined;
+    return row && fromRow(row);
+  }
+
+  /** Rows after `seq` written by any of `phases`, leaving out the kinds in `exceptKinds`; oldest first. */
+  after(seq: number, phases: readonly string[], exceptKinds: readonly string[]): LogEntry[] {
+    if (phases.length === 0) return [];
+    const rows = this.db
+      .prepare(
+        `SELECT * FROM decision_log
+         WHERE seq > ? AND phase IN (SELECT value FROM json_each(?)) AND kind NOT IN (SELECT value FROM json_each(?))
+         ORDER BY seq`,
+      )
+      .all(seq, JSON.stringify(phases), JSON.stringify(exceptKinds)) as LogRow[];
+    return rows.map(fromRow);
+  }
+
   count(): number {
     return (this.db.prepare('SELECT count(*) AS n FROM decision_log').get() as { n: number }).n;
   }

@@ -8,5 +8,7 @@ export default defineConfig({
     environment: 'node',
     pool: 'forks',
     testTimeout: 30_000,
+    // Creating the demo study in a beforeAll takes seconds on a busy machine.
+    hookTimeout: 60_000,
   },
 });

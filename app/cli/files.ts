@@ -2,6 +2,11 @@ import { readFile } from 'node:fs/promises';
 import { resolve } from 'node:path';
 import { type CliContext, DataError } from './types.ts';
 
+/** Resolves a path the user typed against the folder they ran npm from. */
+export function resolveUserPath(file: string, ctx: CliContext): string {
+  return resolve(ctx.cwd, file);
+}
+
 /**
  * Reads a file the user named (relative to the folder they ran the command from); a file that
  * cannot be read is a data error saying which file and why.

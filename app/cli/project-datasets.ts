@@ -1,8 +1,9 @@
 import { Study } from '../../db/study.ts';
 import { currentActor } from '../launch/user-data.ts';
 import { pilotView, makeDatasetCurrent } from '../phases/pilot.ts';
-import { parseStrict, resolveUserPath } from './main.ts';
-import { formatTable } from './table.ts';
+import { type CliCommand, type ParsedArgs, stringValue } from './command.ts';
+import { resolveUserPath } from './files.ts';
+import { cut, formatTable, LINE_WIDTH } from './table.ts';
 import { type CliContext, UsageError } from './types.ts';
 
 const CLI_APP = 'the Scalewright command line';
@@ -10,41 +11,25 @@ const CLI_APP = 'the Scalewright command line';
 /** Longest dataset name shown in the table; longer names end in an ellipsis (the JSON has them whole). */
 const NAME_WIDTH = 28;
 
-export const DATASETS_HELP = `usage: scalewright project datasets FILE [--json]
-
-Lists the study's datasets: id, role, name, rows (respondents in the file), excluded respondents,
-SHA-256 of the original file, and which one is current for its role (the one analyses use), with
-the reason recorded when it was made current or withdrawn.
-
-  --json   one JSON object: {path, datasets: [{id, role, name, fileName, rows, excluded,
-           sha256, importedAt, current, standing}], current: {pilot, validation, retest}}
-  --help   this text`;
-
-export const USE_HELP = `usage: scalewright project use FILE --dataset N --reason TEXT [--json]
-
-Makes dataset N the current dataset of its role: the data the analyses of that role use from now
-on. A logged decision with your reason; rounds that ran on other data are then marked out of date.
-Reverse it by making the earlier dataset current again (project datasets lists them).
-
-  --dataset N     the dataset's id, as project datasets lists it
-  --reason TEXT   why (goes into the decision log; required)
-  --json          one JSON object describing the choice
-  --help          this text`;
-
-function cut(text: string, width: number): string {
-  return text.length > width ? `${text.slice(0, width - 1)}…` : text;
-}
-
-function wantsHelp(args: string[], help: string): boolean {
-  if (!args.includes('--help')) return false;
-  process.stdout.write(`${help}\n`);
-  return true;
-}
+const STUDY_FILE = { name: 'FILE', description: 'the study file (.scalewright)' };
 
 /** `project datasets FILE [--json]`: every dataset with role, rows, SHA-256, and the current one of each role. */
-export async function datasetsCommand(args: string[], ctx: CliContext): Promise<number> {
-  if (wantsHelp(args, DATASETS_HELP)) return 0;
-  const values = parseStrict(args, { json: { type: 'boolean' } }, 1);
+export const datasetsCommand: CliCommand = {
+  name: 'project datasets',
+  summary:
+    "list the study's datasets: id, role, name, rows, excluded respondents, the original file's SHA-256, and which one is current for its role (the one analyses use), with the reason recorded",
+  args: [STUDY_FILE],
+  options: {
+    json: {
+      type: 'boolean',
+      description:
+        'one JSON object: {path, datasets: [{id, role, name, fileName, rows, excluded, sha256, importedAt, current, standing}], current: {pilot, validation, retest}}',
+    },
+  },
+  run: listDatasets,
+};
+
+async function listDatasets(values: ParsedArgs, ctx: CliContext): Promise<number> {
   const file = values._[0];
   if (!file) throw new UsageError('project datasets needs the study FILE');
   const study = Study.open(resolveUserPath(file, ctx), { actor: currentActor(), app: CLI_APP, mode: 'read' });
@@ -95,7 +80,7 @@ export async function datasetsCommand(args: string[], ctx: CliContext): Promise<
             ['right', 'left', 'left', 'right', 'right', 'left', 'left'],
           ),
       '',
-      ...datasets.map((d) => cut(`${d.id}: ${d.standing}`, 100)),
+      ...datasets.map((d) => cut(`${d.id}: ${d.standing}`, LINE_WIDTH)),
     ];
     process.stdout.write(`${lines.join('\n')}\n`);
     return 0;
@@ -105,21 +90,33 @@ export async function datasetsCommand(args: string[], ctx: CliContext): Promise<
 }
 
 /** `project use FILE --dataset N --reason TEXT`: makes a dataset current for its role, as a logged decision. */
-export async function useCommand(args: string[], ctx: CliContext): Promise<number> {
-  if (wantsHelp(args, USE_HELP)) return 0;
-  const values = parseStrict(
-    args,
-    { dataset: { type: 'string' }, reason: { type: 'string' }, json: { type: 'boolean' } },
-    1,
-  );
+export const useCommand: CliCommand = {
+  name: 'project use',
+  summary:
+    'make a dataset the current one of its role, the data its analyses use from now on (a logged decision); rounds on other data are then out of date. Reverse it by making the earlier dataset current again',
+  args: [STUDY_FILE],
+  options: {
+    dataset: {
+      type: 'string',
+      value: 'N',
+      required: true,
+      description: "the dataset's id, as project datasets lists it",
+    },
+    reason: { type: 'string', value: 'TEXT', required: true, description: 'why; goes into the decision log' },
+    json: { type: 'boolean', description: 'one JSON object describing the choice' },
+  },
+  run: useDataset,
+};
+
+async function useDataset(values: ParsedArgs, ctx: CliContext): Promise<number> {
   const file = values._[0];
   if (!file) throw new UsageError('project use needs the study FILE');
-  const raw = values.dataset;
-  if (typeof raw !== 'string') throw new UsageError('project use needs --dataset N (see project datasets)');
+  const raw = stringValue(values, 'dataset');
+  if (raw === undefined) throw new UsageError('project use needs --dataset N (see project datasets)');
   if (!/^\d+$/.test(raw.trim()) || Number(raw) < 1) {
     throw new UsageError(`--dataset must be a dataset id, a whole number from 1 (got "${raw}")`);
   }
-  const reason = typeof values.reason === 'string' ? values.reason.trim() : '';
+  const reason = stringValue(values, 'reason')?.trim() ?? '';
   if (reason === '')
     throw new UsageError('project use needs --reason TEXT: why this dataset becomes current');
   const study = Study.open(resolveUserPath(file, ctx), { actor: currentActor(), app: CLI_APP });

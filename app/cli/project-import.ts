@@ -23,8 +23,8 @@ import {
 import { type ImportRead, readDataFile } from '../phases/pilot-read.ts';
 import { currentDataset } from '../phases/analysis-data.ts';
 import { RuleError } from '../phases/errors.ts';
-import { readUserFile } from './files.ts';
-import { parseStrict, resolveUserPath } from './main.ts';
+import { type CliCommand, type ParsedArgs, stringValue } from './command.ts';
+import { readUserFile, resolveUserPath } from './files.ts';
 import { formatTable } from './table.ts';
 import { type CliContext, DataError, UsageError } from './types.ts';
 
@@ -51,28 +51,6 @@ import { type CliContext, DataError, UsageError } from './types.ts';
  * into a role that has one leaves that one current; the output says which happened and how to change
  * it. Making it replace a current dataset needs `--reason TEXT` (logged with the choice).
  */
-
-export const IMPORT_HELP = `usage: scalewright project import FILE --data CSV --role pilot|validation|retest
-                                  [--map map.json] [--current yes|no] [--reason TEXT] [--json]
-
-Reads a data file (CSV, TSV or .xlsx) into the study: item columns matched to the item pool by
-code, id and duration columns by their usual names, the map file's settings on top. A file with
-problems (text in a numeric column, values outside the response format) is refused unless the
-map file says "acceptProblems": true.
-
-  --data FILE      the data file
-  --role ROLE      pilot, validation or retest
-  --map FILE       JSON with any of: name, columns, missing, delimiter, encoding,
-                   decimalMark ("." or ","), sheet, acceptProblems
-  --current yes|no whether the new dataset becomes the current one of its role (the data its
-                   analyses use). Default: yes when the role has no current dataset; otherwise
-                   no: the current one stays, and the output says how to switch with
-                   project use FILE --dataset N --reason TEXT
-  --reason TEXT    why the new dataset replaces the current one (needed with --current yes
-                   when the role already has a current dataset)
-  --json           one JSON object (current: whether it became current; currentDataset: the
-                   current dataset of its role after the import)
-  --help           this text`;
 
 const CLI_APP = 'the Scalewright command line';
 
@@ -144,12 +122,6 @@ async function readMap(file: string, ctx: CliContext): Promise<MapFile> {
   return parsed.data;
 }
 
-function option(values: Record<string, unknown>, name: string): string | undefined {
-  const value = values[name];
-  if (value === true) throw new UsageError(`--${name} needs a value`);
-  return typeof value === 'string' ? value : undefined;
-}
-
 function describeColumns(check: ImportCheck): string {
   const count = (role: string) => check.columns.filter((c) => c.role === role).length;
   const some = (role: string, one: string, many: string) =>
@@ -186,43 +158,27 @@ function inspectForImport(studyPath: string, actor: ReturnType<typeof currentAct
  * Runs `project import` (see the module comment): exit 0 with the stored dataset's summary, 1 when the
  * data cannot be imported (with the reason, row and column), 2 for a usage mistake or a malformed map file.
  */
-export async function importCommand(args: string[], ctx: CliContext): Promise<number> {
-  if (args.includes('--help')) {
-    process.stdout.write(`${IMPORT_HELP}\n`);
-    return 0;
-  }
-  const values = parseStrict(
-    args,
-    {
-      data: { type: 'string' },
-      role: { type: 'string' },
-      map: { type: 'string' },
-      current: { type: 'string' },
-      reason: { type: 'string' },
-      json: { type: 'boolean' },
-    },
-    1,
-  );
+async function runImport(values: ParsedArgs, ctx: CliContext): Promise<number> {
   const studyFile = values._[0];
   if (!studyFile) throw new UsageError('project import needs the study FILE');
-  const data = option(values, 'data');
+  const data = stringValue(values, 'data');
   if (data === undefined)
     throw new UsageError('project import needs --data FILE (a CSV, TSV or .xlsx data file)');
-  const role = option(values, 'role');
+  const role = stringValue(values, 'role');
   if (role === undefined || !(DATASET_ROLES as readonly string[]).includes(role)) {
     throw new UsageError(
       `project import needs --role pilot, validation or retest${role === undefined ? '' : ` (got "${role}")`}`,
     );
   }
-  const currentRaw = option(values, 'current');
+  const currentRaw = stringValue(values, 'current');
   if (currentRaw !== undefined && currentRaw !== 'yes' && currentRaw !== 'no') {
     throw new UsageError(`--current must be yes or no (got "${currentRaw}")`);
   }
-  const reason = option(values, 'reason');
+  const reason = stringValue(values, 'reason');
   if (reason !== undefined && currentRaw !== 'yes') {
     throw new UsageError('--reason goes with --current yes: it says why the new dataset becomes current');
   }
-  const mapPath = option(values, 'map');
+  const mapPath = stringValue(values, 'map');
   const map: MapFile = mapPath === undefined ? {} : await readMap(mapPath, ctx);
   const dataPath = resolveUserPath(data, ctx);
   const bytes = await readUserFile(data, 'data file', ctx);
@@ -385,3 +341,48 @@ export async function importCommand(args: string[], ctx: CliContext): Promise<nu
     study.close();
   }
 }
+
+export const importCommand: CliCommand = {
+  name: 'project import',
+  summary:
+    'import a data file (CSV, TSV or .xlsx) into the study as the import screen does: item columns matched to the item pool by code, the map file on top; the Pilot data phase must be open (not signed off)',
+  args: [{ name: 'FILE', description: 'the study file (.scalewright)' }],
+  options: {
+    data: {
+      type: 'string',
+      value: 'CSV',
+      required: true,
+      description: 'the data file: CSV, TSV or .xlsx with a header row',
+    },
+    role: {
+      type: 'string',
+      value: DATASET_ROLES.join('|'),
+      required: true,
+      description: 'what the data is for',
+    },
+    map: {
+      type: 'string',
+      value: 'map.json',
+      description:
+        'column roles, missing-value codes and reading settings (keys name, columns, missing, delimiter, encoding, decimalMark, sheet, acceptProblems; all optional)',
+    },
+    current: {
+      type: 'string',
+      value: 'yes|no',
+      description:
+        'whether the new dataset becomes the current one of its role (the data its analyses use). Default: yes when the role has no current dataset; otherwise no: the current one stays, and the output says how to switch with project use',
+    },
+    reason: {
+      type: 'string',
+      value: 'TEXT',
+      description:
+        'why the new dataset replaces the current one (needed with --current yes when the role has one)',
+    },
+    json: {
+      type: 'boolean',
+      description:
+        'one JSON object (current: whether it became current; currentDataset: the current dataset of its role after the import)',
+    },
+  },
+  run: runImport,
+};

@@ -1,99 +1,328 @@
-import { currentActor } from '../launch/user-data.ts';
-import { fillDemoStudy, DEMO_TITLE } from '../demo/index.ts';
+import { PHASE_IDS, type PhaseId } from '../../db/repos/phase-state.ts';
 import { Study } from '../../db/study.ts';
 import { type BreakCheck, breakPlace, parseHead, verifyStudy } from '../../db/verify.ts';
-import { studyOverview } from '../phases/index.ts';
-import { parseStrict, resolveUserPath } from './main.ts';
+import { DEMO_TITLE, fillDemoStudy } from '../demo/index.ts';
+import { currentActor } from '../launch/user-data.ts';
+import { RuleError } from '../phases/errors.ts';
+import {
+  type PhaseOverview,
+  phaseOverview,
+  reopenPhase,
+  signOffPhase,
+  studyOverview,
+  type UpstreamChange,
+} from '../phases/index.ts';
+import type { ChecklistItem } from '../phases/types.ts';
+import { type CliCommand, type OptionSpec, type ParsedArgs, stringValue } from './command.ts';
+import { resolveUserPath } from './files.ts';
 import { datasetsCommand, useCommand } from './project-datasets.ts';
 import { importCommand } from './project-import.ts';
-import { formatTable } from './table.ts';
+import { cut, formatTable, LINE_WIDTH, wrapIndented } from './table.ts';
 import { type CliContext, DataError, UsageError } from './types.ts';
-
-type ProjectCommand = (args: string[], ctx: CliContext) => Promise<number>;
 
 const CLI_APP = 'the Scalewright command line';
 
-function studyArg(values: { _: string[] }, command: string, ctx: CliContext): string {
+const STUDY_FILE = { name: 'FILE', description: 'the study file (.scalewright)' };
+const JSON_OPTION: OptionSpec = {
+  type: 'boolean',
+  description: 'print one JSON object instead of the readable text',
+};
+const PHASE_OPTION: OptionSpec = {
+  type: 'string',
+  value: 'ID',
+  required: true,
+  description: `the phase: ${PHASE_IDS.join(', ')}`,
+};
+
+function studyArg(values: ParsedArgs, command: string, ctx: CliContext): string {
   const file = values._[0];
   if (!file) throw new UsageError(`project ${command} needs the study FILE`);
   return resolveUserPath(file, ctx);
 }
 
-function print(json: boolean, value: unknown, table: string): void {
-  process.stdout.write(json ? `${JSON.stringify(value)}\n` : `${table}\n`);
+function print(json: boolean, value: unknown, text: string): void {
+  process.stdout.write(json ? `${JSON.stringify(value)}\n` : `${text}\n`);
 }
 
-export const projectCommands: Record<string, ProjectCommand> = {
-  async new(args, ctx) {
-    const values = parseStrict(
-      args,
-      { demo: { type: 'boolean' }, title: { type: 'string' }, json: { type: 'boolean' } },
-      1,
+/** "2026-12-01T22:51:07.123Z" → "2026-12-01 22:51 UTC". */
+function when(iso: string): string {
+  return `${iso.slice(0, 10)} ${iso.slice(11, 16)} UTC`;
+}
+
+/** "facet-added" → "facet added", as the decision log screen shows kinds. */
+function kindText(kind: string): string {
+  return kind.replace(/-/g, ' ');
+}
+
+/** The state as a person reads it; a signed-off phase whose earlier phases changed says so. */
+function stateText(p: PhaseOverview): string {
+  return p.needsReview ? 'needs review' : p.status.replace('-', ' ');
+}
+
+function checklistLines(items: ChecklistItem[]): string[] {
+  return items.map((c) => wrapIndented(`${c.met ? '✓' : '○'} ${c.label}: ${c.detail}`, 4, 2));
+}
+
+/**
+ * The readable form of stale sign-offs: which phases need review (signed off when), then one table
+ * of the changes in earlier phases since, each with the phases it puts up for review.
+ */
+function reviewSection(stale: PhaseOverview[]): string[] {
+  if (stale.length === 0) return [];
+  const changes = new Map<number, { change: UpstreamChange; phases: string[] }>();
+  for (const p of stale) {
+    for (const change of p.needsReview?.changes ?? []) {
+      const entry = changes.get(change.seq) ?? { change, phases: [] };
+      entry.phases.push(p.title);
+      changes.set(change.seq, entry);
+    }
+  }
+  const phases = stale
+    .map((p) => `${p.title} (signed off ${when(p.needsReview?.signedOffAt ?? '')})`)
+    .join(', ');
+  return [
+    '',
+    wrapIndented(`Needs review: ${phases}. Earlier phases changed after these sign-offs:`, 0),
+    '',
+    formatTable(
+      ['log row', 'when', 'by', 'change', 'needs review'],
+      [...changes.values()]
+        .sort((a, b) => a.change.seq - b.change.seq)
+        .map(({ change: c, phases: affected }) => [
+          String(c.seq),
+          when(c.at),
+          c.by,
+          `${c.phaseTitle}, ${kindText(c.kind)}: ${c.target}`,
+          affected.join(', '),
+        ]),
+      ['right', 'left', 'left', 'left', 'left'],
+    ),
+    '',
+    wrapIndented(
+      'Sign such a phase off again with why it is still valid (project signoff), or reopen it (project reopen).',
+      0,
+    ),
+  ];
+}
+
+function readPhase(values: ParsedArgs): PhaseId {
+  const phase = stringValue(values, 'phase');
+  if (phase === undefined) throw new UsageError(`--phase is required: one of ${PHASE_IDS.join(', ')}`);
+  if (!(PHASE_IDS as readonly string[]).includes(phase)) {
+    throw new UsageError(`unknown phase "${phase}"; choose one of ${PHASE_IDS.join(', ')}`);
+  }
+  return phase as PhaseId;
+}
+
+function readReason(values: ParsedArgs, what: string): string {
+  const reason = stringValue(values, 'reason');
+  if (reason === undefined || reason.trim() === '') {
+    throw new UsageError(`--reason TEXT is required: ${what}`);
+  }
+  return reason;
+}
+
+/** The JSON of a phase action: the phase as it stands now, and the log row written (if any). */
+function phaseActionJson(study: Study, p: PhaseOverview, done: boolean) {
+  const head = study.log.list({ limit: 1 })[0];
+  return {
+    path: study.path,
+    phase: p.id,
+    title: p.title,
+    done,
+    state: p.status,
+    needsReview: p.needsReview,
+    checklist: p.checklist,
+    logRow: done && head ? { seq: head.seq, hash: head.hash, kind: head.kind } : null,
+  };
+}
+
+/**
+ * Runs a sign-off or reopen as the app does. A refusal because the checklist is not met prints the
+ * checklist (or the JSON object with `done: false`) and exits 1 with the unmet items on stderr.
+ */
+async function phaseAction(
+  values: ParsedArgs,
+  ctx: CliContext,
+  command: 'signoff' | 'reopen',
+): Promise<number> {
+  const file = studyArg(values, command, ctx);
+  const phase = readPhase(values);
+  const reason = readReason(
+    values,
+    command === 'signoff'
+      ? 'what was agreed (for a phase that needs review: why it is still valid)'
+      : 'why the phase is reopened',
+  );
+  const json = values.json === true;
+  const study = Study.open(file, { actor: currentActor(), app: CLI_APP });
+  try {
+    try {
+      if (command === 'signoff') signOffPhase(study, phase, reason);
+      else reopenPhase(study, phase, reason);
+    } catch (error) {
+      if (error instanceof RuleError && error.code === 'gate') {
+        const p = phaseOverview(study, phase);
+        print(
+          json,
+          phaseActionJson(study, p, false),
+          [`${p.title} phase: not signed off; its checklist:`, ...checklistLines(p.checklist)].join('\n'),
+        );
+      }
+      throw error;
+    }
+    const p = phaseOverview(study, phase);
+    const head = study.log.list({ limit: 1 })[0];
+    const verb = command === 'signoff' ? 'signed off' : 'reopened';
+    print(
+      json,
+      phaseActionJson(study, p, true),
+      [
+        wrapIndented(`${verb} the ${p.title} phase of ${study.path} (log row ${head.seq})`, 2),
+        ...(command === 'signoff' ? ['checklist:', ...checklistLines(p.checklist)] : []),
+      ].join('\n'),
     );
+    return 0;
+  } finally {
+    study.close();
+  }
+}
+
+const newCommand: CliCommand = {
+  name: 'project new',
+  summary: 'create a study file',
+  args: [STUDY_FILE],
+  options: {
+    demo: {
+      type: 'boolean',
+      description: 'fill it with the invented demo study, every available phase worked',
+    },
+    title: { type: 'string', value: 'TEXT', description: 'the study title' },
+    json: JSON_OPTION,
+  },
+  async run(values, ctx) {
     const file = studyArg(values, 'new', ctx);
     const demo = values.demo === true;
+    const title = stringValue(values, 'title');
     const study = Study.create(
       file,
       { actor: currentActor(), app: CLI_APP },
-      {
-        title: typeof values.title === 'string' ? values.title : demo ? DEMO_TITLE : '',
-        init: demo ? fillDemoStudy : undefined,
-      },
+      { title: title ?? (demo ? DEMO_TITLE : ''), init: demo ? fillDemoStudy : undefined },
     );
     const summary = { path: study.path, demo, version: study.version, logRows: study.log.count() };
     study.close();
     print(values.json === true, summary, `created ${summary.path}${demo ? ' (demo study)' : ''}`);
     return 0;
   },
+};
 
-  async status(args, ctx) {
-    const values = parseStrict(args, { json: { type: 'boolean' } }, 1);
+const statusCommand: CliCommand = {
+  name: 'project status',
+  summary:
+    'phases with their states, what they hold, open gates, and signed-off phases that need review because an earlier phase changed since',
+  args: [STUDY_FILE],
+  options: { json: JSON_OPTION },
+  async run(values, ctx) {
     const file = studyArg(values, 'status', ctx);
     const study = Study.open(file, { actor: currentActor(), app: CLI_APP, mode: 'read' });
     try {
       const phases = studyOverview(study);
+      const rows = study.log.count();
       const value = {
         path: study.path,
         title: study.meta('title') ?? '',
         version: study.version,
-        logRows: study.log.count(),
-        log: { rows: study.log.count(), head: study.log.head() ?? null },
+        logRows: rows,
+        log: { rows, head: study.log.head() ?? null },
         phases: phases.map((p) => ({
           phase: p.id,
           title: p.title,
           state: p.status,
+          needsReview: p.needsReview,
           holds: p.holds,
           openGates: p.checklist
             .filter((c) => !c.met)
             .map((c) => ({ id: c.id, label: c.label, detail: c.detail })),
         })),
       };
-      const table = [
-        `${value.title || value.path}`,
-        `${value.path} · file version ${value.version} · ${value.logRows} log rows`,
-        `log head ${value.log.head ?? 'none (the log is empty)'}`,
+      const lines = [
+        cut(value.title || value.path, LINE_WIDTH),
+        wrapIndented(`${value.path} · file version ${value.version} · ${rows} log rows`, 2),
+        cut(`log head ${value.log.head ?? 'none (the log is empty)'}`, LINE_WIDTH),
         '  (record it outside the file; project verify FILE --head SEQ:HASH checks it later)',
         '',
         formatTable(
           ['phase', 'state', 'holds', 'open gates'],
-          value.phases.map((p) => [p.title, p.state, p.holds.join(', '), String(p.openGates.length)]),
+          phases.map((p) => [
+            p.title,
+            stateText(p),
+            p.holds.join(', '),
+            String(p.checklist.filter((c) => !c.met).length),
+          ]),
+          ['left', 'left', 'left', 'right'],
         ),
-      ].join('\n');
-      print(values.json === true, value, table);
+      ];
+      lines.push(...reviewSection(phases.filter((p) => p.needsReview)));
+      print(values.json === true, value, lines.join('\n'));
       return 0;
     } finally {
       study.close();
     }
   },
+};
 
-  import: importCommand,
-  datasets: datasetsCommand,
-  use: useCommand,
+const signoffCommand: CliCommand = {
+  name: 'project signoff',
+  summary:
+    'sign a phase off (a logged decision); refused, with the checklist, while any of its items is unmet. A signed-off phase that needs review is signed off again in place, the reason saying why it is still valid',
+  args: [STUDY_FILE],
+  options: {
+    phase: PHASE_OPTION,
+    reason: {
+      type: 'string',
+      value: 'TEXT',
+      required: true,
+      description: 'the sign-off note that goes into the log',
+    },
+    json: JSON_OPTION,
+  },
+  run: (values, ctx) => phaseAction(values, ctx, 'signoff'),
+};
 
-  async verify(args, ctx) {
-    const values = parseStrict(args, { json: { type: 'boolean' }, head: { type: 'string' } }, 1);
+const reopenCommand: CliCommand = {
+  name: 'project reopen',
+  summary: 'reopen a signed-off phase so it can change (a logged decision)',
+  args: [STUDY_FILE],
+  options: {
+    phase: PHASE_OPTION,
+    reason: {
+      type: 'string',
+      value: 'TEXT',
+      required: true,
+      description: 'why it is reopened; goes into the log',
+    },
+    json: JSON_OPTION,
+  },
+  run: (values, ctx) => phaseAction(values, ctx, 'reopen'),
+};
+
+const verifyCommand: CliCommand = {
+  name: 'project verify',
+  summary:
+    "check the file's integrity, the decision log's hash chain, every stored data file and analysis run, and the content against the last log row; exit 1 on any break",
+  args: [STUDY_FILE],
+  options: {
+    head: {
+      type: 'string',
+      value: 'SEQ:HASH',
+      description:
+        'a log head recorded outside the file (as project status prints it): check the log still holds it',
+    },
+    json: JSON_OPTION,
+  },
+  async run(values, ctx) {
     const file = studyArg(values, 'verify', ctx);
-    const head = typeof values.head === 'string' ? values.head : undefined;
+    const head = stringValue(values, 'head');
     if (head !== undefined && !parseHead(head)) {
       throw new UsageError(
         `--head "${head}" is not a log head; give it as SEQ:HASH (the row number, a colon and the row's 64-hex-digit hash, as project status prints it)`,
@@ -131,8 +360,8 @@ export const projectCommands: Record<string, ProjectCommand> = {
             ]
           : []),
         `head: ${report.head ?? 'none (the log is empty)'}`,
-        ...report.breaks.flatMap((b) =>
-          wrap(`${b.check}: ${[breakPlace(b), b.problem].filter(Boolean).join(': ')}`),
+        ...report.breaks.map((b) =>
+          wrapIndented(`${b.check}: ${[breakPlace(b), b.problem].filter(Boolean).join(': ')}`, 4, 2),
         ),
       ];
       print(values.json === true, value, lines.join('\n'));
@@ -150,17 +379,14 @@ export const projectCommands: Record<string, ProjectCommand> = {
   },
 };
 
-/** Indents a break under the summary and wraps it to the 100 columns a table may use. */
-function wrap(text: string, width = 100): string[] {
-  const lines: string[] = [];
-  let line = ' ';
-  for (const word of text.split(' ')) {
-    if (line.length + 1 + word.length > width && line.trim() !== '') {
-      lines.push(line);
-      line = '    ';
-    }
-    line += ` ${word}`;
-  }
-  lines.push(line);
-  return lines.map((l) => (l.length > width ? `${l.slice(0, width - 1)}…` : l));
-}
+/** Every `project` command, in the order the help lists them. */
+export const PROJECT_COMMANDS: CliCommand[] = [
+  newCommand,
+  statusCommand,
+  importCommand,
+  datasetsCommand,
+  useCommand,
+  reopenCommand,
+  signoffCommand,
+  verifyCommand,
+];

@@ -1,4 +1,4 @@
-import type { ParseArgsConfig } from 'node:util';
+import type { OptionSpecs } from './command.ts';
 
 /** A mistake in how the command was called: exit code 2. */
 export class UsageError extends Error {
@@ -27,15 +27,17 @@ export interface StatsResult {
 }
 
 /**
- * One `stats <name>` analysis. The dispatcher (app/cli/main.ts) adds the common options
- * (--data, --items, --reverse, --min, --max, --missing, --missing-codes, --seed, --json) to
- * `options`, parses argv strictly, and calls `run` with the parsed values.
+ * One `stats <name>` analysis. `options` is every option it takes, each with its description (an
+ * analysis of a data file spreads COMMON_STATS_OPTIONS from stats/data.ts into it); the dispatcher
+ * (app/cli/main.ts) answers --help from them, parses argv strictly, and calls `run` with the values.
  */
 export interface StatsAnalysis {
   name: string;
   summary: string;
-  /** Printed by `stats <name> --help`: usage line and every option with what it does. */
-  help?: string;
-  options: NonNullable<ParseArgsConfig['options']>;
+  options: OptionSpecs;
+  /** Common options that do not apply here, each with what to give instead. */
+  refused?: Record<string, string>;
+  /** Printed after the options in `--help`: what the analysis reports, its conventions, cautions. */
+  notes?: string;
   run(values: OptionValues, ctx: CliContext): Promise<StatsResult>;
 }

@@ -13,8 +13,11 @@ import { purificationRules } from './purification.ts';
 import { reviewRules } from './review.ts';
 import { RuleError } from './errors.ts';
 import { phaseNotYetAvailable } from './later.ts';
+import { REOPENED, SIGNED_OFF, type SignOffReview, signOffReview } from './stale.ts';
 import { PHASE_TITLES } from './titles.ts';
 import type { ChecklistItem, PhaseRules } from './types.ts';
+
+export type { SignOffReview, UpstreamChange } from './stale.ts';
 
 /** Every phase's rules, in the order a scale is built. */
 export const PHASE_RULES: Record<PhaseId, PhaseRules> = {
@@ -34,6 +37,11 @@ export interface PhaseOverview {
   status: PhaseStatus;
   holds: string[];
   checklist: ChecklistItem[];
+  /**
+   * For a signed-off phase whose earlier phases changed after its sign-off: what changed and since
+   * when. Signing off again, once the checklist is met, clears it. Null otherwise.
+   */
+  needsReview: SignOffReview | null;
   /** Why sign-off is not possible now; empty when it is. */
   blockers: string[];
 }
@@ -57,8 +65,9 @@ export function phaseOverview(study: Study, phase: PhaseId): PhaseOverview {
     });
   }
   const status = getPhaseStatus(study, phase);
+  const needsReview = signOffReview(study, phase, status === 'signed-off');
   const blockers = checklist.filter((c) => !c.met).map((c) => `${c.label}: ${c.detail}`);
-  if (status === 'signed-off') blockers.unshift('already signed off');
+  if (status === 'signed-off' && !needsReview) blockers.unshift('already signed off');
   return {
     id: phase,
     title: PHASE_TITLES[phase],
@@ -66,6 +75,7 @@ export function phaseOverview(study: Study, phase: PhaseId): PhaseOverview {
     status,
     holds: rules.holds(study),
     checklist,
+    needsReview,
     blockers,
   };
 }
@@ -74,24 +84,35 @@ export function studyOverview(study: Study): PhaseOverview[] {
   return PHASE_IDS.map((phase) => phaseOverview(study, phase));
 }
 
-/** Signs a phase off: every checklist item must be met; logged with the researcher's note. */
+/**
+ * Signs a phase off: every checklist item must be met and the note is logged with the checklist.
+ * A signed-off phase that needs review (earlier phases changed since) may be signed off again in
+ * place: the note then says why it is still valid, and the log row lists the changes it reviewed.
+ */
 export function signOffPhase(study: Study, phase: PhaseId, rationale: string): void {
   const overview = phaseOverview(study, phase);
-  if (overview.status === 'signed-off')
+  if (overview.status === 'signed-off' && !overview.needsReview)
     throw new RuleError(`the ${overview.title} phase is already signed off`);
+  if (rationale.trim() === '')
+    throw new RuleError(
+      overview.needsReview
+        ? `say why the ${overview.title} phase is still valid after the changes before it`
+        : `give a sign-off note for the ${overview.title} phase`,
+    );
   if (overview.blockers.length > 0) {
     throw new RuleError(
       `the ${overview.title} phase cannot be signed off yet: ${overview.blockers.join('; ')}`,
       'gate',
     );
   }
+  const reviewed = overview.needsReview?.changes.map((c) => c.seq);
   study.change(
     {
       phase,
-      kind: 'signed-off',
+      kind: SIGNED_OFF,
       target: `${overview.title} phase`,
       rationale,
-      detail: { checklist: overview.checklist },
+      detail: { checklist: overview.checklist, ...(reviewed ? { reviewedChanges: reviewed } : {}) },
     },
     () => setPhaseStatus(study, phase, 'signed-off'),
   );
@@ -104,7 +125,7 @@ export function reopenPhase(study: Study, phase: PhaseId, rationale: string): vo
   if (status !== 'signed-off')
     throw new RuleError(`the ${title} phase is not signed off, so there is nothing to reopen`);
   if (rationale.trim() === '') throw new RuleError(`say why the ${title} phase is reopened`);
-  study.change({ phase, kind: 'reopened', target: `${title} phase`, rationale }, () =>
+  study.change({ phase, kind: REOPENED, target: `${title} phase`, rationale }, () =>
     setPhaseStatus(study, phase, 'reopened'),
   );
 }

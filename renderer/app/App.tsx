@@ -2,7 +2,7 @@ import { useCallback, useEffect, useMemo, useState } from 'react';
 import { PHASE_IDS, type PhaseId } from '../../db/repos/phase-state.ts';
 import { DecisionLogScreen } from '../phases/log/DecisionLogScreen.tsx';
 import { OverviewScreen } from '../phases/overview/OverviewScreen.tsx';
-import { ErrorNote } from '../shared/components.tsx';
+import { ErrorNote, phaseState } from '../shared/components.tsx';
 import { StudyRevision, useQuery } from '../shared/use-command.ts';
 import { DisplayName } from './DisplayName.tsx';
 import { PhaseNotYetAvailable } from './PhaseNotYetAvailable.tsx';
@@ -43,7 +43,6 @@ function Shell() {
   const route = useRoute();
   const info = useQuery('study.info', {});
   const overview = useQuery('study.overview', {});
-  const statusOf = (id: PhaseId) => overview.data?.find((p) => p.id === id)?.status ?? 'not-started';
   const Screen = route.screen === 'phase' ? PHASE_SCREENS[route.phase] : undefined;
 
   return (
@@ -65,8 +64,9 @@ function Shell() {
             key={phase.id}
             href={`#/phase/${phase.id}`}
             className={route.screen === 'phase' && route.phase === phase.id ? 'nav-item active' : 'nav-item'}
+            title={phase.needsReview ? `${phase.title}: needs review` : undefined}
           >
-            <span className={`dot dot-${statusOf(phase.id)}`} aria-hidden="true" />
+            <span className={`dot dot-${phaseState(phase)}`} aria-hidden="true" />
             <span className="nav-number">{index + 1}</span> {phase.title}
           </a>
         ))}

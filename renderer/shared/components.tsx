@@ -1,16 +1,26 @@
 import { type ReactNode, useEffect, useRef, useState } from 'react';
+import type { PhaseOverview } from '../../app/phases/index.ts';
 import type { ChecklistItem } from '../../app/phases/types.ts';
 import type { PhaseStatus } from '../../db/repos/phase-state.ts';
 
-const STATUS_LABEL: Record<PhaseStatus, string> = {
+/** What a phase shows: its state, or "needs review" for a sign-off that earlier changes overtook. */
+export type PhaseState = PhaseStatus | 'needs-review';
+
+const STATE_LABEL: Record<PhaseState, string> = {
   'not-started': 'Not started',
   'in-progress': 'In progress',
   'signed-off': 'Signed off',
   reopened: 'Reopened',
+  'needs-review': 'Needs review',
 };
 
-export function StatusBadge({ status }: { status: PhaseStatus }) {
-  return <span className={`badge badge-${status}`}>{STATUS_LABEL[status]}</span>;
+/** The one place the badge, the overview card and the sidebar dot take their state from. */
+export function phaseState(phase: Pick<PhaseOverview, 'status' | 'needsReview'>): PhaseState {
+  return phase.needsReview ? 'needs-review' : phase.status;
+}
+
+export function StatusBadge({ state }: { state: PhaseState }) {
+  return <span className={`badge badge-${state}`}>{STATE_LABEL[state]}</span>;
 }
 
 export function Checklist({ items }: { items: ChecklistItem[] }) {

@@ -44,3 +44,30 @@ export function runNpmCli(args: string[], cwd: string): CliRun {
 export function unprivilegedUser(): { uid: number; gid: number } | undefined {
   return process.getuid?.() === 0 ? { uid: 65534, gid: 65534 } : undefined;
 }
+
+/**
+ * Runs the CLI inside the test process (no Node start per call), capturing what it writes and the
+ * exit code it returns. For checks of output and exit codes; `runCli` covers the real process.
+ */
+export async function runCliHere(args: string[], cwd = ROOT): Promise<CliRun> {
+  const { runCli: run } = await import('../../app/cli/main.ts');
+  let stdout = '';
+  let stderr = '';
+  const out = process.stdout.write;
+  const err = process.stderr.write;
+  process.stdout.write = ((chunk: string | Uint8Array) => {
+    stdout += String(chunk);
+    return true;
+  }) as typeof process.stdout.write;
+  process.stderr.write = ((chunk: string | Uint8Array) => {
+    stderr += String(chunk);
+    return true;
+  }) as typeof process.stderr.write;
+  try {
+    const code = await run(args, { cwd });
+    return { code, stdout, stderr };
+  } finally {
+    process.stdout.write = out;
+    process.stderr.write = err;
+  }
+}

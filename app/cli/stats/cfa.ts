@@ -25,7 +25,7 @@ import { parseTable } from '../../import/parse-table.ts';
 import { readUserFile } from '../files.ts';
 import { formatTable } from '../table.ts';
 import { type CliContext, DataError, type OptionValues, type StatsAnalysis, UsageError } from '../types.ts';
-import { type LoadedItems, loadItemData } from './data.ts';
+import { commonStatsOptionsExcept, type LoadedItems, loadItemData } from './data.ts';
 
 /** Widest line of the readable output. */
 const WIDTH = 100;
@@ -36,24 +36,10 @@ const NOT_FOR_CFA: Record<string, string> = {
   seed: 'confirmatory factor analysis has no random step',
 };
 
-const HELP = `usage: scalewright stats cfa --data FILE --model FILE.json [options]
-
-Maximum-likelihood confirmatory factor analysis of a measurement model: chi-square, CFI, TLI, RMSEA
+/** What `stats cfa --help` says after the options. */
+const NOTES = `Maximum-likelihood confirmatory factor analysis of a measurement model: chi-square, CFI, TLI, RMSEA
 with 90% CI, SRMR, standardized loadings with standard errors, factor correlations, composite
 reliability, AVE, the Fornell-Larcker comparison, HTMT, residual correlations and modification hints.
-
-  --data FILE            CSV or TSV file with a header row, one row per respondent
-  --model FILE.json      {"factors": {"F1": ["c1", "c2", "c3"], ...}}; optional keys:
-                         "residualCovariances": [{"a": "c1", "b": "c2", "rationale": "why"}],
-                         "orthogonal": true (factors uncorrelated)
-  --group COLUMN         also test measurement invariance (configural, metric, scalar) across the
-                         groups named in this column
-  --reverse a,b          reverse-keyed items, scored min + max - x (needs --min and --max)
-  --min N --max N        declared scale bounds
-  --missing listwise     respondents missing any model item are left out (the only method here)
-  --missing-codes -99,9  values that mark a missing answer
-  --json                 one JSON object instead of the tables
-  --help                 this text
 
 Cut-offs shown (Hu & Bentler 1999, from memory): CFI and TLI >= .95, RMSEA <= .06, SRMR <= .08.
 Fit supports, but does not establish, validity; a new scale is not validated for diagnosis, hiring,
@@ -485,15 +471,30 @@ function wrap(textIn: string): string[] {
 export const cfa: StatsAnalysis = {
   name: 'cfa',
   summary: 'confirmatory factor analysis: fit, standardized loadings, CR, AVE, HTMT, invariance',
-  help: HELP,
+  notes: NOTES,
   options: {
-    model: { type: 'string' },
-    group: { type: 'string' },
+    ...commonStatsOptionsExcept(...Object.keys(NOT_FOR_CFA)),
+    missing: {
+      type: 'string',
+      value: 'listwise',
+      description: 'respondents missing any model item are left out (the only method here)',
+    },
+    model: {
+      type: 'string',
+      value: 'FILE.json',
+      required: true,
+      description:
+        '{"factors": {"F1": ["c1", "c2", "c3"], ...}}; optional keys: "residualCovariances": [{"a": "c1", "b": "c2", "rationale": "why"}], "orthogonal": true (factors uncorrelated)',
+    },
+    group: {
+      type: 'string',
+      value: 'COLUMN',
+      description:
+        'also test measurement invariance (configural, metric, scalar) across the groups named in this column',
+    },
   },
+  refused: NOT_FOR_CFA,
   async run(values, ctx) {
-    for (const [option, why] of Object.entries(NOT_FOR_CFA)) {
-      if (values[option] !== undefined) throw new UsageError(`stats cfa does not take --${option}: ${why}`);
-    }
     if (text(values, 'missing') === 'pairwise') {
       throw new UsageError(
         'stats cfa uses complete cases only (--missing listwise): ML estimation needs one sample',

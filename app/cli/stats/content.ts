@@ -166,15 +166,37 @@ export const content: StatsAnalysis = {
   name: 'content',
   summary: "content validity from expert ratings: I-CVI, S-CVI, modified kappa, CVR, Aiken's V",
   options: {
-    ratings: { type: 'string' },
-    'scale-min': { type: 'string' },
-    'scale-max': { type: 'string' },
-    'item-facets': { type: 'string' },
+    ratings: {
+      type: 'string',
+      value: 'FILE',
+      required: true,
+      description:
+        'expert ratings, long (item,expert,relevance[,essential][,facet][,comment]) or wide (one column per expert)',
+    },
+    'scale-min': {
+      type: 'string',
+      value: 'N',
+      description: `lowest point of the relevance scale (default ${DEFAULT_SCALE_MIN})`,
+    },
+    'scale-max': {
+      type: 'string',
+      value: 'N',
+      description: `highest point of the relevance scale (default ${DEFAULT_SCALE_MAX}); the upper half counts as relevant`,
+    },
+    items: {
+      type: 'string',
+      value: 'a,b,c',
+      description: 'the items the panel rated; a rating of any other item is a problem',
+    },
+    'item-facets': {
+      type: 'string',
+      value: 'FILE',
+      description: 'intended facet of each item (columns item,facet), for facet agreement',
+    },
+    json: { type: 'boolean', description: 'print one JSON object at full precision instead of the table' },
   },
+  refused: NOT_FOR_CONTENT,
   async run(values, ctx) {
-    for (const [name, hint] of Object.entries(NOT_FOR_CONTENT)) {
-      if (values[name] !== undefined) throw new UsageError(`stats content does not take --${name}: ${hint}`);
-    }
     const file = stringOption(values, 'ratings');
     if (file === undefined) {
       throw new UsageError(

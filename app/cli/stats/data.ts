@@ -6,8 +6,54 @@ import { chooseDecimalMark } from '../../import/dataset.ts';
 import { type DecimalMark, parseNumber } from '../../import/numbers.ts';
 import { columnLabel, parseTable, TableError } from '../../import/parse-table.ts';
 import { losesPrecision, outOfRangeMessage, precisionWarning } from '../../import/numbers.ts';
+import type { OptionSpecs } from '../command.ts';
 import { readUserFile } from '../files.ts';
 import { type CliContext, DataError, type OptionValues, UsageError } from '../types.ts';
+
+/** Options every `stats` analysis on a data file takes; an analysis adds its own. */
+export const COMMON_STATS_OPTIONS: OptionSpecs = {
+  data: {
+    type: 'string',
+    value: 'FILE',
+    required: true,
+    description: 'the responses: a CSV or TSV file with a header row, one row per respondent',
+  },
+  items: { type: 'string', value: 'a,b,c', required: true, description: 'the item columns to analyse' },
+  reverse: {
+    type: 'string',
+    value: 'a,b',
+    description: 'reverse-keyed items, scored min + max − x (needs --min and --max)',
+  },
+  min: { type: 'string', value: 'N', description: 'lowest point of the response scale (declared bounds)' },
+  max: { type: 'string', value: 'N', description: 'highest point of the response scale (declared bounds)' },
+  missing: {
+    type: 'string',
+    value: 'listwise|pairwise',
+    description: 'how respondents with missing answers are used (default listwise)',
+  },
+  'missing-codes': {
+    type: 'string',
+    value: '-99,999',
+    description: 'values that mean "no answer" (an empty cell always does)',
+  },
+  'decimal-mark': {
+    type: 'string',
+    value: 'point|comma',
+    description:
+      "the file's decimal mark (default: detected from the first 500 data rows, as an import does)",
+  },
+  seed: {
+    type: 'string',
+    value: 'S',
+    description: `seed of the random steps (default ${DEFAULT_SEED}; reported as seed)`,
+  },
+  json: { type: 'boolean', description: 'print one JSON object at full precision instead of the table' },
+};
+
+/** The common options without those an analysis has no use for (it refuses them with a hint instead). */
+export function commonStatsOptionsExcept(...names: string[]): OptionSpecs {
+  return Object.fromEntries(Object.entries(COMMON_STATS_OPTIONS).filter(([name]) => !names.includes(name)));
+}
 
 /** Item responses read from a data file, checked, with missing codes blanked and reverse keys applied. */
 export interface LoadedItems {

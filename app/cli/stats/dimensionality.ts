@@ -14,13 +14,12 @@ import { formatTable } from '../table.ts';
 import { type StatsAnalysis, UsageError } from '../types.ts';
 import { integerOption, type LoadedItems, loadItemData, numberOption, seedOption } from './data.ts';
 import {
-  CORRELATION_OPTION,
   correlationKindOption,
   correlationsOf,
   cut,
   engineStep,
   fixed,
-  factorHelp,
+  factorSpec,
   pValue,
 } from './factor-common.ts';
 
@@ -156,8 +155,7 @@ function toTable(loaded: LoadedItems, input: CorrelationInput, d: Dimensionality
 export const dimensionality: StatsAnalysis = {
   name: 'dimensionality',
   summary: 'how many factors: KMO, Bartlett, eigenvalues, parallel analysis, MAP',
-  help: factorHelp(
-    'dimensionality --data FILE --items a,b,c [options]',
+  ...factorSpec(
     "How many factors: KMO and MSA, Bartlett's test, eigenvalues (Kaiser), parallel analysis for\ncomponents and common factors, and the MAP test, side by side; none is chosen for you.",
     [
       ['--iterations N', `simulated data sets for parallel analysis (default 1000)`],
@@ -166,11 +164,7 @@ export const dimensionality: StatsAnalysis = {
       ['--correlation KIND', `pearson (default) or polychoric`],
     ],
   ),
-  options: {
-    iterations: { type: 'string' },
-    percentile: { type: 'string' },
-    ...CORRELATION_OPTION,
-  },
+
   async run(values, ctx) {
     const iterations = integerOption(values, 'iterations', 1, MAX_PA_ITERATIONS) ?? DEFAULT_PA_ITERATIONS;
     const percentile = numberOption(values, 'percentile') ?? DEFAULT_PA_PERCENTILE;

@@ -13,7 +13,6 @@ import { formatTable } from '../table.ts';
 import { type StatsAnalysis, UsageError } from '../types.ts';
 import { integerOption, type LoadedItems, loadItemData, numberOption, seedOption } from './data.ts';
 import {
-  CORRELATION_OPTION,
   choiceOption,
   columnBlocks,
   correlationKindOption,
@@ -22,7 +21,7 @@ import {
   engineStep,
   fixed,
   NAME_WIDTH,
-  factorHelp,
+  factorSpec,
   pValue,
 } from './factor-common.ts';
 
@@ -198,8 +197,7 @@ function toTable(loaded: LoadedItems, input: CorrelationInput, r: EfaResult): st
 export const efa: StatsAnalysis = {
   name: 'efa',
   summary: 'exploratory factor analysis: extraction, rotation, loadings, fit, omega hierarchical',
-  help: factorHelp(
-    'efa --data FILE --items a,b,c --factors M [options]',
+  ...factorSpec(
     'Exploratory factor analysis: extraction, rotation, loadings, communalities, factor correlations,\nthe ML fit, Heywood and convergence warnings, and omega hierarchical from a Schmid–Leiman solution.',
     [
       ['--factors M', `number of factors (required)`],
@@ -216,16 +214,7 @@ export const efa: StatsAnalysis = {
       ['--correlation KIND', `pearson (default) or polychoric`],
     ],
   ),
-  options: {
-    factors: { type: 'string' },
-    extraction: { type: 'string' },
-    rotation: { type: 'string' },
-    'no-normalize': { type: 'boolean' },
-    power: { type: 'string' },
-    gamma: { type: 'string' },
-    starts: { type: 'string' },
-    ...CORRELATION_OPTION,
-  },
+
   async run(values, ctx) {
     const factors = integerOption(values, 'factors', 1, 10_000);
     if (factors === undefined)

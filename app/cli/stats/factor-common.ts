@@ -1,7 +1,8 @@
 import { EngineError } from '../../engine/errors.ts';
 import { type CorrelationInput, type CorrelationKind, correlationInput } from '../../engine/factor/input.ts';
 import { DataError, type OptionValues, UsageError } from '../types.ts';
-import type { LoadedItems } from './data.ts';
+import type { OptionSpecs } from '../command.ts';
+import { COMMON_STATS_OPTIONS, type LoadedItems } from './data.ts';
 
 /** Widest a command-line table may be. */
 export const TABLE_WIDTH = 100;
@@ -9,8 +10,6 @@ export const TABLE_WIDTH = 100;
 export const NAME_WIDTH = 16;
 
 /** The options the factor analyses share: which correlations to analyse. */
-export const CORRELATION_OPTION = { correlation: { type: 'string' as const } };
-
 export function correlationKindOption(values: OptionValues): CorrelationKind {
   const raw = values.correlation;
   if (raw === undefined) return 'pearson';
@@ -88,29 +87,20 @@ export function columnBlocks(count: number, fixedWidth: number, columnWidth: num
 }
 
 /**
- * The whole `--help` text of a factor analysis: usage line, what it does, the common data options and
- * the analysis's own ([option, what it does]), and the caution every analysis of a new scale carries.
+ * The options and help notes of a factor-analysis command: the common options, then its own, each
+ * given as ["--name VALUE", "what it does"] ("--name" alone for a switch; "(required)" marks one).
  */
-export function factorHelp(usage: string, about: string, own: [string, string][]): string {
-  const rows: [string, string][] = [
-    ['--data FILE', 'CSV or TSV file with a header row'],
-    ['--items a,b,c', 'the item columns'],
-    ['--reverse a,b', 'reverse-keyed items (needs --min and --max: score = min + max − x)'],
-    ['--min N --max N', 'declared scale bounds (values outside are refused)'],
-    ['--missing METHOD', 'listwise (default) or pairwise'],
-    ['--missing-codes -99,9', 'values that mark a missing answer'],
-    ...own,
-    ['--json', 'one JSON object instead of the table'],
-    ['--help', 'this text'],
-  ];
-  return [
-    `usage: scalewright stats ${usage}`,
-    '',
-    about,
-    '',
-    ...rows.map(([option, text]) => `  ${option.padEnd(23)}${text}`),
-    '',
-    'Rules of thumb shown advise; the researcher decides. A new scale is not validated for diagnosis,',
-    'hiring, admission or other high-stakes decisions about people.',
-  ].join('\n');
+export function factorSpec(about: string, own: [string, string][]): { options: OptionSpecs; notes: string } {
+  const options: OptionSpecs = { ...COMMON_STATS_OPTIONS };
+  for (const [flag, description] of own) {
+    const [name, value] = flag.replace(/^--/, '').split(' ');
+    options[name] =
+      value === undefined
+        ? { type: 'boolean', description }
+        : { type: 'string', value, description, required: description.includes('(required)') };
+  }
+  return {
+    options,
+    notes: `${about}\n\nRules of thumb shown advise; the researcher decides. A new scale is not validated for diagnosis, hiring, admission or other high-stakes decisions about people.`,
+  };
 }

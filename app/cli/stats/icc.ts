@@ -10,7 +10,7 @@ import type { MeasurementError } from '../../engine/reliability/sem.ts';
 import { ENGINE_VERSION } from '../../engine/version.ts';
 import { formatTable } from '../table.ts';
 import { DataError, type StatsAnalysis, UsageError } from '../types.ts';
-import { type LoadedItems, loadItemData, numberOption } from './data.ts';
+import { commonStatsOptionsExcept, type LoadedItems, loadItemData, numberOption } from './data.ts';
 
 /** The form whose SEM and MDC are reported: two-way random, absolute agreement, single measure. */
 const SEM_FORM = 'ICC(2,1)';
@@ -22,21 +22,11 @@ const NOT_FOR_ICC: Record<string, string> = {
   seed: 'intraclass correlations have no random step',
 };
 
-const HELP = `usage: scalewright stats icc --data FILE --columns a,b,c [options]
-
-The six intraclass correlations of Shrout & Fleiss (1979), ICC(1,1) ... ICC(3,k), with confidence
+/** What `stats icc --help` says after the options. */
+const NOTES = `The six intraclass correlations of Shrout & Fleiss (1979), ICC(1,1) ... ICC(3,k), with confidence
 intervals and F tests (McGraw & Wong 1996), and the standard error of measurement and minimal
 detectable change from ICC(2,1). One row per target (respondent, item or case); one column per
 rater or occasion (test and retest).
-
-  --data FILE            CSV or TSV file with a header row
-  --columns a,b,c        the rater or occasion columns (at least two)
-  --ci-level 0.95        confidence level of the intervals
-  --min N --max N        declared scale bounds (values outside are refused)
-  --missing listwise     targets missing any rating are left out (the only method here)
-  --missing-codes -99,9  values that mark a missing rating
-  --json                 one JSON object instead of the table
-  --help                 this text
 
 SEM = SD·√(1 − ICC) with the SD pooled over occasions; MDC95 = 1.96·√2·SEM (common practice).
 Reliability supports, but does not establish, fitness for a use; a new scale is not validated for
@@ -129,15 +119,34 @@ export function iccTable(loaded: LoadedItems, out: IccOutput): string {
 export const icc: StatsAnalysis = {
   name: 'icc',
   summary: 'intraclass correlations (six forms) with intervals, SEM and MDC95',
-  help: HELP,
+  notes: NOTES,
   options: {
-    columns: { type: 'string' },
-    'ci-level': { type: 'string' },
+    ...commonStatsOptionsExcept(...Object.keys(NOT_FOR_ICC)),
+    data: {
+      type: 'string',
+      value: 'FILE',
+      required: true,
+      description: 'a CSV or TSV file with a header row, one row per target (respondent, item or case)',
+    },
+    missing: {
+      type: 'string',
+      value: 'listwise',
+      description: 'targets missing any rating are left out (the only method here)',
+    },
+    columns: {
+      type: 'string',
+      value: 'a,b,c',
+      required: true,
+      description: 'the rater or occasion columns (at least two)',
+    },
+    'ci-level': {
+      type: 'string',
+      value: 'L',
+      description: `confidence level of the intervals (default ${DEFAULT_ICC_LEVEL})`,
+    },
   },
+  refused: NOT_FOR_ICC,
   async run(values, ctx) {
-    for (const [option, why] of Object.entries(NOT_FOR_ICC)) {
-      if (values[option] !== undefined) throw new UsageError(`stats icc does not take --${option}: ${why}`);
-    }
     if (values.missing === 'pairwise') {
       throw new UsageError(
         'stats icc uses complete targets only (--missing listwise): every target needs every rating',

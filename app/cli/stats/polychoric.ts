@@ -4,18 +4,16 @@ import { ENGINE_VERSION } from '../../engine/version.ts';
 import { formatTable } from '../table.ts';
 import { type StatsAnalysis, UsageError } from '../types.ts';
 import { loadItemData } from './data.ts';
-import { columnBlocks, cut, engineStep, factorHelp, fixed } from './factor-common.ts';
+import { columnBlocks, cut, engineStep, factorSpec, fixed } from './factor-common.ts';
 
 /** `stats polychoric`: the polychoric correlation matrix and thresholds of ordinal items. */
 export const polychoric: StatsAnalysis = {
   name: 'polychoric',
   summary: 'polychoric correlations of ordinal items (two-step), with thresholds',
-  help: factorHelp(
-    'polychoric --data FILE --items a,b,c [options]',
+  ...factorSpec(
     "Polychoric correlations of ordinal items (two-step maximum likelihood) with each item's thresholds;\na matrix that is not positive definite is smoothed, and the output says so.",
     [],
   ),
-  options: {},
   async run(values, ctx) {
     if (values.seed !== undefined)
       throw new UsageError('stats polychoric does not take --seed: it has no random step');

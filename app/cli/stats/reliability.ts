@@ -1,9 +1,16 @@
 import { EngineError } from '../../engine/errors.ts';
 import { type ItemAnalysis, analyseItems, DEFAULT_CI_LEVEL } from '../../engine/reliability.ts';
 import { MIN_BOOTSTRAP_RESAMPLES } from '../../engine/reliability/bootstrap.ts';
-import { formatTable } from '../table.ts';
+import { formatTable, wrapIndented } from '../table.ts';
 import { DataError, type StatsAnalysis, type StatsResult, UsageError } from '../types.ts';
-import { integerOption, type LoadedItems, loadItemData, numberOption, seedOption } from './data.ts';
+import {
+  COMMON_STATS_OPTIONS,
+  integerOption,
+  type LoadedItems,
+  loadItemData,
+  numberOption,
+  seedOption,
+} from './data.ts';
 
 /** Most resamples `--bootstrap` accepts (about a minute on 500 × 30 with pairwise deletion). */
 export const MAX_BOOTSTRAP_RESAMPLES = 100_000;
@@ -84,8 +91,11 @@ export function reliabilityJson(loaded: LoadedItems, a: ItemAnalysis, seed: numb
 export function reliabilityTable(loaded: LoadedItems, a: ItemAnalysis): string {
   const pct = `${Math.round(a.alphaCI.level * 100)}%`;
   const lines = [
-    `Reliability of ${a.k} items from ${loaded.file}: n = ${a.n} (${a.missingData.method} deletion, ` +
-      `${a.missingData.dropped} of ${a.missingData.respondents} respondents left out)`,
+    wrapIndented(
+      `Reliability of ${a.k} items from ${loaded.file}: n = ${a.n} (${a.missingData.method} deletion, ` +
+        `${a.missingData.dropped} of ${a.missingData.respondents} respondents left out)`,
+      2,
+    ),
     '',
     `  alpha                 ${round(a.alpha.value)}  ${a.alpha.band}`,
     `    ${pct} CI            ${round(a.alphaCI.lower)} to ${round(a.alphaCI.upper)} (Feldt)`,
@@ -156,8 +166,17 @@ export const reliability: StatsAnalysis = {
   name: 'reliability',
   summary: 'item analysis, alpha with CI, omega total, split-half, SEM',
   options: {
-    'ci-level': { type: 'string' },
-    bootstrap: { type: 'string' },
+    ...COMMON_STATS_OPTIONS,
+    'ci-level': {
+      type: 'string',
+      value: 'L',
+      description: `level of the alpha confidence intervals, between 0 and 1 (default ${DEFAULT_CI_LEVEL})`,
+    },
+    bootstrap: {
+      type: 'string',
+      value: 'B',
+      description: `also a percentile bootstrap interval for alpha from B resamples (${MIN_BOOTSTRAP_RESAMPLES} to ${MAX_BOOTSTRAP_RESAMPLES}), seeded by --seed`,
+    },
   },
   async run(values, ctx): Promise<StatsResult> {
     const ciLevel = numberOption(values, 'ci-level') ?? DEFAULT_CI_LEVEL;

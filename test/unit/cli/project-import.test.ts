@@ -197,7 +197,7 @@ describe('project import', () => {
       expect(run.stderr).toMatch(/^error: [^\n]+\n$/);
       expect(run.stderr).toMatch(message);
     }
-  });
+  }, 120_000);
 
   it('says which file is missing (exit 1)', () => {
     const run = runCli([

@@ -109,18 +109,22 @@ describe('project verify finds a tampered decision log', () => {
       /row 5: .*(does not match|link)/,
     ],
   ];
-  it.each(cases)('%s', (_label, sql, expected) => {
-    const file = path.join(tmp.dir, `tamper-${Math.random().toString(36).slice(2)}.scalewright`);
-    expect(runCli(['project', 'new', file, '--demo']).code).toBe(0);
-    tamper(file, sql);
-    const run = runCli(['project', 'verify', file]);
-    expect(run.code).toBe(1);
-    expect(run.stdout).toMatch(expected);
-    expect(run.stderr).toMatch(/^error: .* failed verification: log row \d+: [^\n]+\n$/);
-    const json = runCli(['project', 'verify', file, '--json']);
-    expect(json.code).toBe(1);
-    expect(JSON.parse(json.stdout).logIntact).toBe(false);
-  });
+  it.each(cases)(
+    '%s',
+    (_label, sql, expected) => {
+      const file = path.join(tmp.dir, `tamper-${Math.random().toString(36).slice(2)}.scalewright`);
+      expect(runCli(['project', 'new', file, '--demo']).code).toBe(0);
+      tamper(file, sql);
+      const run = runCli(['project', 'verify', file]);
+      expect(run.code).toBe(1);
+      expect(run.stdout).toMatch(expected);
+      expect(run.stderr).toMatch(/^error: .* failed verification: log row \d+: [^\n]+\n$/);
+      const json = runCli(['project', 'verify', file, '--json']);
+      expect(json.code).toBe(1);
+      expect(JSON.parse(json.stdout).logIntact).toBe(false);
+    },
+    120_000,
+  );
 });
 
 describe('the log head: shown by status, checked by verify --head', () => {

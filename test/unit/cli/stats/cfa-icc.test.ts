@@ -4,9 +4,10 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { beforeAll, describe, expect, it } from 'vitest';
+import { parseCommand } from '../../../../app/cli/command.ts';
 import { cfa, parseModelFile } from '../../../../app/cli/stats/cfa.ts';
 import { icc } from '../../../../app/cli/stats/icc.ts';
-import { DataError, UsageError } from '../../../../app/cli/types.ts';
+import { DataError } from '../../../../app/cli/types.ts';
 
 const ROOT = fileURLToPath(new URL('../../../..', import.meta.url));
 // Reference fixtures: test/reference/cfa.py (scipy optimizer) and test/reference/validity.py (scipy).
@@ -154,7 +155,16 @@ describe('stats cfa (in process): the model file is checked, saying what and whe
 
   it('refuses options that do not apply, and asks for the model', async () => {
     await expect(run({ data: 'ecc.csv' })).rejects.toThrow(/^--model FILE.json is required/);
-    await expect(run({ data: 'ecc.csv', model: 'model.json', items: 'c1' })).rejects.toThrow(UsageError);
+    expect(() =>
+      parseCommand({ ...cfa, name: 'stats cfa' }, [
+        '--data',
+        'ecc.csv',
+        '--model',
+        'm.json',
+        '--items',
+        'c1',
+      ]),
+    ).toThrow(/--items does not apply to stats cfa: the items come from the model file/);
     await expect(run({ data: 'ecc.csv', model: 'model.json', missing: 'pairwise' })).rejects.toThrow(
       'complete cases only',
     );
@@ -214,7 +224,9 @@ describe('stats icc', () => {
     await expect(icc.run({ data: 'retest.csv', columns: 't1' }, { cwd: dir })).rejects.toThrow(
       'at least two',
     );
-    await expect(icc.run({ data: 'retest.csv', items: 't1,t2' }, { cwd: dir })).rejects.toThrow('--columns');
+    expect(() =>
+      parseCommand({ ...icc, name: 'stats icc' }, ['--data', 'retest.csv', '--items', 't1,t2']),
+    ).toThrow('--columns');
     await expect(icc.run({ data: 'retest.csv', columns: 't1,t9' }, { cwd: dir })).rejects.toThrow(
       'no column named "t9"',
     );

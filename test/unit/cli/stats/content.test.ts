@@ -4,6 +4,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { beforeAll, describe, expect, it } from 'vitest';
+import { parseCommand } from '../../../../app/cli/command.ts';
 import { content } from '../../../../app/cli/stats/content.ts';
 import { DataError, UsageError } from '../../../../app/cli/types.ts';
 
@@ -155,8 +156,11 @@ describe('stats content (in process)', () => {
   });
 
   it('refuses options that do not apply and names the missing file', async () => {
-    await expect(run({ ratings: 'panel.csv', data: 'x.csv' })).rejects.toThrow(UsageError);
-    await expect(run({ ratings: 'panel.csv', min: '1' })).rejects.toThrow(/--scale-min and --scale-max/);
+    const spec = { ...content, name: 'stats content' };
+    expect(() => parseCommand(spec, ['--ratings', 'panel.csv', '--data', 'x.csv'])).toThrow(UsageError);
+    expect(() => parseCommand(spec, ['--ratings', 'panel.csv', '--min', '1'])).toThrow(
+      /--min does not apply to stats content: .*--scale-min and --scale-max/,
+    );
     await expect(run({ ratings: 'absent.csv' })).rejects.toThrow(DataError);
     await expect(run({ ratings: 'absent.csv' })).rejects.toThrow(
       'cannot read ratings file "absent.csv": no such file',
