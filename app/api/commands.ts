@@ -5,6 +5,7 @@ import { itemsCommands } from './commands/items.ts';
 import { pilotCommands } from './commands/pilot.ts';
 import { purificationCommands } from './commands/purification.ts';
 import { reviewCommands } from './commands/review.ts';
+import { studyCommands } from './commands/study.ts';
 
 /**
  * Every operation the renderer may call, one table assembled from one file per phase. The same
@@ -13,6 +14,7 @@ import { reviewCommands } from './commands/review.ts';
  */
 export const commands = {
   ...coreCommands,
+  ...studyCommands,
   ...constructCommands,
   ...itemsCommands,
   ...reviewCommands,
