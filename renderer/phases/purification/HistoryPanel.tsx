@@ -3,7 +3,7 @@ import type { DecisionView, RoundSummary } from '../../../app/phases/purificatio
 import { ErrorNote, Panel } from '../../shared/components.tsx';
 import { useMutation } from '../../shared/use-command.ts';
 import { AlphaHistoryChart } from './charts.tsx';
-import { coef } from '../../shared/format.ts';
+import { bounded } from '../../../app/api/format.ts';
 import { BAND_WORDS, shortDate } from './format.ts';
 
 function ReverseAction({ decision, locked }: { decision: DecisionView; locked: boolean }) {
@@ -114,15 +114,15 @@ export function HistoryPanel(props: {
               <td className="num" title={r.missingText}>
                 {r.n}
               </td>
-              <td className="num">{coef(r.alpha)}</td>
+              <td className="num">{bounded(r.alpha)}</td>
               <td className="nowrap" title={`${Math.round(r.ci.level * 100)}% confidence interval`}>
                 {Math.round(r.ci.level * 100) !== 95 && `${Math.round(r.ci.level * 100)}%: `}
-                {coef(r.ci.lower)} to {coef(r.ci.upper)}
+                {bounded(r.ci.lower)} to {bounded(r.ci.upper)}
               </td>
               <td>
                 <span className={`band band-${r.band}`}>{BAND_WORDS[r.band]}</span>
               </td>
-              <td className="num">{coef(r.omega)}</td>
+              <td className="num">{bounded(r.omega)}</td>
               <td>
                 {r.left.length > 0 && r.left.join(', ')}
                 {r.left.length > 0 && r.returned.length > 0 && ' · '}

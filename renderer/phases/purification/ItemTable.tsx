@@ -1,7 +1,6 @@
 import { Fragment } from 'react';
 import type { FacetResult, FlagRule, RoundItemRow, RuleOfThumb } from '../../../app/phases/purification.ts';
-import { coef, num } from '../../shared/format.ts';
-import { pct } from './format.ts';
+import { bounded, percent, unbounded } from '../../../app/api/format.ts';
 
 type SortKey =
   | 'order'
@@ -196,7 +195,7 @@ export function ItemTable(props: {
                     <span className="muted">
                       {' '}
                       · {group.rows.length} item{group.rows.length === 1 ? '' : 's'}
-                      {group.facet?.analysis ? ` · facet α ${coef(group.facet.analysis.alpha.value)}` : ''}
+                      {group.facet?.analysis ? ` · facet α ${bounded(group.facet.analysis.alpha.value)}` : ''}
                     </span>
                   </th>
                 </tr>
@@ -272,20 +271,20 @@ function ItemRow(props: {
           {row.facetName ?? 'no facet'}
         </td>
       )}
-      <td className="num">{num(s.mean)}</td>
-      <td className="num">{num(s.sd)}</td>
-      <td className={mark('skewness')}>{num(s.skewness)}</td>
-      <td className={mark('kurtosis')}>{num(s.kurtosis)}</td>
+      <td className="num">{unbounded(s.mean)}</td>
+      <td className="num">{unbounded(s.sd)}</td>
+      <td className={mark('skewness')}>{unbounded(s.skewness)}</td>
+      <td className={mark('kurtosis')}>{unbounded(s.kurtosis)}</td>
       <td className="num nowrap">
-        <span className={hit.has('floor') ? 'hit' : undefined}>{pct(s.floorShare)}</span>
+        <span className={hit.has('floor') ? 'hit' : undefined}>{percent(s.floorShare, 0)}</span>
         {' / '}
-        <span className={hit.has('ceiling') ? 'hit' : undefined}>{pct(s.ceilingShare)}</span>
+        <span className={hit.has('ceiling') ? 'hit' : undefined}>{percent(s.ceilingShare, 0)}</span>
       </td>
       <td className={mark('missing')}>{s.missing}</td>
       <td className={mark('low-item-total', 'negative-item-total', 'no-variance')}>
-        {coef(s.correctedItemTotal, 2)}
+        {bounded(s.correctedItemTotal, 2)}
       </td>
-      <td className={mark('alpha-rises')}>{coef(s.alphaIfDeleted)}</td>
+      <td className={mark('alpha-rises')}>{bounded(s.alphaIfDeleted)}</td>
       <td>
         <span className="flags">
           {row.droppedNow ? (

@@ -5,7 +5,7 @@ import { PhaseControls, SignOffAside } from '../../shared/phase-controls.tsx';
 import { useQuery } from '../../shared/use-command.ts';
 import { AlphaIfDeletedChart, DistributionChart, ItemTotalChart } from './charts.tsx';
 import { DecisionPanel } from './DecisionPanel.tsx';
-import { plural } from '../../shared/format.ts';
+import { plural } from '../../../app/api/format.ts';
 import { HistoryPanel } from './HistoryPanel.tsx';
 import { INITIAL_TABLE_VIEW, ItemTable, type TableView } from './ItemTable.tsx';
 import { ReliabilityPanel } from './ReliabilityPanel.tsx';

@@ -1,7 +1,7 @@
 import type { BandedValue } from '../../../app/engine/reliability/alpha.ts';
 import type { RoundDetail } from '../../../app/phases/purification.ts';
 import { Panel } from '../../shared/components.tsx';
-import { coef, num, plural } from '../../shared/format.ts';
+import { bounded, plural, unbounded } from '../../../app/api/format.ts';
 import { BAND_LEGEND, BAND_WORDS } from './format.ts';
 
 function Band({ value }: { value: BandedValue }) {
@@ -25,7 +25,7 @@ export function ReliabilityPanel({ detail }: { detail: RoundDetail }) {
       <div className="headline" data-testid="round-alpha">
         <div className="headline-main">
           <span className="headline-label">Cronbach’s α</span>
-          <span className="headline-value">{coef(scale.alpha.value)}</span>
+          <span className="headline-value">{bounded(scale.alpha.value)}</span>
           <Band value={scale.alpha} />
         </div>
         <p className="headline-detail">
@@ -35,11 +35,11 @@ export function ReliabilityPanel({ detail }: { detail: RoundDetail }) {
             `; ${scale.missingData.dropped} more left out with missing answers`}
           ).
           <br />
-          {level}% CI {coef(scale.alphaCI.lower)} to {coef(scale.alphaCI.upper)} (Feldt)
+          {level}% CI {bounded(scale.alphaCI.lower)} to {bounded(scale.alphaCI.upper)} (Feldt)
           {scale.bootstrapCI && (
             <>
               {' '}
-              · bootstrap {coef(scale.bootstrapCI.lower)} to {coef(scale.bootstrapCI.upper)} (
+              · bootstrap {bounded(scale.bootstrapCI.lower)} to {bounded(scale.bootstrapCI.upper)} (
               {scale.bootstrapCI.resamples} resamples, seed {scale.bootstrapCI.seed})
             </>
           )}
@@ -49,14 +49,14 @@ export function ReliabilityPanel({ detail }: { detail: RoundDetail }) {
       <dl className="stat-grid">
         <div>
           <dt>Standardized α</dt>
-          <dd>{scale.alphaStandardized ? coef(scale.alphaStandardized.value) : '—'}</dd>
+          <dd>{scale.alphaStandardized ? bounded(scale.alphaStandardized.value) : '—'}</dd>
         </div>
         <div>
           <dt title="McDonald’s omega total from a one-factor model">ω total</dt>
           <dd>
             {scale.omegaTotal ? (
               <>
-                {coef(scale.omegaTotal.value)} <Band value={scale.omegaTotal} />
+                {bounded(scale.omegaTotal.value)} <Band value={scale.omegaTotal} />
               </>
             ) : (
               '—'
@@ -65,19 +65,19 @@ export function ReliabilityPanel({ detail }: { detail: RoundDetail }) {
         </div>
         <div>
           <dt>Mean inter-item r</dt>
-          <dd>{coef(scale.meanInterItemR)}</dd>
+          <dd>{bounded(scale.meanInterItemR)}</dd>
         </div>
         <div>
           <dt title="Standard error of measurement of the sum score, SD·√(1 − α)">SEM (sum score)</dt>
-          <dd>{num(scale.measurementError?.sem)}</dd>
+          <dd>{unbounded(scale.measurementError?.sem)}</dd>
         </div>
         <div>
           <dt title="Minimal detectable change, 1.96·√2·SEM (common practice)">MDC95</dt>
-          <dd>{num(scale.measurementError?.mdc95)}</dd>
+          <dd>{unbounded(scale.measurementError?.mdc95)}</dd>
         </div>
         <div>
           <dt title="Odd–even split-half correlation stepped up with Spearman–Brown">Split-half (S–B)</dt>
-          <dd>{coef(scale.splitHalf?.spearmanBrown)}</dd>
+          <dd>{bounded(scale.splitHalf?.spearmanBrown)}</dd>
         </div>
       </dl>
 
@@ -100,12 +100,12 @@ export function ReliabilityPanel({ detail }: { detail: RoundDetail }) {
               <td title={f.definition}>{f.name}</td>
               <td className="num">{f.items.length}</td>
               <td className="num">{f.analysis?.n ?? '—'}</td>
-              <td className="num">{coef(f.analysis?.alpha.value)}</td>
+              <td className="num">{bounded(f.analysis?.alpha.value)}</td>
               <td className="nowrap">
-                {f.analysis ? `${coef(f.analysis.alphaCI.lower)} to ${coef(f.analysis.alphaCI.upper)}` : '—'}
+                {f.analysis ? `${bounded(f.analysis.alphaCI.lower)} to ${bounded(f.analysis.alphaCI.upper)}` : '—'}
               </td>
               <td>{f.analysis ? <Band value={f.analysis.alpha} /> : '—'}</td>
-              <td className="num">{coef(f.analysis?.omegaTotal?.value)}</td>
+              <td className="num">{bounded(f.analysis?.omegaTotal?.value)}</td>
               <td className="muted">{f.note ?? ''}</td>
             </tr>
           ))}

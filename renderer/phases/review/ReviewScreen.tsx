@@ -3,7 +3,7 @@ import type { CommandOutput } from '../../../app/api/commands.ts';
 import { ErrorNote, Panel } from '../../shared/components.tsx';
 import { SignOffAside } from '../../shared/phase-controls.tsx';
 import { useMutation, useQuery } from '../../shared/use-command.ts';
-import { coef, plural } from '../../shared/format.ts';
+import { bounded, plural } from '../../../app/api/format.ts';
 import { ReviewPacket } from './ReviewPacket.tsx';
 import { RatingsPanel, RoundDetail, RoundSummary } from './RoundDetail.tsx';
 import './review.css';
@@ -72,7 +72,7 @@ function ReviewWorkspace() {
                 <span className="round-tab-title">Round {r.number}</span>
                 <span className="round-tab-meta">
                   {plural(r.items.length, 'item')} ·{' '}
-                  {r.report ? `S-CVI/Ave ${coef(r.report.sCviAve, 2)}` : 'no ratings yet'}
+                  {r.report ? `S-CVI/Ave ${bounded(r.report.sCviAve, 2)}` : 'no ratings yet'}
                 </span>
               </button>
             ))}
@@ -217,10 +217,10 @@ function CompareRounds({ comparison }: { comparison: View['comparison'] }) {
                   const flagged = (cell?.flags.length ?? 0) > 0;
                   return [
                     <td key={`${r.number}-i`} className={`num${flagged ? ' cell-flagged' : ''}`}>
-                      {cell === undefined ? '' : coef(cell?.iCvi, 2)}
+                      {cell === undefined ? '' : bounded(cell?.iCvi, 2)}
                     </td>,
                     <td key={`${r.number}-k`} className={`num${flagged ? ' cell-flagged' : ''}`}>
-                      {cell === undefined ? '' : coef(cell?.modifiedKappa, 2)}
+                      {cell === undefined ? '' : bounded(cell?.modifiedKappa, 2)}
                     </td>,
                   ];
                 })}
@@ -232,7 +232,7 @@ function CompareRounds({ comparison }: { comparison: View['comparison'] }) {
               <th>S-CVI/Ave</th>
               {comparison.rounds.map((r) => (
                 <td key={r.number} colSpan={2} className="num">
-                  {coef(r.sCviAve, 2)}
+                  {bounded(r.sCviAve, 2)}
                 </td>
               ))}
             </tr>
@@ -240,7 +240,7 @@ function CompareRounds({ comparison }: { comparison: View['comparison'] }) {
               <th>S-CVI/UA</th>
               {comparison.rounds.map((r) => (
                 <td key={r.number} colSpan={2} className="num">
-                  {coef(r.sCviUa, 2)}
+                  {bounded(r.sCviUa, 2)}
                 </td>
               ))}
             </tr>

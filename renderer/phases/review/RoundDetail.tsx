@@ -5,7 +5,7 @@ import { call } from '../../api/client.ts';
 import { ErrorNote, formatTime, Panel, ReasonAction } from '../../shared/components.tsx';
 import { useMutation } from '../../shared/use-command.ts';
 import { downloadText, readFileBase64 } from '../../shared/files.ts';
-import { plural } from '../../shared/format.ts';
+import { plural } from '../../../app/api/format.ts';
 import { StatsPanel } from './StatsPanel.tsx';
 import { FileNotes } from '../../shared/file-notes.tsx';
 
