@@ -3,6 +3,7 @@ import { migration0002 } from './0002-item-pool.ts';
 import { migration0003 } from './0003-datasets.ts';
 import { migration0004 } from './0004-purification.ts';
 import { migration0005 } from './0005-content-digests.ts';
+import { migration0006 } from './0006-score-use.ts';
 import type { Migration } from './types.ts';
 
 /** Every migration, in order. A new one is a new numbered file appended here (see DEVELOPERS.md). */
@@ -12,6 +13,7 @@ export const MIGRATIONS: readonly Migration[] = [
   migration0003,
   migration0004,
   migration0005,
+  migration0006,
 ];
 
 for (let i = 0; i < MIGRATIONS.length; i++) {

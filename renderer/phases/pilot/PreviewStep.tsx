@@ -41,7 +41,8 @@ export function PreviewStep(props: {
             <strong data-testid="detected-delimiter">{preview.delimiterName}</strong>
           </>
         )}
-        , decimal mark <strong data-testid="detected-decimal">{DECIMAL_MARK_NAME[preview.decimalMark]}</strong>.
+        , decimal mark{' '}
+        <strong data-testid="detected-decimal">{DECIMAL_MARK_NAME[preview.decimalMark]}</strong>.
         {preview.truncated
           ? ` The first ${preview.rows.length} rows are shown; every row is read and checked in step 5.`
           : ` All ${preview.rows.length} rows are shown.`}

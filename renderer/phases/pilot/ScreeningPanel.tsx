@@ -423,10 +423,7 @@ export function ScreeningPanel({ datasetId, locked }: { datasetId: number; locke
                   </td>
                   <td className="num">{r.longstring ?? '–'}</td>
                   <td className="num">{unbounded(r.irv)}</td>
-                  <td
-                    className="num"
-                    title={r.mahalanobisP === null ? undefined : pValue(r.mahalanobisP)}
-                  >
+                  <td className="num" title={r.mahalanobisP === null ? undefined : pValue(r.mahalanobisP)}>
                     {unbounded(r.mahalanobis, 1)}
                   </td>
                   <td className="num">{r.duration ?? '–'}</td>

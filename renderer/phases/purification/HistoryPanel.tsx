@@ -3,8 +3,9 @@ import type { DecisionView, RoundSummary } from '../../../app/phases/purificatio
 import { ErrorNote, Panel } from '../../shared/components.tsx';
 import { useMutation } from '../../shared/use-command.ts';
 import { AlphaHistoryChart } from './charts.tsx';
-import { bounded } from '../../../app/api/format.ts';
-import { BAND_WORDS, shortDate } from './format.ts';
+import { bounded, shortDate } from '../../../app/api/format.ts';
+import type { ReliabilityCriterion } from '../../../app/engine/reliability/criterion.ts';
+import { CriterionFootnote } from '../../shared/criterion.tsx';
 
 function ReverseAction({ decision, locked }: { decision: DecisionView; locked: boolean }) {
   const reverse = useMutation('purification.reverse');
@@ -65,6 +66,7 @@ function ReverseAction({ decision, locked }: { decision: DecisionView; locked: b
 export function HistoryPanel(props: {
   rounds: RoundSummary[];
   decisions: DecisionView[];
+  criterion: ReliabilityCriterion;
   selectedRound: number | undefined;
   onSelectRound(id: number): void;
   locked: boolean;
@@ -79,7 +81,7 @@ export function HistoryPanel(props: {
   };
   return (
     <Panel title="History" aside={<span className="muted">every round and decision stays in the study</span>}>
-      {rounds.length > 1 && <AlphaHistoryChart rounds={rounds} />}
+      {rounds.length > 1 && <AlphaHistoryChart rounds={rounds} criterion={props.criterion} />}
       <table className="data-table history-table" aria-label="Rounds">
         <thead>
           <tr>
@@ -89,7 +91,7 @@ export function HistoryPanel(props: {
             <th className="num">n</th>
             <th className="num">α</th>
             <th>CI (Feldt)</th>
-            <th>Band</th>
+            <th>Criterion</th>
             <th className="num">ω</th>
             <th>Left since the round before</th>
           </tr>
@@ -120,7 +122,10 @@ export function HistoryPanel(props: {
                 {bounded(r.ci.lower)} to {bounded(r.ci.upper)}
               </td>
               <td>
-                <span className={`band band-${r.band}`}>{BAND_WORDS[r.band]}</span>
+                <span className={r.meetsCriterion ? 'criterion criterion-met' : 'criterion criterion-below'}>
+                  {r.meetsCriterion ? 'meets' : 'below'}
+                  <sup>*</sup>
+                </span>
               </td>
               <td className="num">{bounded(r.omega)}</td>
               <td>
@@ -133,6 +138,7 @@ export function HistoryPanel(props: {
           ))}
         </tbody>
       </table>
+      <CriterionFootnote criterion={props.criterion} />
 
       <h3 className="subhead">Items that left</h3>
       {departures.length === 0 ? (

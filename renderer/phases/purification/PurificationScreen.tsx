@@ -147,6 +147,7 @@ export function PurificationScreen() {
               <HistoryPanel
                 rounds={data.rounds}
                 decisions={data.decisions}
+                criterion={data.criterion}
                 selectedRound={roundId}
                 onSelectRound={setChosenRound}
                 locked={locked}

@@ -16,6 +16,8 @@ import {
 } from 'recharts';
 import type { RoundItemRow, RoundSummary } from '../../../app/phases/purification.ts';
 import { bounded, unbounded } from '../../../app/api/format.ts';
+import type { ReliabilityCriterion } from '../../../app/engine/reliability/criterion.ts';
+import { criterionName } from '../../shared/criterion.tsx';
 
 const INK = '#4a5567';
 const ACCENT = '#2f5d8a';
@@ -214,8 +216,14 @@ export function DistributionChart({
   );
 }
 
-/** Alpha across rounds with its confidence interval and the band edges. */
-export function AlphaHistoryChart({ rounds }: { rounds: RoundSummary[] }) {
+/** Alpha across rounds with its confidence interval and the study's reliability criterion. */
+export function AlphaHistoryChart({
+  rounds,
+  criterion,
+}: {
+  rounds: RoundSummary[];
+  criterion: ReliabilityCriterion;
+}) {
   const data = rounds.map((r) => ({
     round: `Round ${r.number}`,
     alpha: r.alpha,
@@ -225,7 +233,7 @@ export function AlphaHistoryChart({ rounds }: { rounds: RoundSummary[] }) {
     k: r.k,
   }));
   const lowest = Math.min(...rounds.map((r) => r.ci.lower));
-  const floor = Math.max(0, Math.min(0.6, Math.floor(lowest * 10) / 10));
+  const floor = Math.max(0, Math.min(criterion.minimum - 0.1, Math.floor(lowest * 10) / 10));
   const ticks = Array.from({ length: Math.round((1 - floor) * 10) + 1 }, (_, i) => floor + i / 10);
   return (
     <figure className="chart" aria-label="Alpha across rounds">
@@ -233,7 +241,7 @@ export function AlphaHistoryChart({ rounds }: { rounds: RoundSummary[] }) {
         Alpha across rounds
         <span className="muted">
           {' '}
-          · whiskers: confidence interval (Feldt); dashed: .70 and .80 band edges
+          · whiskers: confidence interval (Feldt); dashed: criterion {criterionName(criterion)}*
         </span>
       </figcaption>
       <ResponsiveContainer width="100%" height={220}>
@@ -254,16 +262,15 @@ export function AlphaHistoryChart({ rounds }: { rounds: RoundSummary[] }) {
             }}
           />
           <ReferenceLine
-            y={0.8}
+            y={criterion.minimum}
             stroke={EDGE}
             strokeDasharray="4 3"
-            label={{ value: 'good ≥ .80', position: 'right', fontSize: 11, fill: INK }}
-          />
-          <ReferenceLine
-            y={0.7}
-            stroke={EDGE}
-            strokeDasharray="4 3"
-            label={{ value: 'acceptable ≥ .70', position: 'right', fontSize: 11, fill: INK }}
+            label={{
+              value: `criterion ${bounded(criterion.minimum, 2)}*`,
+              position: 'right',
+              fontSize: 11,
+              fill: INK,
+            }}
           />
           <Line dataKey="alpha" stroke={ACCENT} strokeWidth={2} isAnimationActive={false} dot={{ r: 4 }}>
             <ErrorBar dataKey="ci" width={6} stroke={ACCENT} />
