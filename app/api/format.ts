@@ -133,3 +133,20 @@ export const DECIMAL_MARK_NAME: Record<string, string> = { '.': 'point', ',': 'c
 export function shortDate(iso: string): string {
   return new Date(iso).toLocaleDateString(undefined, { year: 'numeric', month: 'short', day: 'numeric' });
 }
+
+/**
+ * Progress of a round's bootstrap, counted as the researcher asked for it: `resamples` for the
+ * scale and again for each facet, e.g. "1,000 resamples for the scale and 4 facets: facet 2 of 4,
+ * resample 600 of 1,000". `done` counts over all parts together.
+ */
+export function resampleProgress(done: number, resamples: number, facets: number): string {
+  const parts = facets + 1;
+  const what = facets === 0 ? 'the scale' : `the scale and ${plural(facets, 'facet')}`;
+  const head = `${plural(resamples, 'resample')} for ${what}`;
+  if (resamples <= 0) return head;
+  const clamped = Math.min(Math.max(done, 0), resamples * parts);
+  const part = Math.min(Math.floor(clamped / resamples), parts - 1);
+  const within = clamped - part * resamples;
+  const where = part === 0 ? 'scale' : `facet ${part} of ${facets}`;
+  return `${head}: ${where}, resample ${count(within)} of ${count(resamples)}`;
+}

@@ -10,9 +10,11 @@ import {
   percent,
   percentOf,
   plural,
+  resampleProgress,
   unbounded,
 } from '../../../app/api/format.ts';
 import { createRng } from '../../../app/engine/rng.ts';
+import { JOBS } from '../../../app/workers/jobs.ts';
 
 // The conventions checked here are those of the APA Publication Manual (7th ed., 2020), sections
 // 6.36 and 6.44 (from memory): no zero before the decimal point for a statistic that cannot exceed
@@ -121,5 +123,45 @@ describe('counts, shares and durations', () => {
     [7_620_000, '2 h 07 min'],
   ])('%d ms → %s', (ms, text) => {
     expect(duration(ms)).toBe(text);
+  });
+});
+
+describe('progress of a round counts what was asked', () => {
+  it('names the resamples asked for, and the scale and facets they run on', () => {
+    expect(resampleProgress(0, 1000, 4)).toBe(
+      '1,000 resamples for the scale and 4 facets: scale, resample 0 of 1,000',
+    );
+    expect(resampleProgress(2600, 1000, 4)).toBe(
+      '1,000 resamples for the scale and 4 facets: facet 2 of 4, resample 600 of 1,000',
+    );
+    expect(resampleProgress(5000, 1000, 4)).toBe(
+      '1,000 resamples for the scale and 4 facets: facet 4 of 4, resample 1,000 of 1,000',
+    );
+    expect(resampleProgress(150, 200, 0)).toBe('200 resamples for the scale: scale, resample 150 of 200');
+    expect(resampleProgress(3, 1000, 1)).toMatch(/^1,000 resamples for the scale and 1 facet:/);
+  });
+
+  it('is what the round job reports while it runs', () => {
+    const rng = createRng(11);
+    const data = Array.from({ length: 40 }, () => {
+      const t = rng.normal();
+      return [0, 1, 2, 3].map(() => Math.round(3 + t + rng.normal()));
+    });
+    const notes: string[] = [];
+    JOBS['purification.round'](
+      {
+        names: ['a', 'b', 'c', 'd'],
+        data,
+        missing: 'listwise',
+        bootstrap: { resamples: 100, seed: 5 },
+        facets: [
+          { facetId: 1, items: ['a', 'b'] },
+          { facetId: 2, items: ['c', 'd'] },
+        ],
+      },
+      { progress: (_done, _total, note) => note && notes.push(note), shouldStop: () => false },
+    );
+    expect(notes.at(-1)).toBe('100 resamples for the scale and 2 facets: facet 2 of 2, resample 100 of 100');
+    expect(notes.some((n) => n.includes('5,000') || n.includes('300 resamples'))).toBe(false);
   });
 });
