@@ -811,6 +811,21 @@ export interface DecisionRequest {
   statisticalRationale: string;
 }
 
+/**
+ * One decision, with one pair of reasons, on several items at once: each item still gets its own
+ * decision and its own log row, and either every one is recorded or (when one is refused) none is.
+ * Returns the new decisions' ids in the order of `itemCodes`.
+ */
+export function decideItems(
+  study: Study,
+  request: Omit<DecisionRequest, 'itemCode'> & { itemCodes: string[] },
+): number[] {
+  const codes = [...new Set(request.itemCodes.map((c) => c.trim()))].filter((c) => c !== '');
+  if (codes.length === 0) throw new RuleError('choose at least one item for the decision');
+  const { itemCodes: _all, ...common } = request;
+  return study.db.transaction(() => codes.map((itemCode) => decideItem(study, { ...common, itemCode })))();
+}
+
 const ACTION_VERB: Record<DecisionAction, string> = {
   drop: 'dropping',
   keep: 'keeping',

@@ -5,7 +5,8 @@ import { PhaseControls, SignOffAside } from '../../shared/phase-controls.tsx';
 import { useQuery } from '../../shared/use-command.ts';
 import { AlphaIfDeletedChart, DistributionChart, ItemTotalChart } from './charts.tsx';
 import { DecisionPanel } from './DecisionPanel.tsx';
-import { plural } from '../../../app/api/format.ts';
+import { bounded, plural } from '../../../app/api/format.ts';
+import { BatchDecision } from './BatchDecision.tsx';
 import { HistoryPanel } from './HistoryPanel.tsx';
 import { INITIAL_TABLE_VIEW, ItemTable, type TableView } from './ItemTable.tsx';
 import { ReliabilityPanel } from './ReliabilityPanel.tsx';
@@ -112,7 +113,7 @@ export function PurificationScreen() {
                   onClick={() => setChosenRound(r.id)}
                 >
                   Round {r.number}
-                  <span className="tab-alpha">α {r.alpha.toFixed(3).replace(/^0/, '')}</span>
+                  <span className="tab-alpha">α {bounded(r.alpha)}</span>
                 </button>
               ))}
             </nav>
@@ -201,6 +202,7 @@ function RoundView(props: {
             onView={props.onTableView}
           />
         </Panel>
+        {detail.isLatest && !props.locked && <BatchDecision detail={detail} decisions={props.decisions} />}
         <Panel title="Charts">
           <div className="chart-pair">
             <AlphaIfDeletedChart rows={detail.rows} alpha={detail.scale.alpha.value} />
