@@ -138,7 +138,7 @@ export function StatsPanel(props: {
                   Placed
                 </th>
               )}
-              <th>Below benchmark</th>
+              <th>Benchmarks and flags</th>
               <th>Decision</th>
             </tr>
           </thead>
@@ -264,14 +264,20 @@ function ItemStatsRow(props: {
         <td className="num">{bounded(s?.aikenV, 2)}</td>
         {props.hasPlacement && <td className="num">{bounded(s?.facetAgreement, 2)}</td>}
         <td className="flag-cell">
-          {flags.length === 0 ? (
-            <span className="muted">meets the benchmarks</span>
-          ) : (
+          {flags.length > 0 && (
             <ul>
               {flags.map((f) => (
                 <li key={f}>{f}</li>
               ))}
             </ul>
+          )}
+          {flags.length === 0 && props.item.benchmarksMet.length > 0 && (
+            <span className="muted benchmarks-met">meets {props.item.benchmarksMet.join('; ')}</span>
+          )}
+          {props.item.wordingFlags.length > 0 && (
+            <span className="wording-stand">
+              wording flags stand: {props.item.wordingFlags.join(', ')} (common practice)
+            </span>
           )}
         </td>
         <td className="decision-cell">
