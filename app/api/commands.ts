@@ -1,6 +1,7 @@
 import type { z } from 'zod';
 import { constructCommands } from './commands/construct.ts';
 import { coreCommands } from './commands/core.ts';
+import { exportCommands } from './commands/exports.ts';
 import { itemsCommands } from './commands/items.ts';
 import { pilotCommands } from './commands/pilot.ts';
 import { purificationCommands } from './commands/purification.ts';
@@ -20,6 +21,7 @@ export const commands = {
   ...reviewCommands,
   ...pilotCommands,
   ...purificationCommands,
+  ...exportCommands,
 };
 
 export type Commands = typeof commands;

@@ -28,6 +28,20 @@ test('creates, opens and copies studies in browser mode, and shows the refusals 
   expect(fs.existsSync(created)).toBe(true);
   await page.screenshot({ path: path.join(SCREENSHOTS, 'study-created.png'), fullPage: true });
 
+  // Typing goes on across an autosave (which reloads the study): the text stays whole, and Ctrl+Z
+  // is the field's own undo.
+  await page.locator('.sidebar a[href="#/phase/construct"]').click();
+  const nameField = page.locator('#field-name');
+  await nameField.click();
+  await page.keyboard.type('Winter ');
+  await expect(page.locator('label[for="field-name"] .save-state')).toHaveText('Saved');
+  await page.keyboard.type('commuting confidence');
+  await expect(nameField).toHaveValue('Winter commuting confidence');
+  await page.keyboard.press('Control+z');
+  const undone = await nameField.inputValue();
+  expect(undone.length).toBeLessThan('Winter commuting confidence'.length);
+  expect('Winter commuting confidence'.startsWith(undone)).toBe(true);
+
   // The same name again is refused, and the existing file is left as it is.
   await page.locator('.sidebar a[href="#/study"]').click();
   await page.locator('#new-study-title').fill('Another');

@@ -1,4 +1,5 @@
 import { useMemo, useState } from 'react';
+import { ExportButton } from '../../shared/export-button.tsx';
 import type { ScreenedRespondent } from '../../../app/phases/pilot.ts';
 import type { ScreeningCheck } from '../../../app/engine/screening.ts';
 import { ErrorNote, formatTime, Panel } from '../../shared/components.tsx';
@@ -164,8 +165,11 @@ export function ScreeningPanel({ datasetId, locked }: { datasetId: number; locke
     <Panel
       title={`Screening of “${data.dataset.name}”`}
       aside={
-        <span className="counts-line" data-testid="screening-counts">
-          {data.dataset.counts}
+        <span>
+          <span className="counts-line" data-testid="screening-counts">
+            {data.dataset.counts}
+          </span>{' '}
+          {run && <ExportButton request={{ kind: 'screening', datasetId: data.dataset.id }} />}
         </span>
       }
     >

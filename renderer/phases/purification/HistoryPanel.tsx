@@ -1,4 +1,5 @@
 import { useState } from 'react';
+import { ExportButton } from '../../shared/export-button.tsx';
 import type { DecisionView, RoundSummary } from '../../../app/phases/purification.ts';
 import { ErrorNote, Panel } from '../../shared/components.tsx';
 import { useMutation } from '../../shared/use-command.ts';
@@ -80,7 +81,15 @@ export function HistoryPanel(props: {
     restore: 'restored',
   };
   return (
-    <Panel title="History" aside={<span className="muted">every round and decision stays in the study</span>}>
+    <Panel
+      title="History"
+      aside={
+        <span className="muted">
+          every round and decision stays in the study ·{' '}
+          <ExportButton request={{ kind: 'purification-rounds' }} label="Export rounds (CSV)" />
+        </span>
+      }
+    >
       {rounds.length > 1 && <AlphaHistoryChart rounds={rounds} criterion={props.criterion} />}
       <table className="data-table history-table" aria-label="Rounds">
         <thead>

@@ -1,4 +1,5 @@
 import { useCallback, useState } from 'react';
+import { ExportButton } from '../../shared/export-button.tsx';
 import type { DecisionView, RoundSummary } from '../../../app/phases/purification.ts';
 import { ErrorNote, Panel } from '../../shared/components.tsx';
 import { PhaseControls, SignOffAside } from '../../shared/phase-controls.tsx';
@@ -190,7 +191,12 @@ function RoundView(props: {
         <ReliabilityPanel detail={detail} />
         <Panel
           title="Items"
-          aside={<span className="muted">click a row to decide on the item · click a header to sort</span>}
+          aside={
+            <span className="muted">
+              click a row to decide on the item · click a header to sort ·{' '}
+              <ExportButton request={{ kind: 'purification-items', roundId: detail.summary.id }} />
+            </span>
+          }
         >
           <ItemTable
             rows={detail.rows}

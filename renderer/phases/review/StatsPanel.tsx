@@ -1,4 +1,5 @@
 import { Fragment, useState } from 'react';
+import { ExportButton } from '../../shared/export-button.tsx';
 import type { RoundItemView, RoundView } from '../../../app/phases/review.ts';
 import type { Decision } from '../../../db/repos/review.ts';
 import { ErrorNote, Panel } from '../../shared/components.tsx';
@@ -30,7 +31,8 @@ export function StatsPanel(props: {
       aside={
         <span className="muted">
           {plural(panel, 'expert')} · relevant = {relevantFrom}–{report.scale.max}
-          {round.runId !== null && ` · stored as analysis run ${round.runId}`}
+          {round.runId !== null && ` · stored as analysis run ${round.runId}`} ·{' '}
+          <ExportButton request={{ kind: 'content-validity', roundId: round.id }} />
         </span>
       }
     >
