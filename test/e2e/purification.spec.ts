@@ -47,7 +47,7 @@ test('runs purification rounds on the demo: the weak item leaves with its reason
   });
   await expect(odRow.locator('.flag')).toContainText(['low r', 'α rises']);
   await page.getByLabel('Group by facet').uncheck();
-  await page.getByRole('button', { name: 'Corrected item-total r' }).click();
+  await page.getByRole('button', { name: 'Corrected item–total r' }).click();
   await expect(page.locator('.item-table tbody tr').first()).toContainText(OFF_DOMAIN);
   await page.mouse.move(0, 0);
   await page.screenshot({ path: path.join(SCREENSHOTS, 'purification-round1.png'), fullPage: true });
