@@ -35,7 +35,7 @@ export function ReliabilityPanel({ detail }: { detail: RoundDetail }) {
             <>
               {' '}
               · bootstrap {bounded(scale.bootstrapCI.lower)} to {bounded(scale.bootstrapCI.upper)} (
-              {scale.bootstrapCI.resamples} resamples, seed {scale.bootstrapCI.seed})
+              {plural(scale.bootstrapCI.resamples, 'resample')}, seed {scale.bootstrapCI.seed})
             </>
           )}
           <br />k = {scale.k} items · {scale.missingData.description}
