@@ -52,6 +52,7 @@ describe('migration 5: content digests', () => {
     const file = path.join(tmp.dir, 'v4.scalewright');
     const hashes = buildVersion4(file);
     const study = Study.open(file, { actor: TEST_ACTOR, app: 'test' });
+    let rowsAfterUpgrade = 0;
     try {
       expect(study.version).toBe(LATEST_VERSION);
       expect(study.db.prepare('SELECT code FROM item').pluck().all()).toEqual(['TR1']);
@@ -62,7 +63,8 @@ describe('migration 5: content digests', () => {
       expect(table).toMatch(/STRICT\s*$/);
       const rows = study.log.list().reverse();
       expect(rows.map((r) => r.hash).slice(0, 3)).toEqual(hashes);
-      expect(rows).toHaveLength(4);
+      // Row 4 is this upgrade's; a later migration that changes content may add its own row after it.
+      expect(rows.length).toBeGreaterThanOrEqual(4);
       expect(rows[3]).toMatchObject({
         seq: 4,
         phase: 'study',
@@ -85,12 +87,13 @@ describe('migration 5: content digests', () => {
         { tbl: 'study_meta', n: 1 },
       ]);
       expect(verifyStudy(study).breaks).toEqual([]);
+      rowsAfterUpgrade = study.log.count();
     } finally {
       study.close();
     }
     // Opening it again changes nothing more.
     const again = Study.open(file, { actor: TEST_ACTOR, app: 'test' });
-    expect(again.log.count()).toBe(4);
+    expect(again.log.count()).toBe(rowsAfterUpgrade);
     again.close();
   });
 
