@@ -1,10 +1,12 @@
 import type { z } from 'zod';
 import { constructCommands } from './commands/construct.ts';
 import { coreCommands } from './commands/core.ts';
+import { exportCommands } from './commands/exports.ts';
 import { itemsCommands } from './commands/items.ts';
 import { pilotCommands } from './commands/pilot.ts';
 import { purificationCommands } from './commands/purification.ts';
 import { reviewCommands } from './commands/review.ts';
+import { studyCommands } from './commands/study.ts';
 
 /**
  * Every operation the renderer may call, one table assembled from one file per phase. The same
@@ -13,11 +15,13 @@ import { reviewCommands } from './commands/review.ts';
  */
 export const commands = {
   ...coreCommands,
+  ...studyCommands,
   ...constructCommands,
   ...itemsCommands,
   ...reviewCommands,
   ...pilotCommands,
   ...purificationCommands,
+  ...exportCommands,
 };
 
 export type Commands = typeof commands;

@@ -21,8 +21,32 @@ export class Session {
       nativeBinding?: string;
       /** Keeps a new display name for the next launch (the user's settings file). */
       saveDisplayName?: (name: string) => void;
+      /** Where the recent studies are kept between launches (the user's settings file). */
+      recentStudies?: { list(): string[]; remember(file: string): void };
     } = {},
   ) {}
+
+  private readonly recentInMemory: string[] = [];
+
+  /** Studies opened or created lately, newest first. */
+  recent(): string[] {
+    return this.options.recentStudies?.list() ?? [...this.recentInMemory];
+  }
+
+  private remember(file: string): void {
+    if (this.options.recentStudies) this.options.recentStudies.remember(file);
+    else {
+      const at = this.recentInMemory.indexOf(file);
+      if (at >= 0) this.recentInMemory.splice(at, 1);
+      this.recentInMemory.unshift(file);
+      this.recentInMemory.length = Math.min(this.recentInMemory.length, 10);
+    }
+  }
+
+  /** The native addon path, for code that opens a second connection (a copy's check). */
+  get addon(): string | undefined {
+    return this.options.nativeBinding;
+  }
 
   private get nativeBinding(): string | undefined {
     return this.options.nativeBinding;
@@ -45,6 +69,7 @@ export class Session {
     });
     this.close();
     this.current = next;
+    this.remember(next.path);
     return next;
   }
 
@@ -56,6 +81,7 @@ export class Session {
     );
     this.close();
     this.current = next;
+    this.remember(next.path);
     return next;
   }
 
@@ -63,6 +89,7 @@ export class Session {
   adopt(study: Study): void {
     this.close();
     this.current = study;
+    this.remember(study.path);
   }
 
   /** The name shown in the log rows written from now on; earlier rows keep the name they had. */

@@ -1,5 +1,11 @@
 import type { Study } from '../../db/study.ts';
-import { addFacet, addRelation, updateConstructText, updateResponseFormat } from '../phases/construct.ts';
+import {
+  addFacet,
+  addRelation,
+  updateConstructText,
+  updateResponseFormat,
+  updateScoreUse,
+} from '../phases/construct.ts';
 
 /**
  * The demo's construct phase: an invented city mobility research unit defining "Everyday
@@ -55,6 +61,7 @@ export function fillDemoConstruct(study: Study): void {
     'intendedUses',
     'Describing groups and evaluating training programmes and street changes in research. Not for licensing, insurance, employment or any decision about an individual.',
   );
+  updateScoreUse(study, 'basic-research');
   updateResponseFormat(study, 5, 1, [
     'Not at all confident',
     'Slightly confident',

@@ -7,13 +7,7 @@ import {
   MISSING_METHOD_TEXT,
   type MissingMethod,
 } from './item-stats.ts';
-import {
-  alphaIfDeleted,
-  type BandedValue,
-  banded,
-  cronbachAlpha,
-  standardizedAlpha,
-} from './reliability/alpha.ts';
+import { alphaIfDeleted, type Coefficient, cronbachAlpha, standardizedAlpha } from './reliability/alpha.ts';
 import { type BootstrapInterval, bootstrapAlpha } from './reliability/bootstrap.ts';
 import { type FeldtInterval, feldtInterval } from './reliability/feldt.ts';
 import { type OneFactorFit, omegaTotal } from './reliability/omega.ts';
@@ -89,14 +83,14 @@ export interface ItemAnalysis {
   correlations: (number | null)[][];
   /** Mean of the off-diagonal correlations among items that vary; null when fewer than two vary. */
   meanInterItemR: number | null;
-  alpha: BandedValue;
+  alpha: Coefficient;
   /** From the mean inter-item correlation of the items that vary; null when fewer than two vary. */
-  alphaStandardized: BandedValue | null;
+  alphaStandardized: Coefficient | null;
   /** Feldt's interval; with pairwise deletion n is the smallest pairwise n (the cautious choice). */
   alphaCI: FeldtInterval;
   bootstrapCI: BootstrapInterval | null;
   /** From a one-factor model of the varying items' correlations (`items`, in loading order); null when fewer than three vary. */
-  omegaTotal: (BandedValue & { items: string[]; fit: OneFactorFit }) | null;
+  omegaTotal: (Coefficient & { items: string[]; fit: OneFactorFit }) | null;
   splitHalf: SplitHalf | null;
   /** SEM and MDC95 of the sum score from alpha; null when alpha is above 1 (a non-PSD pairwise matrix). */
   measurementError: MeasurementError | null;
@@ -166,7 +160,7 @@ function fmt(x: number): string {
  * One round of item analysis and reliability for a set of items — the single call the purification
  * workbench makes per round. From the (already reverse-scored) responses it computes, under the
  * chosen missing-data method: item descriptives, inter-item correlations, corrected item-total
- * correlations, Cronbach's alpha raw and standardized with their common-practice bands, alpha if
+ * correlations, Cronbach's alpha raw and standardized, alpha if
  * item deleted, the mean inter-item correlation, Feldt's interval, optionally a seeded percentile
  * bootstrap interval, McDonald's omega total from a one-factor model, odd–even split-half with
  * Spearman–Brown, and the SEM with MDC95. Problems that do not stop the analysis (zero-variance items,
@@ -241,7 +235,7 @@ export function analyseItems(input: ItemAnalysisInput): ItemAnalysis {
 
   const varying = names.map((_, i) => i).filter((i) => moments.varies[i]);
   let meanInterItemR: number | null = null;
-  let alphaStandardized: BandedValue | null = null;
+  let alphaStandardized: Coefficient | null = null;
   if (varying.length >= 2) {
     let sum = 0;
     let pairs = 0;
@@ -253,7 +247,7 @@ export function analyseItems(input: ItemAnalysisInput): ItemAnalysis {
     }
     meanInterItemR = sum / pairs;
     try {
-      alphaStandardized = banded(standardizedAlpha(meanInterItemR, varying.length));
+      alphaStandardized = { value: standardizedAlpha(meanInterItemR, varying.length) };
     } catch (error) {
       if (!(error instanceof EngineError)) throw error;
       warnings.push(error.message);
@@ -266,7 +260,7 @@ export function analyseItems(input: ItemAnalysisInput): ItemAnalysis {
     const used = varying.map((i) => names[i]);
     const result = omegaTotal(used, r);
     warnings.push(...result.warnings);
-    omega = { ...banded(result.value), items: used, fit: result.fit };
+    omega = { value: result.value, items: used, fit: result.fit };
   } else {
     warnings.push('omega total needs at least three items that vary; it is not reported');
   }
@@ -330,7 +324,7 @@ export function analyseItems(input: ItemAnalysisInput): ItemAnalysis {
     items,
     correlations: moments.correlation,
     meanInterItemR,
-    alpha: banded(alphaValue),
+    alpha: { value: alphaValue },
     alphaStandardized,
     alphaCI,
     bootstrapCI,

@@ -7,7 +7,7 @@ import { DEMO_TITLE, fillDemoStudy } from '../demo/index.ts';
 import { Study } from '../../db/study.ts';
 import { startBrowserServer } from '../web/server.ts';
 import { ensureRendererBuilt, PROJECT_ROOT, RENDERER_DIST } from './renderer-build.ts';
-import { currentActor, demoStudyPath, rememberRecent, writeSettings } from './user-data.ts';
+import { currentActor, demoStudyPath, readSettings, rememberRecent, writeSettings } from './user-data.ts';
 
 /** Browser mode's usual port; another free one is taken when it is busy. */
 const DEFAULT_PORT = 5317;
@@ -153,9 +153,9 @@ async function serveBrowser(studyPath: string, port: number): Promise<void> {
   ensureRendererBuilt(log);
   const session = new Session(currentActor(), 'Scalewright (browser mode)', {
     saveDisplayName: (displayName) => writeSettings({ displayName }),
+    recentStudies: { list: () => readSettings().recentStudies ?? [], remember: rememberRecent },
   });
   session.adopt(Study.open(studyPath, { actor: session.actor, app: 'Scalewright (browser mode)' }));
-  rememberRecent(studyPath);
   const server = await startBrowserServer({ session, staticDir: RENDERER_DIST, port }).catch(
     (error: NodeJS.ErrnoException) => {
       if (error.code !== 'EADDRINUSE' || port === 0) throw error;

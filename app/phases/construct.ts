@@ -15,10 +15,17 @@ import {
   setFacetRetired,
   setRelationRetired,
   setResponseFormat,
+  setScoreUse,
   updateFacet,
   updateRelation,
 } from '../../db/repos/construct.ts';
 import type { Study } from '../../db/study.ts';
+import {
+  SCORE_USE_LABEL,
+  SCORE_USES,
+  type ScoreUse,
+  reliabilityCriterion,
+} from '../engine/reliability/criterion.ts';
 import { changeInPhase } from './change.ts';
 import { RuleError } from './errors.ts';
 import type { ChecklistItem, PhaseRules } from './types.ts';
@@ -44,6 +51,13 @@ export function constructView(study: Study) {
     construct: getConstruct(study),
     facets: listFacets(study, { includeRetired: true }),
     relations: listRelations(study, { includeRetired: true }),
+    /** The uses of scores to choose from, each with the reliability criterion it sets. */
+    scoreUses: SCORE_USES.map((use) => ({
+      use,
+      label: SCORE_USE_LABEL[use],
+      minimum: reliabilityCriterion(use).minimum,
+      source: reliabilityCriterion(use).citation,
+    })),
   };
 }
 
@@ -54,6 +68,30 @@ export function updateConstructText(study: Study, field: ConstructTextField, val
     study,
     { phase: 'construct', kind: 'edit', target: FIELD_LABEL[field], detail: { field, before, after: value } },
     () => setConstructText(study, field, value),
+  );
+}
+
+/**
+ * States what the scores will be used for, which sets the reliability criterion shown beside every
+ * alpha (registry `reliability.criterion.*`). Logged with the use before and after.
+ */
+export function updateScoreUse(study: Study, use: ScoreUse | null): void {
+  const before = getConstruct(study).scoreUse;
+  if (before === use) return;
+  changeInPhase(
+    study,
+    {
+      phase: 'construct',
+      kind: 'edit',
+      target: 'use of scores',
+      detail: {
+        field: 'scoreUse',
+        before,
+        after: use,
+        label: use === null ? 'not stated' : SCORE_USE_LABEL[use],
+      },
+    },
+    () => setScoreUse(study, use),
   );
 }
 

@@ -1,6 +1,6 @@
 import { canonicalJson } from '../../db/canonical-json.ts';
 import { getRun } from '../../db/repos/analysis-runs.ts';
-import { type FacetRecord, listFacets } from '../../db/repos/construct.ts';
+import { type FacetRecord, getConstruct, listFacets } from '../../db/repos/construct.ts';
 import {
   currentDatasetChoice,
   currentExclusions,
@@ -24,7 +24,11 @@ import {
 import type { Study } from '../../db/study.ts';
 import { BOUND_TOLERANCE, type MissingMethod } from '../engine/item-stats.ts';
 import { DEFAULT_CI_LEVEL, type ItemAnalysis, type ItemResult } from '../engine/reliability.ts';
-import type { AlphaBand } from '../engine/reliability/alpha.ts';
+import {
+  meetsCriterion,
+  type ReliabilityCriterion,
+  reliabilityCriterion,
+} from '../engine/reliability/criterion.ts';
 import { reverseScore, type ScaleBounds } from '../engine/scoring.ts';
 import { JOBS, type RoundJobInput, type RoundJobOutput } from '../workers/jobs.ts';
 import { analysisData } from './analysis-data.ts';
@@ -425,6 +429,16 @@ export function prepareRound(study: Study, request: RoundRequest = {}): Prepared
   };
 }
 
+/** The reliability criterion for this study, chosen from the construct's stated use of scores. */
+export function criterionFor(study: Study): ReliabilityCriterion {
+  return reliabilityCriterion(getConstruct(study).scoreUse);
+}
+
+/** "meets" or "below" the criterion, with the criterion and its source, for checklist text. */
+function criterionNote(summary: RoundSummary, criterion: ReliabilityCriterion): string {
+  return `${summary.meetsCriterion ? 'meets' : 'below'} the ${fmt(criterion.minimum, 2)} criterion for ${criterion.useName}, ${criterion.citation}`;
+}
+
 function fmt(x: number, digits = 2): string {
   return x.toFixed(digits).replace(/^(-?)0\./, '$1.');
 }
@@ -548,7 +562,8 @@ export interface RoundSummary {
   missing: MissingMethod;
   missingText: string;
   alpha: number;
-  band: AlphaBand;
+  /** Whether alpha reaches the study's reliability criterion (`criterionFor`). */
+  meetsCriterion: boolean;
   ci: { level: number; lower: number; upper: number };
   bootstrapCI: { level: number; lower: number; upper: number; resamples: number; seed: number } | null;
   omega: number | null;
@@ -609,6 +624,7 @@ function storedRound(study: Study, round: RoundRecord) {
 
 /** Every round with its headline numbers, oldest first. */
 export function roundSummaries(study: Study): RoundSummary[] {
+  const criterion = criterionFor(study);
   const pilot = currentPilotDataset(study);
   const excludedNow = pilot ? [...currentExclusions(study, pilot.id).keys()].sort((a, b) => a - b) : [];
   let before: string[] = [];
@@ -632,7 +648,7 @@ export function roundSummaries(study: Study): RoundSummary[] {
       missing: scale.missingData.method,
       missingText: scale.missingData.description,
       alpha: scale.alpha.value,
-      band: scale.alpha.band,
+      meetsCriterion: meetsCriterion(scale.alpha.value, criterion),
       ci: { level: scale.alphaCI.level, lower: scale.alphaCI.lower, upper: scale.alphaCI.upper },
       bootstrapCI: scale.bootstrapCI && {
         level: scale.bootstrapCI.level,
@@ -690,6 +706,8 @@ export interface FacetResult {
 
 export interface RoundDetail {
   summary: RoundSummary;
+  /** The study's reliability criterion, from the construct's stated use of scores. */
+  criterion: ReliabilityCriterion;
   isLatest: boolean;
   engineVersion: string;
   options: Record<string, unknown>;
@@ -769,6 +787,7 @@ export function roundDetail(study: Study, roundId: number): RoundDetail {
     facets: facetResults,
     rows,
     rules: RULES_OF_THUMB,
+    criterion: criterionFor(study),
     thresholds: (run.options as { rules?: typeof ROUND_RULES }).rules ?? ROUND_RULES,
   };
 }
@@ -820,6 +839,21 @@ export interface DecisionRequest {
   domainRationale: string;
   /** What the round's statistics show. */
   statisticalRationale: string;
+}
+
+/**
+ * One decision, with one pair of reasons, on several items at once: each item still gets its own
+ * decision and its own log row, and either every one is recorded or (when one is refused) none is.
+ * Returns the new decisions' ids in the order of `itemCodes`.
+ */
+export function decideItems(
+  study: Study,
+  request: Omit<DecisionRequest, 'itemCode'> & { itemCodes: string[] },
+): number[] {
+  const codes = [...new Set(request.itemCodes.map((c) => c.trim()))].filter((c) => c !== '');
+  if (codes.length === 0) throw new RuleError('choose at least one item for the decision');
+  const { itemCodes: _all, ...common } = request;
+  return study.db.transaction(() => codes.map((itemCode) => decideItem(study, { ...common, itemCode })))();
 }
 
 const ACTION_VERB: Record<DecisionAction, string> = {
@@ -1072,6 +1106,7 @@ export function purificationView(study: Study) {
     rounds,
     decisions,
     rules: RULES_OF_THUMB,
+    criterion: criterionFor(study),
   };
 }
 
@@ -1139,7 +1174,7 @@ function checklist(study: Study): ChecklistItem[] {
     label: 'The final round reports alpha with its confidence interval',
     met: last !== undefined,
     detail: last
-      ? `α = ${fmt(last.alpha, 3)} (${last.band}), ${Math.round(last.ci.level * 100)}% CI ${fmt(last.ci.lower, 3)} to ${fmt(last.ci.upper, 3)} (Feldt), n = ${last.n}, ${last.missing} deletion`
+      ? `α = ${fmt(last.alpha, 3)} (${criterionNote(last, criterionFor(study))}), ${Math.round(last.ci.level * 100)}% CI ${fmt(last.ci.lower, 3)} to ${fmt(last.ci.upper, 3)} (Feldt), n = ${last.n}, ${last.missing} deletion`
       : 'no round yet',
   });
 
@@ -1190,7 +1225,7 @@ export const purificationRules: PhaseRules = {
     const retained = currentPilotDataset(study) ? workingSet(study).items.length : last.k;
     return [
       plural(rounds.length, 'round'),
-      `α = ${fmt(last.alpha, 2)} (${last.band}) in round ${last.number}`,
+      `α = ${fmt(last.alpha, 2)} in round ${last.number} (${last.meetsCriterion ? 'meets' : 'below'} the ${fmt(criterionFor(study).minimum, 2)} criterion)`,
       `${plural(retained, 'item')} retained`,
       ...(dropped > 0 ? [`${dropped} dropped`] : []),
     ];

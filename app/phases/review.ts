@@ -1,3 +1,4 @@
+import Papa from 'papaparse';
 import { getConstruct, listFacets } from '../../db/repos/construct.ts';
 import {
   getItem,
@@ -49,11 +50,15 @@ import {
   type ContentValidityReport,
   type ExpertRating,
   formatRatio,
+  ICVI_BENCHMARK_LARGE_PANEL,
   type ItemContentValidity,
+  LARGE_PANEL,
   MIN_PANEL_FOR_BENCHMARK,
+  RATIO_TOLERANCE,
   SCVI_AVE_BENCHMARK,
 } from '../engine/content.ts';
 import { ENGINE_VERSION } from '../engine/version.ts';
+import { checkItemWording } from '../engine/wording.ts';
 import { delimiterName } from '../import/detect-format.ts';
 import { TableError } from '../import/parse-table.ts';
 import { describeProblem, readRatings } from '../import/ratings.ts';
@@ -1021,6 +1026,10 @@ export function decideItem(study: Study, input: DecisionInput): number {
 }
 
 export interface RoundItemView {
+  /** The content-validity benchmarks the item meets in this round, each with its source. */
+  benchmarksMet: string[];
+  /** Wording checks that flag the rated wording (common practice in item writing); they stand whatever the ratings. */
+  wordingFlags: string[];
   itemId: number;
   code: string;
   /** The wording the experts rated (or will rate, until ratings arrive). */
@@ -1067,15 +1076,19 @@ function roundView(study: Study, round: RoundRecord): RoundView {
     const revisionId = frozen.get(it.id) ?? null;
     const rated = revisionId === null ? null : getRevision(study, revisionId);
     const decision = decisions.get(it.id) ?? null;
+    const stats = analysis?.report.items.find((s) => s.item === it.code) ?? null;
+    const text = rated?.text ?? it.text;
     return {
+      benchmarksMet: stats ? benchmarksMet(stats) : [],
+      wordingFlags: checkItemWording(text).flags.map((f) => f.check),
       itemId: it.id,
       code: it.code,
-      text: rated?.text ?? it.text,
+      text,
       revision: rated?.number ?? it.revision,
       rewordedSince: rated !== null && rated !== undefined && rated.id !== it.revisionId,
       facetName: it.facetId === null ? null : (facetNames.get(it.facetId) ?? null),
       state: it.state,
-      stats: analysis?.report.items.find((s) => s.item === it.code) ?? null,
+      stats,
       packetNumber: numbers.get(it.id) ?? 0,
       decision: decision && {
         ...decision,
@@ -1109,23 +1122,62 @@ function roundView(study: Study, round: RoundRecord): RoundView {
   };
 }
 
+/**
+ * The benchmarks an item's content-validity statistics reach, in words with their sources: the
+ * I-CVI benchmark for the panel's size (Lynn 1986; Polit & Beck 2006), a modified kappa rated good or
+ * excellent (Polit, Beck & Owen 2007), a CVR at or above its exact critical value (Wilson, Pan &
+ * Schumsky 2012). A statistic the panel could not support is left out.
+ */
+export function benchmarksMet(stats: ItemContentValidity): string[] {
+  const out: string[] = [];
+  if (stats.iCvi !== null && stats.rated >= MIN_PANEL_FOR_BENCHMARK) {
+    if (stats.rated < LARGE_PANEL) {
+      if (stats.iCvi >= 1 - BENCHMARK_PRECISION)
+        out.push(
+          `I-CVI ${formatRatio(stats.iCvi)} = 1.00 (${MIN_PANEL_FOR_BENCHMARK}–${LARGE_PANEL - 1} experts; Lynn 1986)`,
+        );
+    } else if (stats.iCvi >= ICVI_BENCHMARK_LARGE_PANEL - BENCHMARK_PRECISION) {
+      out.push(
+        `I-CVI ${formatRatio(stats.iCvi)} ≥ ${formatRatio(ICVI_BENCHMARK_LARGE_PANEL)} (${LARGE_PANEL}+ experts; Polit & Beck 2006)`,
+      );
+    }
+  }
+  if (stats.modifiedKappa !== null && (stats.kappaBand === 'excellent' || stats.kappaBand === 'good'))
+    out.push(
+      `modified kappa ${formatRatio(stats.modifiedKappa)} ${stats.kappaBand} (Polit, Beck & Owen 2007)`,
+    );
+  if (stats.cvr !== null && stats.cvrCritical !== null && stats.cvr >= stats.cvrCritical - RATIO_TOLERANCE)
+    out.push(
+      `CVR ${formatRatio(stats.cvr)} ≥ critical ${formatRatio(stats.cvrCritical, 3)} (Wilson, Pan & Schumsky 2012)`,
+    );
+  return out;
+}
+
+/**
+ * The blank ratings sheet of a round, in long form (one row per expert and item, items in the
+ * packet's order), with the columns its rating form asks for. Reading it changes nothing, so it stays
+ * available after the phase is signed off (a late expert, a lost copy).
+ */
+export function blankRatingsSheet(study: Study, roundId: number): { fileName: string; text: string } {
+  const round = roundView(study, requireRound(study, roundId));
+  const columns = ['item', 'expert', 'relevance'];
+  if (round.form.asksEssential) columns.push('essential');
+  if (round.form.asksFacet) columns.push('facet');
+  if (round.form.asksComment) columns.push('comment');
+  const experts = round.experts.length > 0 ? round.experts.map((e) => e.code) : ['E1', 'E2', 'E3'];
+  const inPacketOrder = [...round.items].sort((a, b) => a.packetNumber - b.packetNumber);
+  const rows = experts.flatMap((expert) =>
+    inPacketOrder.map((it) => [it.code, expert, ...columns.slice(2).map(() => '')]),
+  );
+  return {
+    fileName: `ratings-sheet-round-${round.number}.csv`,
+    text: `${Papa.unparse({ fields: columns, data: rows }, { newline: '\r\n' })}\r\n`,
+  };
+}
+
 /** Every round with its panel, form, ratings, statistics and decisions, plus a round-by-round comparison. */
 export function reviewView(study: Study) {
   const rounds = listRounds(study).map((r) => roundView(study, r));
-  const rated = rounds.filter((r) => r.report !== null);
-  const codes: string[] = [];
-  const rows = new Map<string, { code: string; cells: Record<number, ItemContentValidity | null> }>();
-  for (const round of rated) {
-    for (const it of round.items) {
-      let row = rows.get(it.code);
-      if (!row) {
-        row = { code: it.code, cells: {} };
-        rows.set(it.code, row);
-        codes.push(it.code);
-      }
-      row.cells[round.number] = it.stats;
-    }
-  }
   return {
     facets: listFacets(study),
     keptItems: listItems(study).filter((it) => it.state === 'kept').length,
@@ -1134,16 +1186,66 @@ export function reviewView(study: Study) {
     relevanceAnchors: RELEVANCE_ANCHORS,
     benchmarks: { sCviAve: SCVI_AVE_BENCHMARK, precision: BENCHMARK_PRECISION },
     rounds,
-    comparison: {
-      rounds: rated.map((r) => ({
-        number: r.number,
-        sCviAve: r.report?.sCviAve ?? null,
-        sCviUa: r.report?.sCviUa ?? null,
-      })),
-      rows: codes.map(
-        (c) => rows.get(c) as { code: string; cells: Record<number, ItemContentValidity | null> },
-      ),
-    },
+    comparison: compareRounds(rounds),
+  };
+}
+
+/** One item across the rated rounds: its statistics in each round it was part of. */
+export interface ComparedItem {
+  code: string;
+  /** By round number; absent where the item was not part of the round. */
+  cells: Record<number, ItemContentValidity | null>;
+  /** The first rated round the item appears in. */
+  firstRound: number;
+  /** True when the item is in the latest rated round and was in no rated round before it. */
+  newInLatest: boolean;
+}
+
+/**
+ * The rated rounds side by side: one row per item that any rated round holds (in the order of first
+ * appearance, an item added later at the end of its first round's place), and the scale-level
+ * S-CVI of each round, keyed by round number so that a value can only sit under its own round.
+ */
+export function compareRounds(
+  rounds: readonly {
+    number: number;
+    items: readonly { code: string; stats: ItemContentValidity | null }[];
+    report: { sCviAve: number; sCviUa: number } | null;
+  }[],
+) {
+  const rated = rounds.filter((r) => r.report !== null).sort((a, b) => a.number - b.number);
+  const latest = rated.at(-1)?.number;
+  const rows = new Map<string, ComparedItem>();
+  for (const round of rated) {
+    for (const it of round.items) {
+      let row = rows.get(it.code);
+      if (!row) {
+        row = { code: it.code, cells: {}, firstRound: round.number, newInLatest: false };
+        rows.set(it.code, row);
+      }
+      row.cells[round.number] = it.stats;
+    }
+  }
+  for (const row of rows.values()) row.newInLatest = rated.length > 1 && row.firstRound === latest;
+  return {
+    rounds: rated.map((r) => r.number),
+    rows: [...rows.values()],
+    scale: [
+      {
+        label: 'S-CVI/Ave',
+        values: Object.fromEntries(rated.map((r) => [r.number, r.report?.sCviAve ?? null])) as Record<
+          number,
+          number | null
+        >,
+      },
+      {
+        label: 'S-CVI/UA',
+        values: Object.fromEntries(rated.map((r) => [r.number, r.report?.sCviUa ?? null])) as Record<
+          number,
+          number | null
+        >,
+      },
+    ],
   };
 }
 

@@ -39,6 +39,7 @@ const EXTERNAL_HOSTS = ['doi.org'];
 const studySession = new Session(currentActor(), APP_NAME, {
   nativeBinding: app.isPackaged ? undefined : process.env.SCALEWRIGHT_NATIVE_BINDING || undefined,
   saveDisplayName: (displayName) => writeSettings({ displayName }),
+  recentStudies: { list: () => readSettings().recentStudies ?? [], remember: rememberRecent },
 });
 let win: BrowserWindow | undefined;
 
@@ -51,7 +52,6 @@ function studyFromArgs(argv: string[]): string | undefined {
 function openStudy(file: string): void {
   try {
     studySession.open(file);
-    rememberRecent(studySession.study.path);
     win?.setTitle(`${path.basename(file)} — Scalewright`);
     win?.webContents.reload();
     buildMenu();

@@ -1,3 +1,4 @@
+import { resampleProgress } from '../api/format.ts';
 import { EngineError } from '../engine/errors.ts';
 import { simulateEigenvalues } from '../engine/factor/factor-count.ts';
 import { polychoricMatrix } from '../engine/factor/polychoric.ts';
@@ -20,7 +21,8 @@ export interface RoundJobOutput {
 
 /** What a job may do while it runs: report progress, and ask whether it should stop. */
 export interface JobContext {
-  progress(done: number, total: number): void;
+  /** `note` says in words what is being counted, for the progress bar. */
+  progress(done: number, total: number, note?: string): void;
   shouldStop(): boolean;
 }
 
@@ -58,7 +60,8 @@ export const JOBS = {
         data,
         bootstrap: input.bootstrap && {
           ...input.bootstrap,
-          onProgress: (done: number) => ctx.progress(start + done, total),
+          onProgress: (done: number) =>
+            ctx.progress(start + done, total, resampleProgress(start + done, each, facets.length)),
           shouldStop: () => ctx.shouldStop(),
         },
       });

@@ -13,6 +13,8 @@ export interface TaskStatus {
   state: TaskState;
   done: number;
   total: number;
+  /** What is being counted, in words, when the job says. */
+  note?: string;
   error?: string;
 }
 
@@ -53,12 +55,14 @@ export class TaskRunner {
           type: string;
           done?: number;
           total?: number;
+          note?: string;
           value?: unknown;
           error?: { message: string; code: string };
         }) => {
           if (message.type === 'progress') {
             status.done = message.done ?? 0;
             status.total = message.total ?? 0;
+            status.note = message.note;
           } else if (message.type === 'done') {
             status.state = 'done';
             status.done = status.total;

@@ -16,11 +16,11 @@ const { job, input, stop } = workerData as Start;
 const flag = new Int32Array(stop);
 let lastReport = 0;
 const context: JobContext = {
-  progress(done, total) {
+  progress(done, total, note) {
     const now = Date.now();
     if (now - lastReport < PROGRESS_INTERVAL_MS && done !== total) return;
     lastReport = now;
-    parentPort?.postMessage({ type: 'progress', done, total });
+    parentPort?.postMessage({ type: 'progress', done, total, note });
   },
   shouldStop: () => Atomics.load(flag, 0) === 1,
 };

@@ -4,6 +4,7 @@ import { migration0003 } from './0003-datasets.ts';
 import { migration0004 } from './0004-purification.ts';
 import { migration0005 } from './0005-content-digests.ts';
 import { migration0006 } from './0006-dataset-choice.ts';
+import { migration0007 } from './0007-score-use.ts';
 import type { Migration } from './types.ts';
 
 /** Every migration, in order. A new one is a new numbered file appended here (see DEVELOPERS.md). */
@@ -14,6 +15,7 @@ export const MIGRATIONS: readonly Migration[] = [
   migration0004,
   migration0005,
   migration0006,
+  migration0007,
 ];
 
 for (let i = 0; i < MIGRATIONS.length; i++) {

@@ -1,3 +1,4 @@
+import type { ScoreUse } from '../../app/engine/reliability/criterion.ts';
 import type { Study } from '../study.ts';
 
 export interface ConstructRecord {
@@ -7,6 +8,8 @@ export interface ConstructRecord {
   excludes: string;
   population: string;
   intendedUses: string;
+  /** The use of scores the reliability criterion is chosen from; null when not stated. */
+  scoreUse: ScoreUse | null;
   responsePoints: number;
   responseMin: number;
   anchors: string[];
@@ -61,6 +64,7 @@ export function getConstruct(study: Study): ConstructRecord {
     excludes: row.excludes as string,
     population: row.population as string,
     intendedUses: row.intended_uses as string,
+    scoreUse: (row.score_use as ScoreUse | null) ?? null,
     responsePoints: row.response_points as number,
     responseMin: row.response_min as number,
     anchors: JSON.parse(row.anchors as string) as string[],
@@ -69,6 +73,10 @@ export function getConstruct(study: Study): ConstructRecord {
 
 export function setConstructText(study: Study, field: ConstructTextField, value: string): void {
   study.db.prepare(`UPDATE construct SET ${COLUMN[field]} = ? WHERE id = 1`).run(value);
+}
+
+export function setScoreUse(study: Study, use: ScoreUse | null): void {
+  study.db.prepare('UPDATE construct SET score_use = ? WHERE id = 1').run(use);
 }
 
 export function setResponseFormat(study: Study, points: number, min: number, anchors: string[]): void {

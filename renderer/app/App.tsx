@@ -7,14 +7,20 @@ import { StudyRevision, useQuery } from '../shared/use-command.ts';
 import { DisplayName } from './DisplayName.tsx';
 import { PhaseNotYetAvailable } from './PhaseNotYetAvailable.tsx';
 import { PHASE_SCREENS } from './phase-screens.ts';
+import { StudyScreen } from './StudyScreen.tsx';
 
-type Route = { screen: 'overview' } | { screen: 'log' } | { screen: 'phase'; phase: PhaseId };
+type Route =
+  | { screen: 'overview' }
+  | { screen: 'study' }
+  | { screen: 'log' }
+  | { screen: 'phase'; phase: PhaseId };
 
 function parseRoute(hash: string): Route {
   const phase = /^#\/phase\/([a-z]+)/.exec(hash)?.[1];
   if (phase && (PHASE_IDS as readonly string[]).includes(phase))
     return { screen: 'phase', phase: phase as PhaseId };
   if (hash.startsWith('#/log')) return { screen: 'log' };
+  if (hash.startsWith('#/study')) return { screen: 'study' };
   return { screen: 'overview' };
 }
 
@@ -55,6 +61,9 @@ function Shell() {
         <p className="study-path" title={info.data?.path}>
           {info.data?.path.split(/[\\/]/).pop()}
         </p>
+        <a href="#/study" className={route.screen === 'study' ? 'nav-item active' : 'nav-item'}>
+          Open, new, copy…
+        </a>
         <a href="#/overview" className={route.screen === 'overview' ? 'nav-item active' : 'nav-item'}>
           Overview
         </a>
@@ -77,7 +86,8 @@ function Shell() {
         {info.data && <DisplayName name={info.data.actor.name} user={info.data.actor.user} />}
       </nav>
       <main className="content">
-        <ErrorNote message={info.error} />
+        {route.screen !== 'study' && <ErrorNote message={info.error} />}
+        {route.screen === 'study' && <StudyScreen />}
         {route.screen === 'overview' && <OverviewScreen />}
         {route.screen === 'log' && <DecisionLogScreen />}
         {route.screen === 'phase' && (Screen ? <Screen /> : <PhaseNotYetAvailable phase={route.phase} />)}

@@ -79,13 +79,22 @@ export function AutosaveField(props: {
   const [state, setState] = useState<'idle' | 'editing' | 'saving' | 'saved' | 'failed'>('idle');
   const timer = useRef<ReturnType<typeof setTimeout> | undefined>(undefined);
   const saved = useRef(props.value);
+  /** What the field holds now, for code that runs after an await. */
+  const current = useRef(props.value);
+  /** While the field has focus the study's copy never replaces what is typed (nor its undo history). */
+  const focused = useRef(false);
 
+  // The study's value comes in (after any change reloads the queries). It replaces the field's text
+  // only when the field is not being edited and holds nothing unsaved: otherwise a reload that lands
+  // between two keystrokes would overwrite the newer text and break the field's own Ctrl+Z.
   useEffect(() => {
-    if (state === 'idle' || state === 'saved') {
-      setDraft(props.value);
-      saved.current = props.value;
-    }
-  }, [props.value, state]);
+    if (focused.current || current.current !== saved.current) return;
+    current.current = props.value;
+    saved.current = props.value;
+    setDraft(props.value);
+  }, [props.value]);
+
+  useEffect(() => () => clearTimeout(timer.current), []);
 
   async function save(value: string) {
     clearTimeout(timer.current);
@@ -96,10 +105,12 @@ export function AutosaveField(props: {
     setState('saving');
     const ok = await props.onSave(value);
     if (ok) saved.current = value;
-    setState(ok ? 'saved' : 'failed');
+    // Typing may have gone on while the save ran: the field then stays "editing" with its newer text.
+    setState(!ok ? 'failed' : current.current === value ? 'saved' : 'editing');
   }
 
   function change(value: string) {
+    current.current = value;
     setDraft(value);
     setState('editing');
     clearTimeout(timer.current);
@@ -111,7 +122,13 @@ export function AutosaveField(props: {
     name: props.name,
     value: draft,
     onChange: (e: { target: { value: string } }) => change(e.target.value),
-    onBlur: () => void save(draft),
+    onFocus: () => {
+      focused.current = true;
+    },
+    onBlur: () => {
+      focused.current = false;
+      void save(current.current);
+    },
   };
   return (
     <div className="field">

@@ -1,6 +1,6 @@
 import type { SignOffReview } from '../../app/phases/index.ts';
 import { formatTime } from './components.tsx';
-import { plural } from './format.ts';
+import { plural } from '../../app/api/format.ts';
 
 /** How many changes are listed before "and N more" (the decision log has them all). */
 const SHOWN = 6;

@@ -1,3 +1,4 @@
+import { count } from '../../app/api/format.ts';
 import { useEffect, useState } from 'react';
 import type { TaskStatus } from '../../app/workers/tasks.ts';
 import { call } from '../api/client.ts';
@@ -34,7 +35,8 @@ export function TaskProgress(props: { taskId: string; label: string; onFinished(
       <span>{props.label}</span>
       <progress max={1} value={share} aria-label={props.label} />
       <span className="muted">
-        {status && status.total > 0 ? `${status.done} of ${status.total}` : 'starting…'}
+        {status?.note ??
+          (status && status.total > 0 ? `${count(status.done)} of ${count(status.total)}` : 'starting…')}
       </span>
       <button type="button" className="secondary" onClick={() => void call('task.cancel', { id: taskId })}>
         Cancel

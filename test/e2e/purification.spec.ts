@@ -47,10 +47,18 @@ test('runs purification rounds on the demo: the weak item leaves with its reason
   });
   await expect(odRow.locator('.flag')).toContainText(['low r', 'α rises']);
   await page.getByLabel('Group by facet').uncheck();
-  await page.getByRole('button', { name: 'Corrected item-total r' }).click();
+  await page.getByRole('button', { name: 'Corrected item–total r' }).click();
   await expect(page.locator('.item-table tbody tr').first()).toContainText(OFF_DOMAIN);
   await page.mouse.move(0, 0);
   await page.screenshot({ path: path.join(SCREENSHOTS, 'purification-round1.png'), fullPage: true });
+  await page
+    .locator('.panel', { has: page.locator('.item-table') })
+    .first()
+    .screenshot({ path: path.join(SCREENSHOTS, 'purification-items.png') });
+  await page
+    .locator('[data-testid="round-alpha"]')
+    .locator('xpath=..')
+    .screenshot({ path: path.join(SCREENSHOTS, 'purification-reliability.png') });
 
   // Restore it (reversing the demo's drop) and run round 3: it is back, and alpha falls.
   await page.locator('.round-tab', { hasText: 'Round 2' }).click();

@@ -11,7 +11,9 @@ import {
   retireRelation,
   updateConstructText,
   updateResponseFormat,
+  updateScoreUse,
 } from '../../phases/construct.ts';
+import { SCORE_USES } from '../../engine/reliability/criterion.ts';
 import { command } from '../define.ts';
 import { id, rationale, text } from './schemas.ts';
 
@@ -27,6 +29,9 @@ const relation = z.object({
 /** Phase 1: the construct, its facets, response format and planned relations. */
 export const constructCommands = {
   'construct.get': command(z.object({}), (s) => constructView(s.study)),
+  'construct.setScoreUse': command(z.object({ use: z.enum(SCORE_USES).nullable() }), (s, input) =>
+    updateScoreUse(s.study, input.use),
+  ),
   'construct.setText': command(
     z.object({
       field: z.enum(['name', 'definition', 'includes', 'excludes', 'population', 'intendedUses']),

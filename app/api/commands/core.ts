@@ -27,14 +27,6 @@ export const coreCommands = {
       actor: study.actor,
     };
   }),
-  'study.open': command(z.object({ path: text(4_096).min(1) }), (s, input) => {
-    s.open(input.path);
-    return { path: s.study.path };
-  }),
-  'study.create': command(z.object({ path: text(4_096).min(1), title: text(300) }), (s, input) => {
-    s.create(input.path, input.title);
-    return { path: s.study.path };
-  }),
   'study.overview': command(z.object({}), (s) => studyOverview(s.study)),
 
   'phase.signOff': command(z.object({ phase, rationale }), (s, input) =>

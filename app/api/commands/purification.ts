@@ -3,6 +3,7 @@ import { EngineError } from '../../engine/errors.ts';
 import { RuleError } from '../../phases/errors.ts';
 import {
   decideItem,
+  decideItems,
   MAX_BOOTSTRAP_RESAMPLES,
   MIN_BOOTSTRAP_RESAMPLES,
   type PreparedRound,
@@ -98,6 +99,16 @@ export const purificationCommands = {
       ...reasons,
     }),
     (s, input) => decideItem(s.study, input),
+  ),
+  'purification.decideMany': command(
+    z.object({
+      roundId: id.optional(),
+      itemCodes: z.array(text(40)).min(1, 'choose at least one item').max(500),
+      action: z.enum(['drop', 'keep', 'move', 'restore']),
+      toFacetId: id.optional(),
+      ...reasons,
+    }),
+    (s, input) => decideItems(s.study, input),
   ),
   'purification.reverse': command(z.object({ decisionId: id, ...reasons }), (s, input) =>
     reverseDecision(s.study, input.decisionId, input),

@@ -2,6 +2,7 @@ import { z } from 'zod';
 import {
   addExpert,
   addRound,
+  blankRatingsSheet,
   decideItem,
   editExpert,
   importRatings,
@@ -80,6 +81,9 @@ export const reviewCommands = {
       newText: text(MAX_ITEM_TEXT).optional(),
     }),
     (s, input) => decideItem(s.study, input),
+  ),
+  'review.blankSheet': command(z.object({ roundId }), (s, input) =>
+    blankRatingsSheet(s.study, input.roundId),
   ),
   'review.packet': command(z.object({ roundId }), (s, input) => reviewPacket(s.study, input.roundId)),
 };

@@ -1,3 +1,4 @@
+import { pValue } from '../../api/format.ts';
 import {
   AVE_MIN,
   CR_MIN,
@@ -337,7 +338,7 @@ export function cfaTable(loaded: LoadedItems, out: CfaOutput): string {
     `n = ${fit.n} (listwise: ${out.dropped} of ${out.respondents} respondents left out)` +
       `${fit.converged ? `, converged in ${fit.iterations} steps` : ', DID NOT CONVERGE'}`,
     '',
-    `  chi-square ${round(fit.chiSquare, 2)} on ${fit.df} df, p ${fit.p === null ? '—' : fit.p < 0.001 ? '< .001' : round(fit.p)}`,
+    `  chi-square ${round(fit.chiSquare, 2)} on ${fit.df} df, ${pValue(fit.p)}`,
     fitLine('CFI', fit.cfi, '≥ .95', fit.cfi === null ? null : fit.cfi >= FIT_CUTOFFS.cfi),
     fitLine('TLI', fit.tli, '≥ .95', fit.tli === null ? null : fit.tli >= FIT_CUTOFFS.tli),
     `${fitLine('RMSEA', fit.rmsea, '≤ .06', fit.rmsea === null ? null : fit.rmsea <= FIT_CUTOFFS.rmsea)}` +

@@ -1,9 +1,9 @@
+import { bounded } from '../../api/format.ts';
 import {
   analyzeContentValidity,
   CVR_ALPHA,
   type ContentValidityReport,
   type ExpertRating,
-  formatRatio,
 } from '../../engine/content.ts';
 import { columnLabel, parseTable, TableError } from '../../import/parse-table.ts';
 import {
@@ -87,7 +87,7 @@ function readIntendedFacets(file: string, bytes: Uint8Array): Record<string, str
 }
 
 function ratio(value: number | null, digits = 2): string {
-  return value === null ? '–' : formatRatio(value, digits);
+  return bounded(value, digits);
 }
 
 function renderTable(file: string, report: ContentValidityReport): string {
@@ -126,11 +126,11 @@ function renderTable(file: string, report: ContentValidityReport): string {
     '',
     formatTable(header, rows, align),
     '',
-    `S-CVI/Ave ${formatRatio(report.sCviAve)}   S-CVI/UA ${formatRatio(report.sCviUa)}`,
+    `S-CVI/Ave ${bounded(report.sCviAve, 2)}   S-CVI/UA ${bounded(report.sCviUa, 2)}`,
   ];
   if (hasCvr || report.cvrCritical !== null) {
     lines.push(
-      `critical CVR for ${report.experts.length} experts (exact binomial, one-tailed ${formatRatio(CVR_ALPHA)}): ${ratio(report.cvrCritical, 3)}`,
+      `critical CVR for ${report.experts.length} experts (exact binomial, one-tailed ${bounded(CVR_ALPHA, 2)}): ${ratio(report.cvrCritical, 3)}`,
     );
   }
   if (report.facets.length > 0) {
@@ -138,14 +138,14 @@ function renderTable(file: string, report: ContentValidityReport): string {
       '',
       formatTable(
         ['facet', 'items', 'S-CVI/Ave', 'S-CVI/UA'],
-        report.facets.map((f) => [f.facet, String(f.items), formatRatio(f.sCviAve), formatRatio(f.sCviUa)]),
+        report.facets.map((f) => [f.facet, String(f.items), bounded(f.sCviAve, 2), bounded(f.sCviUa, 2)]),
         ['left', 'right', 'right', 'right'],
       ),
     );
   }
   if (report.facetSorting) {
     const s = report.facetSorting;
-    const cohen = s.cohenKappa === null ? '' : `, Cohen's kappa ${formatRatio(s.cohenKappa)}`;
+    const cohen = s.cohenKappa === null ? '' : `, Cohen's kappa ${bounded(s.cohenKappa, 2)}`;
     lines.push(
       '',
       `facet sorting: Fleiss' kappa ${ratio(s.fleissKappa)} over ${s.itemsUsed} items, ${s.raters} experts${cohen}`,

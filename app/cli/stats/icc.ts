@@ -1,4 +1,5 @@
 import { EngineError } from '../../engine/errors.ts';
+import { pCell } from '../../api/format.ts';
 import {
   DEFAULT_ICC_LEVEL,
   type IccResult,
@@ -102,7 +103,7 @@ export function iccTable(loaded: LoadedItems, out: IccOutput): string {
         round(f.F, 2),
         String(f.df1),
         String(f.df2),
-        f.p < 0.001 ? '< .001' : round(f.p),
+        pCell(f.p),
       ]),
       ['left', 'left', 'left', 'left', 'right', 'right', 'right', 'right', 'right', 'right'],
     ),

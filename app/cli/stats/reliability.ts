@@ -1,7 +1,9 @@
 import { EngineError } from '../../engine/errors.ts';
 import { type ItemAnalysis, analyseItems, DEFAULT_CI_LEVEL } from '../../engine/reliability.ts';
 import { MIN_BOOTSTRAP_RESAMPLES } from '../../engine/reliability/bootstrap.ts';
-import { formatTable, wrapIndented } from '../table.ts';
+import { STAT_LABELS, bounded, count, percent, unbounded } from '../../api/format.ts';
+import { meetsCriterion, reliabilityCriterion } from '../../engine/reliability/criterion.ts';
+import { formatTable, wrap } from '../table.ts';
 import { DataError, type StatsAnalysis, type StatsResult, UsageError } from '../types.ts';
 import {
   COMMON_STATS_OPTIONS,
@@ -15,15 +17,12 @@ import {
 /** Most resamples `--bootstrap` accepts (about a minute on 500 × 30 with pairwise deletion). */
 export const MAX_BOOTSTRAP_RESAMPLES = 100_000;
 
-function round(x: number | null | undefined, digits = 3): string {
-  if (x === null || x === undefined) return '—';
-  const text = x.toFixed(digits);
-  // A value that rounds to zero prints as 0.00, not -0.00.
-  return Number(text) === 0 ? text.replace('-', '') : text;
-}
+/** The criterion a bare data file is read against: no use of scores can be stated for it. */
+const CRITERION = reliabilityCriterion(null);
 
-function percent(x: number | null): string {
-  return x === null ? '—' : `${(100 * x).toFixed(1)}%`;
+function versus(x: number | null | undefined): string {
+  if (x === null || x === undefined || !Number.isFinite(x)) return '';
+  return `${meetsCriterion(x, CRITERION) ? 'meets' : 'below'} ${bounded(CRITERION.minimum, 2)}*`;
 }
 
 /** The JSON object of `stats reliability --json` (warnings are added by the dispatcher). */
@@ -45,14 +44,11 @@ export function reliabilityJson(loaded: LoadedItems, a: ItemAnalysis, seed: numb
     k: a.k,
     missing: a.missingData,
     alpha: a.alpha.value,
-    alphaBand: a.alpha.band,
     alphaStandardized: a.alphaStandardized?.value ?? null,
-    alphaStandardizedBand: a.alphaStandardized?.band ?? null,
     meanInterItemR: a.meanInterItemR,
     alphaCI: a.alphaCI,
     bootstrapCI: a.bootstrapCI,
     omegaTotal: a.omegaTotal?.value ?? null,
-    omegaBand: a.omegaTotal?.band ?? null,
     omegaModel: a.omegaTotal
       ? {
           method: a.omegaTotal.fit.method,
@@ -83,79 +79,101 @@ export function reliabilityJson(loaded: LoadedItems, a: ItemAnalysis, seed: numb
       alphaIfDeleted: item.alphaIfDeleted,
     })),
     correlations: { items: loaded.names, matrix: a.correlations },
+    criterion: {
+      id: CRITERION.ruleId,
+      use: CRITERION.use,
+      stated: CRITERION.stated,
+      minimum: CRITERION.minimum,
+      reason: CRITERION.reason,
+      alphaMeets: meetsCriterion(a.alpha.value, CRITERION),
+    },
     seed,
   };
 }
 
-/** The readable, rounded table of `stats reliability`. */
+/** The readable, rounded table of `stats reliability`: coefficients, then two item tables. */
 export function reliabilityTable(loaded: LoadedItems, a: ItemAnalysis): string {
-  const pct = `${Math.round(a.alphaCI.level * 100)}%`;
+  const L = STAT_LABELS;
+  const pct = `${Math.round(a.alphaCI.level * 100)}% CI`;
+  const row = (label: string, value: string, note = '') =>
+    `  ${label.padEnd(24)}${value.padStart(6)}  ${note}`.trimEnd();
   const lines = [
-    wrapIndented(
-      `Reliability of ${a.k} items from ${loaded.file}: n = ${a.n} (${a.missingData.method} deletion, ` +
-        `${a.missingData.dropped} of ${a.missingData.respondents} respondents left out)`,
-      2,
+    ...wrap(
+      `Reliability of ${a.k} items from ${loaded.file}: n = ${count(a.n)} (${a.missingData.method} deletion, ` +
+        `${count(a.missingData.dropped)} of ${count(a.missingData.respondents)} respondents left out)`,
+      100,
     ),
     '',
-    `  alpha                 ${round(a.alpha.value)}  ${a.alpha.band}`,
-    `    ${pct} CI            ${round(a.alphaCI.lower)} to ${round(a.alphaCI.upper)} (Feldt)`,
+    row(L.alpha, bounded(a.alpha.value), versus(a.alpha.value)),
+    row(`  ${pct} (Feldt)`, '', `${bounded(a.alphaCI.lower)} to ${bounded(a.alphaCI.upper)}`),
   ];
   if (a.bootstrapCI) {
     lines.push(
-      `    ${pct} CI            ${round(a.bootstrapCI.lower)} to ${round(a.bootstrapCI.upper)} ` +
-        `(percentile bootstrap, ${a.bootstrapCI.resamples} resamples, seed ${a.bootstrapCI.seed})`,
+      row(
+        `  ${pct}`,
+        '',
+        `${bounded(a.bootstrapCI.lower)} to ${bounded(a.bootstrapCI.upper)} ` +
+          `(percentile bootstrap, ${count(a.bootstrapCI.resamples)} resamples, seed ${a.bootstrapCI.seed})`,
+      ),
     );
   }
   lines.push(
-    `  standardized alpha    ${round(a.alphaStandardized?.value)}  ${a.alphaStandardized?.band ?? ''}`,
-    `  omega total           ${round(a.omegaTotal?.value)}  ${a.omegaTotal?.band ?? ''}`,
-    `  mean inter-item r     ${round(a.meanInterItemR)}`,
+    row(L.alphaStandardized, bounded(a.alphaStandardized?.value), versus(a.alphaStandardized?.value)),
+    row(L.omegaTotal, bounded(a.omegaTotal?.value), versus(a.omegaTotal?.value)),
+    row(L.meanInterItemR, bounded(a.meanInterItemR)),
   );
   if (a.splitHalf) {
     lines.push(
-      `  split-half (odd–even) r = ${round(a.splitHalf.correlation)}, Spearman–Brown ${round(a.splitHalf.spearmanBrown)}`,
+      row(
+        'Split-half (odd–even) r',
+        bounded(a.splitHalf.correlation),
+        `Spearman–Brown ${bounded(a.splitHalf.spearmanBrown)}`,
+      ),
     );
   }
   if (a.measurementError) {
     lines.push(
-      `  sum score SD ${round(a.measurementError.sdTotal, 2)}, SEM ${round(a.measurementError.sem, 2)}, ` +
-        `MDC95 ${round(a.measurementError.mdc95, 2)}`,
+      row(
+        `${L.sem} (sum score)`,
+        unbounded(a.measurementError.sem),
+        `SD ${unbounded(a.measurementError.sdTotal)}, ${L.mdc95} ${unbounded(a.measurementError.mdc95)}`,
+      ),
     );
   }
   lines.push(
-    '  (bands are common practice: ≥ .80 good, .70 acceptable, .60 questionable, below unacceptable)',
+    '',
+    ...wrap(
+      `* Criterion ${bounded(CRITERION.minimum, 2)} for ${CRITERION.useName}. ${CRITERION.wording} ${CRITERION.reason} Source: ${CRITERION.reference}`,
+      100,
+    ),
     '',
   );
-  const rows = a.items.map((item) => [
-    loaded.reverse.includes(item.name) ? `${item.name} (R)` : item.name,
-    String(item.n),
-    String(item.missing),
-    round(item.mean, 2),
-    round(item.sd, 2),
-    round(item.skewness, 2),
-    round(item.kurtosis, 2),
-    percent(item.floorShare),
-    percent(item.ceilingShare),
-    round(item.correctedItemTotal),
-    round(item.alphaIfDeleted),
-  ]);
+  const name = (item: string) => (loaded.reverse.includes(item) ? `${item} (R)` : item);
   lines.push(
     formatTable(
-      [
-        'item',
-        'n',
-        'missing',
-        'mean',
-        'sd',
-        'skew',
-        'kurtosis',
-        'floor',
-        'ceiling',
-        'item-rest r',
-        'alpha if dropped',
-      ],
-      rows,
-      ['left', 'right', 'right', 'right', 'right', 'right', 'right', 'right', 'right', 'right', 'right'],
+      ['Item', L.n, L.missing, L.mean, L.sd, L.skewness, L.kurtosis, L.floor, L.ceiling],
+      a.items.map((item) => [
+        name(item.name),
+        count(item.n),
+        count(item.missing),
+        unbounded(item.mean),
+        unbounded(item.sd),
+        unbounded(item.skewness),
+        unbounded(item.kurtosis),
+        percent(item.floorShare),
+        percent(item.ceilingShare),
+      ]),
+      ['left', 'right', 'right', 'right', 'right', 'right', 'right', 'right', 'right'],
+    ),
+    '',
+    formatTable(
+      ['Item', L.correctedItemTotal, L.alphaIfDeleted],
+      a.items.map((item) => [
+        name(item.name),
+        bounded(item.correctedItemTotal),
+        bounded(item.alphaIfDeleted),
+      ]),
+      ['left', 'right', 'right'],
     ),
   );
   return lines.join('\n');

@@ -1,4 +1,5 @@
 import { EngineError } from '../errors.ts';
+import { CRITERIA_METHODS } from './criteria.ts';
 import { FACTOR_ANALYSIS_METHODS } from './factor-analysis.ts';
 import { RELIABILITY_METHODS } from './reliability.ts';
 import type { Reference, RegistryEntry } from './types.ts';
@@ -14,6 +15,7 @@ export const METHODS: ReadonlyMap<string, RegistryEntry> = buildRegistry([
   ...RELIABILITY_METHODS,
   ...VALIDITY_METHODS,
   ...FACTOR_ANALYSIS_METHODS,
+  ...CRITERIA_METHODS,
 ]);
 
 function buildRegistry(entries: RegistryEntry[]): ReadonlyMap<string, RegistryEntry> {

@@ -1,36 +1,8 @@
 import { EngineError } from '../errors.ts';
 
-/** Common-practice bands for alpha (METHODS.md): shown beside a value, never as a verdict alone. */
-export type AlphaBand = 'good' | 'acceptable' | 'questionable' | 'unacceptable';
-
-/** A reliability coefficient with its common-practice band. */
-export interface BandedValue {
+/** A reliability coefficient. Criteria to read it against come from `reliabilityCriterion`. */
+export interface Coefficient {
   value: number;
-  band: AlphaBand;
-}
-
-/** Lower edges of the bands (common practice, taught widely; METHODS.md "Reliability"). */
-export const ALPHA_BAND_EDGES = { good: 0.8, acceptable: 0.7, questionable: 0.6 } as const;
-
-/**
- * The common-practice band of a reliability coefficient: ≥ .80 good, .70–.80 acceptable,
- * .60–.70 questionable, < .60 unacceptable. A rule of thumb of the trade (no single source);
- * early-stage research often accepts .70 (Nunnally 1978, from memory).
- *
- * Cost: O(1). Throws EngineError when the value is not a finite number.
- */
-export function alphaBand(value: number): AlphaBand {
-  if (!Number.isFinite(value))
-    throw new EngineError(`a reliability band needs a finite value (got ${value})`);
-  if (value >= ALPHA_BAND_EDGES.good) return 'good';
-  if (value >= ALPHA_BAND_EDGES.acceptable) return 'acceptable';
-  if (value >= ALPHA_BAND_EDGES.questionable) return 'questionable';
-  return 'unacceptable';
-}
-
-/** Pairs a coefficient with its band. Cost O(1); throws as `alphaBand`. */
-export function banded(value: number): BandedValue {
-  return { value, band: alphaBand(value) };
 }
 
 /**

@@ -1,4 +1,6 @@
 import { useState } from 'react';
+import { bounded } from '../../../app/api/format.ts';
+import type { CommandOutput } from '../../../app/api/commands.ts';
 import type { RelationInput } from '../../../app/phases/construct.ts';
 import type { FacetRecord, RelationRecord } from '../../../db/repos/construct.ts';
 import { AutosaveField, ErrorNote, Panel, ReasonAction } from '../../shared/components.tsx';
@@ -85,6 +87,7 @@ export function ConstructScreen() {
                   onSave={save('intendedUses')}
                 />
               </div>
+              <ScoreUseField value={construct.scoreUse} choices={view.data.scoreUses} />
               <ErrorNote message={setText.error} />
             </Panel>
             <FacetsPanel facets={facets} />
@@ -339,5 +342,36 @@ function RelationsPanel({ relations }: { relations: RelationRecord[] }) {
       </form>
       <ErrorNote message={add.error ?? withdraw.error} />
     </Panel>
+  );
+}
+
+function ScoreUseField(props: {
+  value: string | null;
+  choices: CommandOutput<'construct.get'>['scoreUses'];
+}) {
+  const setUse = useMutation('construct.setScoreUse');
+  return (
+    <div className="field">
+      <label htmlFor="field-score-use">Scores will mainly serve</label>
+      <select
+        id="field-score-use"
+        value={props.value ?? ''}
+        onChange={(e) => {
+          const chosen = props.choices.find((c) => c.use === e.target.value);
+          void setUse.run({ use: chosen ? chosen.use : null });
+        }}
+      >
+        <option value="">not stated (early-stage criterion shown)</option>
+        {props.choices.map((c) => (
+          <option key={c.use} value={c.use}>
+            {c.label} — reliability criterion {bounded(c.minimum, 2)}
+          </option>
+        ))}
+      </select>
+      <p className="hint">
+        Sets the reliability criterion shown beside every alpha ({props.choices[0]?.source}).
+      </p>
+      <ErrorNote message={setUse.error} />
+    </div>
   );
 }

@@ -1,3 +1,4 @@
+import { percent } from '../../../app/api/format.ts';
 import { useMemo, useState } from 'react';
 import type { CommandOutput } from '../../../app/api/commands.ts';
 import type { FacetCoverage } from '../../../app/phases/items.ts';
@@ -119,10 +120,6 @@ function CheckLegend({ threshold }: { threshold: number }) {
   );
 }
 
-function percent(share: number | null): string {
-  return share === null ? '–' : `${Math.round(share * 100)} %`;
-}
-
 function CoveragePanel(props: { coverage: FacetCoverage[]; unmapped: string[]; minimum: number }) {
   const total = props.coverage.reduce((n, c) => n + c.items, 0) + props.unmapped.length;
   return (
@@ -152,7 +149,7 @@ function CoveragePanel(props: { coverage: FacetCoverage[]; unmapped: string[]; m
               <td className="num">{c.kept}</td>
               <td className="num">{c.draft}</td>
               <td className="num nowrap">
-                {c.reverse} ({percent(c.reverseShare)})
+                {c.reverse} ({percent(c.reverseShare, 0)})
               </td>
               <td>
                 <span className="code-chips">

@@ -2,8 +2,7 @@ import { useState } from 'react';
 import type { ReadCheck } from '../../../app/api/commands/pilot.ts';
 import { ErrorNote } from '../../shared/components.tsx';
 import { formatBytes } from '../../shared/files.ts';
-import { plural } from '../../shared/format.ts';
-import { DECIMAL_NAME } from './format.ts';
+import { DECIMAL_MARK_NAME, plural } from '../../../app/api/format.ts';
 
 const ROLE_WORDS: Record<string, [string, string]> = {
   item: ['item', 'items'],
@@ -158,7 +157,7 @@ export function CheckStep(props: {
         {plural(check.columns.length, 'column')}: {columnSummary(check)}.{' '}
         {check.kind === 'workbook'
           ? `Sheet “${check.sheet}”.`
-          : `${check.encoding}, ${check.delimiterName}-separated, decimal ${DECIMAL_NAME[check.decimalMark]}.`}
+          : `${check.encoding}, ${check.delimiterName}-separated, decimal ${DECIMAL_MARK_NAME[check.decimalMark]}.`}
       </p>
       <p>
         {plural(missingCells, 'item answer')} missing (blank

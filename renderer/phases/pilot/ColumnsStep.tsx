@@ -1,6 +1,6 @@
 import type { ColumnMapping, ColumnRole, RoleName } from '../../../app/import/mapping.ts';
 import type { DataFilePreview } from '../../../app/phases/pilot.ts';
-import { plural } from '../../shared/format.ts';
+import { plural } from '../../../app/api/format.ts';
 import type { PoolItem } from './ImportWizard.tsx';
 
 const ROLE_OPTIONS: { value: RoleName; label: string }[] = [

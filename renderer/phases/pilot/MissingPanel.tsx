@@ -1,7 +1,6 @@
 import type { MissingData } from '../../../app/phases/pilot.ts';
 import { Panel } from '../../shared/components.tsx';
-import { plural } from '../../shared/format.ts';
-import { percent } from './format.ts';
+import { percentOf, plural } from '../../../app/api/format.ts';
 
 /**
  * Missing answers of a dataset, as the analyses see it (the file minus the current exclusions): per
@@ -15,7 +14,7 @@ export function MissingPanel({ missing, all }: { missing: MissingData; all: Miss
       <p data-testid="missing-summary">
         Of the {plural(missing.respondents, 'respondent')} in the analyses,{' '}
         <strong>{missing.completeCases.toLocaleString('en')}</strong> answered every item: listwise deletion
-        keeps them ({percent(missing.completeCases, missing.respondents)}); pairwise deletion uses every
+        keeps them ({percentOf(missing.completeCases, missing.respondents)}); pairwise deletion uses every
         answer given. Each analysis run stores which of the two it used.
         {all.respondents !== missing.respondents &&
           ` Over the whole file (${plural(all.respondents, 'respondent')}), ${all.completeCases.toLocaleString('en')} are complete.`}
@@ -29,7 +28,7 @@ export function MissingPanel({ missing, all }: { missing: MissingData; all: Miss
               <span className="bar" style={{ width: `${(100 * item.missing) / most}%` }} />
             </span>
             <span className="num">{item.missing}</span>
-            <span className="num muted">{percent(item.missing, missing.respondents)}</span>
+            <span className="num muted">{percentOf(item.missing, missing.respondents)}</span>
           </li>
         ))}
       </ul>

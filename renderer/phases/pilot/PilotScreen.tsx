@@ -4,7 +4,7 @@ import { ErrorNote, formatTime, Panel } from '../../shared/components.tsx';
 import { SignOffAside } from '../../shared/phase-controls.tsx';
 import { StudyRevision, useMutation, useQuery } from '../../shared/use-command.ts';
 import { formatBytes } from '../../shared/files.ts';
-import { plural } from '../../shared/format.ts';
+import { plural } from '../../../app/api/format.ts';
 import { ImportWizard } from './ImportWizard.tsx';
 import { MissingPanel } from './MissingPanel.tsx';
 import { ScreeningPanel } from './ScreeningPanel.tsx';

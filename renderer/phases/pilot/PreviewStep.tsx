@@ -1,7 +1,7 @@
 import type { DataFilePreview } from '../../../app/phases/pilot.ts';
 import type { ReadSettings } from '../../../app/phases/pilot-read.ts';
 import { formatBytes } from '../../shared/files.ts';
-import { DECIMAL_NAME } from './format.ts';
+import { DECIMAL_MARK_NAME } from '../../../app/api/format.ts';
 
 const ENCODINGS = ['utf-8', 'windows-1252', 'utf-16le', 'utf-16be'];
 const DELIMITERS = [
@@ -41,7 +41,8 @@ export function PreviewStep(props: {
             <strong data-testid="detected-delimiter">{preview.delimiterName}</strong>
           </>
         )}
-        , decimal mark <strong data-testid="detected-decimal">{DECIMAL_NAME[preview.decimalMark]}</strong>.
+        , decimal mark{' '}
+        <strong data-testid="detected-decimal">{DECIMAL_MARK_NAME[preview.decimalMark]}</strong>.
         {preview.truncated
           ? ` The first ${preview.rows.length} rows are shown; every row is read and checked in step 5.`
           : ` All ${preview.rows.length} rows are shown.`}
@@ -102,7 +103,7 @@ export function PreviewStep(props: {
             disabled={props.busy}
             onChange={(e) => set('decimalMark', e.target.value)}
           >
-            <option value="">detect ({DECIMAL_NAME[preview.decimalMark]})</option>
+            <option value="">detect ({DECIMAL_MARK_NAME[preview.decimalMark]})</option>
             <option value=".">point (2.5)</option>
             <option value=",">comma (2,5)</option>
           </select>

@@ -1,10 +1,10 @@
 import { useMemo, useState } from 'react';
+import { ExportButton } from '../../shared/export-button.tsx';
 import type { ScreenedRespondent } from '../../../app/phases/pilot.ts';
 import type { ScreeningCheck } from '../../../app/engine/screening.ts';
 import { ErrorNote, formatTime, Panel } from '../../shared/components.tsx';
 import { useMutation, useQuery } from '../../shared/use-command.ts';
-import { num, plural } from '../../shared/format.ts';
-import { pValue } from './format.ts';
+import { pValue, plural, unbounded } from '../../../app/api/format.ts';
 
 const PAGE = 100;
 
@@ -165,8 +165,11 @@ export function ScreeningPanel({ datasetId, locked }: { datasetId: number; locke
     <Panel
       title={`Screening of “${data.dataset.name}”`}
       aside={
-        <span className="counts-line" data-testid="screening-counts">
-          {data.dataset.counts}
+        <span>
+          <span className="counts-line" data-testid="screening-counts">
+            {data.dataset.counts}
+          </span>{' '}
+          {run && <ExportButton request={{ kind: 'screening', datasetId: data.dataset.id }} />}
         </span>
       }
     >
@@ -423,12 +426,9 @@ export function ScreeningPanel({ datasetId, locked }: { datasetId: number; locke
                     {r.answered}/{r.answered + r.missing}
                   </td>
                   <td className="num">{r.longstring ?? '–'}</td>
-                  <td className="num">{num(r.irv)}</td>
-                  <td
-                    className="num"
-                    title={r.mahalanobisP === null ? undefined : `p = ${pValue(r.mahalanobisP)}`}
-                  >
-                    {num(r.mahalanobis, 1)}
+                  <td className="num">{unbounded(r.irv)}</td>
+                  <td className="num" title={r.mahalanobisP === null ? undefined : pValue(r.mahalanobisP)}>
+                    {unbounded(r.mahalanobis, 1)}
                   </td>
                   <td className="num">{r.duration ?? '–'}</td>
                   <td className="flags-cell">

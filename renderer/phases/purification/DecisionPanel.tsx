@@ -2,7 +2,7 @@ import { useEffect, useState } from 'react';
 import type { DecisionView, RoundDetail, RoundItemRow } from '../../../app/phases/purification.ts';
 import { ErrorNote, formatTime } from '../../shared/components.tsx';
 import { useMutation } from '../../shared/use-command.ts';
-import { coef } from '../../shared/format.ts';
+import { bounded } from '../../../app/api/format.ts';
 
 type Action = 'drop' | 'keep' | 'move' | 'restore';
 
@@ -116,25 +116,25 @@ export function DecisionPanel(props: {
       <dl className="item-numbers">
         <div>
           <dt>corrected item-total r</dt>
-          <dd>{coef(s.correctedItemTotal)}</dd>
+          <dd>{bounded(s.correctedItemTotal)}</dd>
         </div>
         <div>
           <dt>α if deleted</dt>
           <dd>
-            {coef(s.alphaIfDeleted)} <span className="muted">now {coef(alpha)}</span>
+            {bounded(s.alphaIfDeleted)} <span className="muted">now {bounded(alpha)}</span>
           </dd>
         </div>
         {row.withinFacet && (
           <>
             <div>
               <dt>r within facet</dt>
-              <dd>{coef(row.withinFacet.correctedItemTotal)}</dd>
+              <dd>{bounded(row.withinFacet.correctedItemTotal)}</dd>
             </div>
             <div>
               <dt>facet α if deleted</dt>
               <dd>
-                {coef(row.withinFacet.alphaIfDeleted)}{' '}
-                <span className="muted">now {coef(row.withinFacet.facetAlpha)}</span>
+                {bounded(row.withinFacet.alphaIfDeleted)}{' '}
+                <span className="muted">now {bounded(row.withinFacet.facetAlpha)}</span>
               </dd>
             </div>
           </>

@@ -1,10 +1,12 @@
 import { useState } from 'react';
+import { ExportButton } from '../../shared/export-button.tsx';
 import type { DecisionView, RoundSummary } from '../../../app/phases/purification.ts';
 import { ErrorNote, Panel } from '../../shared/components.tsx';
 import { useMutation } from '../../shared/use-command.ts';
 import { AlphaHistoryChart } from './charts.tsx';
-import { coef } from '../../shared/format.ts';
-import { BAND_WORDS, shortDate } from './format.ts';
+import { bounded, shortDate } from '../../../app/api/format.ts';
+import type { ReliabilityCriterion } from '../../../app/engine/reliability/criterion.ts';
+import { CriterionFootnote } from '../../shared/criterion.tsx';
 
 function ReverseAction({ decision, locked }: { decision: DecisionView; locked: boolean }) {
   const reverse = useMutation('purification.reverse');
@@ -65,6 +67,7 @@ function ReverseAction({ decision, locked }: { decision: DecisionView; locked: b
 export function HistoryPanel(props: {
   rounds: RoundSummary[];
   decisions: DecisionView[];
+  criterion: ReliabilityCriterion;
   selectedRound: number | undefined;
   onSelectRound(id: number): void;
   locked: boolean;
@@ -78,8 +81,16 @@ export function HistoryPanel(props: {
     restore: 'restored',
   };
   return (
-    <Panel title="History" aside={<span className="muted">every round and decision stays in the study</span>}>
-      {rounds.length > 1 && <AlphaHistoryChart rounds={rounds} />}
+    <Panel
+      title="History"
+      aside={
+        <span className="muted">
+          every round and decision stays in the study ·{' '}
+          <ExportButton request={{ kind: 'purification-rounds' }} label="Export rounds (CSV)" />
+        </span>
+      }
+    >
+      {rounds.length > 1 && <AlphaHistoryChart rounds={rounds} criterion={props.criterion} />}
       <table className="data-table history-table" aria-label="Rounds">
         <thead>
           <tr>
@@ -89,7 +100,7 @@ export function HistoryPanel(props: {
             <th className="num">n</th>
             <th className="num">α</th>
             <th>CI (Feldt)</th>
-            <th>Band</th>
+            <th>Criterion</th>
             <th className="num">ω</th>
             <th>Left since the round before</th>
           </tr>
@@ -114,15 +125,18 @@ export function HistoryPanel(props: {
               <td className="num" title={r.missingText}>
                 {r.n}
               </td>
-              <td className="num">{coef(r.alpha)}</td>
+              <td className="num">{bounded(r.alpha)}</td>
               <td className="nowrap" title={`${Math.round(r.ci.level * 100)}% confidence interval`}>
                 {Math.round(r.ci.level * 100) !== 95 && `${Math.round(r.ci.level * 100)}%: `}
-                {coef(r.ci.lower)} to {coef(r.ci.upper)}
+                {bounded(r.ci.lower)} to {bounded(r.ci.upper)}
               </td>
               <td>
-                <span className={`band band-${r.band}`}>{BAND_WORDS[r.band]}</span>
+                <span className={r.meetsCriterion ? 'criterion criterion-met' : 'criterion criterion-below'}>
+                  {r.meetsCriterion ? 'meets' : 'below'}
+                  <sup>*</sup>
+                </span>
               </td>
-              <td className="num">{coef(r.omega)}</td>
+              <td className="num">{bounded(r.omega)}</td>
               <td>
                 {r.left.length > 0 && r.left.join(', ')}
                 {r.left.length > 0 && r.returned.length > 0 && ' · '}
@@ -133,6 +147,7 @@ export function HistoryPanel(props: {
           ))}
         </tbody>
       </table>
+      <CriterionFootnote criterion={props.criterion} />
 
       <h3 className="subhead">Items that left</h3>
       {departures.length === 0 ? (

@@ -1,7 +1,6 @@
 import { Fragment } from 'react';
 import type { FacetResult, FlagRule, RoundItemRow, RuleOfThumb } from '../../../app/phases/purification.ts';
-import { coef, num } from '../../shared/format.ts';
-import { pct } from './format.ts';
+import { STAT_LABELS, bounded, percent, unbounded } from '../../../app/api/format.ts';
 
 type SortKey =
   | 'order'
@@ -30,28 +29,43 @@ const FACET_COLUMN: Column = {
   title: 'The facet the item belongs to in this round',
 };
 
-const COLUMNS: Column[] = [
-  { key: 'code', label: 'Item', title: 'Item code; R marks a reverse-keyed item (scored min + max − x)' },
-  { key: 'mean', label: 'Mean', title: 'Mean of the scored answers', numeric: true },
-  { key: 'sd', label: 'SD', title: 'Standard deviation (divisor n − 1)', numeric: true },
-  { key: 'skewness', label: 'Skew', title: 'Skewness (adjusted Fisher–Pearson G1)', numeric: true },
-  { key: 'kurtosis', label: 'Kurt.', title: 'Excess kurtosis (G2)', numeric: true },
+/** The item table's columns; numeric headers take their labels from the one table of statistic labels. */
+export const COLUMNS: Column[] = [
+  {
+    key: 'code',
+    label: 'Item and wording',
+    title: 'Item code and wording; R marks a reverse-keyed item (scored min + max − x)',
+  },
+  { key: 'mean', label: STAT_LABELS.mean, title: 'Mean of the scored answers', numeric: true },
+  { key: 'sd', label: STAT_LABELS.sd, title: 'Standard deviation (divisor n − 1)', numeric: true },
+  {
+    key: 'skewness',
+    label: STAT_LABELS.skewness,
+    title: 'Skewness (adjusted Fisher–Pearson G1)',
+    numeric: true,
+  },
+  { key: 'kurtosis', label: STAT_LABELS.kurtosis, title: 'Excess kurtosis (G2)', numeric: true },
   {
     key: 'floorCeiling',
-    label: 'Floor / ceil.',
+    label: `${STAT_LABELS.floor} / ${STAT_LABELS.ceiling}`,
     title: 'Shares of answers at the lowest and at the highest category',
     numeric: true,
   },
-  { key: 'missing', label: 'Miss.', title: 'Respondents who left the item unanswered', numeric: true },
+  {
+    key: 'missing',
+    label: STAT_LABELS.missing,
+    title: 'Respondents who left the item unanswered',
+    numeric: true,
+  },
   {
     key: 'r',
-    label: 'Corrected item-total r',
+    label: STAT_LABELS.correctedItemTotal,
     title: 'Corrected item-total correlation: r with the sum of the other items',
     numeric: true,
   },
   {
     key: 'ifDeleted',
-    label: 'α if deleted',
+    label: STAT_LABELS.alphaIfDeleted,
     title: 'Alpha of the other items if this one were dropped',
     numeric: true,
   },
@@ -196,7 +210,7 @@ export function ItemTable(props: {
                     <span className="muted">
                       {' '}
                       · {group.rows.length} item{group.rows.length === 1 ? '' : 's'}
-                      {group.facet?.analysis ? ` · facet α ${coef(group.facet.analysis.alpha.value)}` : ''}
+                      {group.facet?.analysis ? ` · facet α ${bounded(group.facet.analysis.alpha.value)}` : ''}
                     </span>
                   </th>
                 </tr>
@@ -266,26 +280,27 @@ function ItemRow(props: {
             </span>
           )}
         </span>
+        <span className="item-wording">{row.text}</span>
       </td>
       {props.showFacet && (
         <td className="facet-cell" title={row.facetDefinition}>
           {row.facetName ?? 'no facet'}
         </td>
       )}
-      <td className="num">{num(s.mean)}</td>
-      <td className="num">{num(s.sd)}</td>
-      <td className={mark('skewness')}>{num(s.skewness)}</td>
-      <td className={mark('kurtosis')}>{num(s.kurtosis)}</td>
+      <td className="num">{unbounded(s.mean)}</td>
+      <td className="num">{unbounded(s.sd)}</td>
+      <td className={mark('skewness')}>{unbounded(s.skewness)}</td>
+      <td className={mark('kurtosis')}>{unbounded(s.kurtosis)}</td>
       <td className="num nowrap">
-        <span className={hit.has('floor') ? 'hit' : undefined}>{pct(s.floorShare)}</span>
+        <span className={hit.has('floor') ? 'hit' : undefined}>{percent(s.floorShare, 0)}</span>
         {' / '}
-        <span className={hit.has('ceiling') ? 'hit' : undefined}>{pct(s.ceilingShare)}</span>
+        <span className={hit.has('ceiling') ? 'hit' : undefined}>{percent(s.ceilingShare, 0)}</span>
       </td>
       <td className={mark('missing')}>{s.missing}</td>
       <td className={mark('low-item-total', 'negative-item-total', 'no-variance')}>
-        {coef(s.correctedItemTotal, 2)}
+        {bounded(s.correctedItemTotal, 2)}
       </td>
-      <td className={mark('alpha-rises')}>{coef(s.alphaIfDeleted)}</td>
+      <td className={mark('alpha-rises')}>{bounded(s.alphaIfDeleted)}</td>
       <td>
         <span className="flags">
           {row.droppedNow ? (

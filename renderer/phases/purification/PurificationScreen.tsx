@@ -1,11 +1,13 @@
 import { useCallback, useState } from 'react';
+import { ExportButton } from '../../shared/export-button.tsx';
 import type { DecisionView, RoundSummary } from '../../../app/phases/purification.ts';
 import { ErrorNote, Panel } from '../../shared/components.tsx';
 import { PhaseControls, SignOffAside } from '../../shared/phase-controls.tsx';
 import { useQuery } from '../../shared/use-command.ts';
 import { AlphaIfDeletedChart, DistributionChart, ItemTotalChart } from './charts.tsx';
 import { DecisionPanel } from './DecisionPanel.tsx';
-import { plural } from '../../shared/format.ts';
+import { bounded, plural } from '../../../app/api/format.ts';
+import { BatchDecision } from './BatchDecision.tsx';
 import { HistoryPanel } from './HistoryPanel.tsx';
 import { INITIAL_TABLE_VIEW, ItemTable, type TableView } from './ItemTable.tsx';
 import { ReliabilityPanel } from './ReliabilityPanel.tsx';
@@ -112,7 +114,7 @@ export function PurificationScreen() {
                   onClick={() => setChosenRound(r.id)}
                 >
                   Round {r.number}
-                  <span className="tab-alpha">α {r.alpha.toFixed(3).replace(/^0/, '')}</span>
+                  <span className="tab-alpha">α {bounded(r.alpha)}</span>
                 </button>
               ))}
             </nav>
@@ -147,6 +149,7 @@ export function PurificationScreen() {
               <HistoryPanel
                 rounds={data.rounds}
                 decisions={data.decisions}
+                criterion={data.criterion}
                 selectedRound={roundId}
                 onSelectRound={setChosenRound}
                 locked={locked}
@@ -188,7 +191,12 @@ function RoundView(props: {
         <ReliabilityPanel detail={detail} />
         <Panel
           title="Items"
-          aside={<span className="muted">click a row to decide on the item · click a header to sort</span>}
+          aside={
+            <span className="muted">
+              click a row to decide on the item · click a header to sort ·{' '}
+              <ExportButton request={{ kind: 'purification-items', roundId: detail.summary.id }} />
+            </span>
+          }
         >
           <ItemTable
             rows={detail.rows}
@@ -200,6 +208,7 @@ function RoundView(props: {
             onView={props.onTableView}
           />
         </Panel>
+        {detail.isLatest && !props.locked && <BatchDecision detail={detail} decisions={props.decisions} />}
         <Panel title="Charts">
           <div className="chart-pair">
             <AlphaIfDeletedChart rows={detail.rows} alpha={detail.scale.alpha.value} />

@@ -1,16 +1,11 @@
-import type { BandedValue } from '../../../app/engine/reliability/alpha.ts';
 import type { RoundDetail } from '../../../app/phases/purification.ts';
 import { Panel } from '../../shared/components.tsx';
-import { coef, num, plural } from '../../shared/format.ts';
-import { BAND_LEGEND, BAND_WORDS } from './format.ts';
+import { STAT_LABELS, bounded, plural, unbounded } from '../../../app/api/format.ts';
+import { CriterionFootnote, CriterionMark } from '../../shared/criterion.tsx';
 
-function Band({ value }: { value: BandedValue }) {
-  return <span className={`band band-${value.band}`}>{BAND_WORDS[value.band]}</span>;
-}
-
-/** Overall and per-facet reliability of one round, each alpha with its CI, band, n and missing-data method. */
+/** Overall and per-facet reliability of one round, each alpha with its CI, the study's criterion, n and missing-data method. */
 export function ReliabilityPanel({ detail }: { detail: RoundDetail }) {
-  const { scale, summary } = detail;
+  const { scale, summary, criterion } = detail;
   const level = Math.round(scale.alphaCI.level * 100);
   const missing = scale.missingData.method === 'listwise' ? 'listwise deletion' : 'pairwise deletion';
   return (
@@ -24,9 +19,9 @@ export function ReliabilityPanel({ detail }: { detail: RoundDetail }) {
     >
       <div className="headline" data-testid="round-alpha">
         <div className="headline-main">
-          <span className="headline-label">Cronbach’s α</span>
-          <span className="headline-value">{coef(scale.alpha.value)}</span>
-          <Band value={scale.alpha} />
+          <span className="headline-label">{STAT_LABELS.alpha}</span>
+          <span className="headline-value">{bounded(scale.alpha.value)}</span>
+          <CriterionMark value={scale.alpha.value} criterion={criterion} />
         </div>
         <p className="headline-detail">
           Based on {plural(scale.n, 'respondent')} after {plural(summary.excluded, 'exclusion')} (
@@ -35,12 +30,12 @@ export function ReliabilityPanel({ detail }: { detail: RoundDetail }) {
             `; ${scale.missingData.dropped} more left out with missing answers`}
           ).
           <br />
-          {level}% CI {coef(scale.alphaCI.lower)} to {coef(scale.alphaCI.upper)} (Feldt)
+          {level}% CI {bounded(scale.alphaCI.lower)} to {bounded(scale.alphaCI.upper)} (Feldt)
           {scale.bootstrapCI && (
             <>
               {' '}
-              · bootstrap {coef(scale.bootstrapCI.lower)} to {coef(scale.bootstrapCI.upper)} (
-              {scale.bootstrapCI.resamples} resamples, seed {scale.bootstrapCI.seed})
+              · bootstrap {bounded(scale.bootstrapCI.lower)} to {bounded(scale.bootstrapCI.upper)} (
+              {plural(scale.bootstrapCI.resamples, 'resample')}, seed {scale.bootstrapCI.seed})
             </>
           )}
           <br />k = {scale.k} items · {scale.missingData.description}
@@ -48,15 +43,16 @@ export function ReliabilityPanel({ detail }: { detail: RoundDetail }) {
       </div>
       <dl className="stat-grid">
         <div>
-          <dt>Standardized α</dt>
-          <dd>{scale.alphaStandardized ? coef(scale.alphaStandardized.value) : '—'}</dd>
+          <dt>{STAT_LABELS.alphaStandardized}</dt>
+          <dd>{scale.alphaStandardized ? bounded(scale.alphaStandardized.value) : '—'}</dd>
         </div>
         <div>
-          <dt title="McDonald’s omega total from a one-factor model">ω total</dt>
+          <dt title="From a one-factor model">{STAT_LABELS.omegaTotal}</dt>
           <dd>
             {scale.omegaTotal ? (
               <>
-                {coef(scale.omegaTotal.value)} <Band value={scale.omegaTotal} />
+                {bounded(scale.omegaTotal.value)}{' '}
+                <CriterionMark value={scale.omegaTotal.value} criterion={criterion} />
               </>
             ) : (
               '—'
@@ -64,20 +60,20 @@ export function ReliabilityPanel({ detail }: { detail: RoundDetail }) {
           </dd>
         </div>
         <div>
-          <dt>Mean inter-item r</dt>
-          <dd>{coef(scale.meanInterItemR)}</dd>
+          <dt>{STAT_LABELS.meanInterItemR}</dt>
+          <dd>{bounded(scale.meanInterItemR)}</dd>
         </div>
         <div>
           <dt title="Standard error of measurement of the sum score, SD·√(1 − α)">SEM (sum score)</dt>
-          <dd>{num(scale.measurementError?.sem)}</dd>
+          <dd>{unbounded(scale.measurementError?.sem)}</dd>
         </div>
         <div>
           <dt title="Minimal detectable change, 1.96·√2·SEM (common practice)">MDC95</dt>
-          <dd>{num(scale.measurementError?.mdc95)}</dd>
+          <dd>{unbounded(scale.measurementError?.mdc95)}</dd>
         </div>
         <div>
           <dt title="Odd–even split-half correlation stepped up with Spearman–Brown">Split-half (S–B)</dt>
-          <dd>{coef(scale.splitHalf?.spearmanBrown)}</dd>
+          <dd>{bounded(scale.splitHalf?.spearmanBrown)}</dd>
         </div>
       </dl>
 
@@ -89,7 +85,7 @@ export function ReliabilityPanel({ detail }: { detail: RoundDetail }) {
             <th className="num">n</th>
             <th className="num">α</th>
             <th>{level}% CI (Feldt)</th>
-            <th>Band</th>
+            <th>Criterion</th>
             <th className="num">ω total</th>
             <th>Note</th>
           </tr>
@@ -100,18 +96,22 @@ export function ReliabilityPanel({ detail }: { detail: RoundDetail }) {
               <td title={f.definition}>{f.name}</td>
               <td className="num">{f.items.length}</td>
               <td className="num">{f.analysis?.n ?? '—'}</td>
-              <td className="num">{coef(f.analysis?.alpha.value)}</td>
+              <td className="num">{bounded(f.analysis?.alpha.value)}</td>
               <td className="nowrap">
-                {f.analysis ? `${coef(f.analysis.alphaCI.lower)} to ${coef(f.analysis.alphaCI.upper)}` : '—'}
+                {f.analysis
+                  ? `${bounded(f.analysis.alphaCI.lower)} to ${bounded(f.analysis.alphaCI.upper)}`
+                  : '—'}
               </td>
-              <td>{f.analysis ? <Band value={f.analysis.alpha} /> : '—'}</td>
-              <td className="num">{coef(f.analysis?.omegaTotal?.value)}</td>
+              <td>
+                <CriterionMark value={f.analysis?.alpha.value} criterion={criterion} />
+              </td>
+              <td className="num">{bounded(f.analysis?.omegaTotal?.value)}</td>
               <td className="muted">{f.note ?? ''}</td>
             </tr>
           ))}
         </tbody>
       </table>
-      <p className="hint">{BAND_LEGEND}</p>
+      <CriterionFootnote criterion={criterion} />
       {scale.warnings.length > 0 && (
         <details className="warnings">
           <summary>{plural(scale.warnings.length, 'note')} from the analysis</summary>

@@ -15,7 +15,9 @@ import {
   YAxis,
 } from 'recharts';
 import type { RoundItemRow, RoundSummary } from '../../../app/phases/purification.ts';
-import { coef, num } from '../../shared/format.ts';
+import { bounded, unbounded } from '../../../app/api/format.ts';
+import type { ReliabilityCriterion } from '../../../app/engine/reliability/criterion.ts';
+import { criterionName } from '../../shared/criterion.tsx';
 
 const INK = '#4a5567';
 const ACCENT = '#2f5d8a';
@@ -47,7 +49,7 @@ export function AlphaIfDeletedChart({ rows, alpha }: { rows: RoundItemRow[]; alp
   return (
     <figure className="chart" aria-label="Alpha if item deleted against the current alpha">
       <figcaption>
-        Alpha if item deleted, as the change from the current α = {coef(alpha)}
+        Alpha if item deleted, as the change from the current α = {bounded(alpha)}
         <span className="muted"> · right of the line: α rises without the item</span>
       </figcaption>
       <ResponsiveContainer width="100%" height={rowHeight(rows.length)}>
@@ -56,7 +58,7 @@ export function AlphaIfDeletedChart({ rows, alpha }: { rows: RoundItemRow[]; alp
           <XAxis
             type="number"
             domain={[-bound, bound]}
-            tickFormatter={(v: number) => (v > 0 ? `+${coef(v)}` : coef(v))}
+            tickFormatter={(v: number) => (v > 0 ? `+${bounded(v)}` : bounded(v))}
             tick={TICK}
             label={{
               value: 'change in α if dropped',
@@ -69,7 +71,7 @@ export function AlphaIfDeletedChart({ rows, alpha }: { rows: RoundItemRow[]; alp
           <YAxis type="category" dataKey="code" width={46} tick={TICK} interval={0} />
           <Tooltip
             formatter={(_value, _name, entry) => [
-              `${coef((entry.payload as { ifDeleted: number | null }).ifDeleted)} (now ${coef(alpha)})`,
+              `${bounded((entry.payload as { ifDeleted: number | null }).ifDeleted)} (now ${bounded(alpha)})`,
               'α without the item',
             ]}
           />
@@ -94,7 +96,7 @@ export function ItemTotalChart({ rows, threshold }: { rows: RoundItemRow[]; thre
     <figure className="chart" aria-label="Corrected item-total correlations">
       <figcaption>
         Corrected item-total correlation
-        <span className="muted"> · dashed line at {coef(threshold, 2)} (common practice)</span>
+        <span className="muted"> · dashed line at {bounded(threshold, 2)} (common practice)</span>
       </figcaption>
       <ResponsiveContainer width="100%" height={rowHeight(rows.length)}>
         <BarChart data={data} layout="vertical" margin={{ top: 4, right: 16, bottom: 18, left: 4 }}>
@@ -103,7 +105,7 @@ export function ItemTotalChart({ rows, threshold }: { rows: RoundItemRow[]; thre
             type="number"
             domain={[low, 1]}
             ticks={ticks}
-            tickFormatter={(v: number) => coef(v, 1)}
+            tickFormatter={(v: number) => bounded(v, 1)}
             tick={TICK}
             label={{
               value: 'r with the sum of the other items',
@@ -114,12 +116,12 @@ export function ItemTotalChart({ rows, threshold }: { rows: RoundItemRow[]; thre
             }}
           />
           <YAxis type="category" dataKey="code" width={46} tick={TICK} interval={0} />
-          <Tooltip formatter={(value) => [coef(Number(value)), 'corrected item-total r']} />
+          <Tooltip formatter={(value) => [bounded(Number(value)), 'corrected item-total r']} />
           <ReferenceLine
             x={threshold}
             stroke={WARN}
             strokeDasharray="4 3"
-            label={{ value: coef(threshold, 2), position: 'top', fontSize: 11, fill: WARN }}
+            label={{ value: bounded(threshold, 2), position: 'top', fontSize: 11, fill: WARN }}
           />
           <Bar dataKey="r" isAnimationActive={false} barSize={11}>
             {data.map((d) => (
@@ -182,7 +184,7 @@ export function DistributionChart({
           <YAxis type="category" dataKey="code" width={46} tick={TICK} interval={0} />
           <Tooltip
             formatter={(value, name) => [
-              `${num(Number(value), 1)}%`,
+              `${unbounded(Number(value), 1)}%`,
               `${name}${anchors[Number(name) - min] ? ` (${anchors[Number(name) - min]})` : ''}`,
             ]}
           />
@@ -214,8 +216,14 @@ export function DistributionChart({
   );
 }
 
-/** Alpha across rounds with its confidence interval and the band edges. */
-export function AlphaHistoryChart({ rounds }: { rounds: RoundSummary[] }) {
+/** Alpha across rounds with its confidence interval and the study's reliability criterion. */
+export function AlphaHistoryChart({
+  rounds,
+  criterion,
+}: {
+  rounds: RoundSummary[];
+  criterion: ReliabilityCriterion;
+}) {
   const data = rounds.map((r) => ({
     round: `Round ${r.number}`,
     alpha: r.alpha,
@@ -225,7 +233,7 @@ export function AlphaHistoryChart({ rounds }: { rounds: RoundSummary[] }) {
     k: r.k,
   }));
   const lowest = Math.min(...rounds.map((r) => r.ci.lower));
-  const floor = Math.max(0, Math.min(0.6, Math.floor(lowest * 10) / 10));
+  const floor = Math.max(0, Math.min(criterion.minimum - 0.1, Math.floor(lowest * 10) / 10));
   const ticks = Array.from({ length: Math.round((1 - floor) * 10) + 1 }, (_, i) => floor + i / 10);
   return (
     <figure className="chart" aria-label="Alpha across rounds">
@@ -233,7 +241,7 @@ export function AlphaHistoryChart({ rounds }: { rounds: RoundSummary[] }) {
         Alpha across rounds
         <span className="muted">
           {' '}
-          · whiskers: confidence interval (Feldt); dashed: .70 and .80 band edges
+          · whiskers: confidence interval (Feldt); dashed: criterion {criterionName(criterion)}*
         </span>
       </figcaption>
       <ResponsiveContainer width="100%" height={220}>
@@ -243,27 +251,26 @@ export function AlphaHistoryChart({ rounds }: { rounds: RoundSummary[] }) {
           <YAxis
             domain={[floor, 1]}
             ticks={ticks}
-            tickFormatter={(v: number) => coef(v, 2)}
+            tickFormatter={(v: number) => bounded(v, 2)}
             tick={TICK}
             width={40}
           />
           <Tooltip
             formatter={(_value, _name, entry) => {
               const p = entry.payload as { alpha: number; lower: number; upper: number; k: number };
-              return [`${coef(p.alpha)} [${coef(p.lower)}, ${coef(p.upper)}], ${p.k} items`, 'α'];
+              return [`${bounded(p.alpha)} [${bounded(p.lower)}, ${bounded(p.upper)}], ${p.k} items`, 'α'];
             }}
           />
           <ReferenceLine
-            y={0.8}
+            y={criterion.minimum}
             stroke={EDGE}
             strokeDasharray="4 3"
-            label={{ value: 'good ≥ .80', position: 'right', fontSize: 11, fill: INK }}
-          />
-          <ReferenceLine
-            y={0.7}
-            stroke={EDGE}
-            strokeDasharray="4 3"
-            label={{ value: 'acceptable ≥ .70', position: 'right', fontSize: 11, fill: INK }}
+            label={{
+              value: `criterion ${bounded(criterion.minimum, 2)}*`,
+              position: 'right',
+              fontSize: 11,
+              fill: INK,
+            }}
           />
           <Line dataKey="alpha" stroke={ACCENT} strokeWidth={2} isAnimationActive={false} dot={{ r: 4 }}>
             <ErrorBar dataKey="ci" width={6} stroke={ACCENT} />
@@ -271,7 +278,7 @@ export function AlphaHistoryChart({ rounds }: { rounds: RoundSummary[] }) {
               dataKey="alpha"
               position="top"
               offset={10}
-              formatter={(v) => coef(Number(v))}
+              formatter={(v) => bounded(Number(v))}
               style={{ fontSize: 11, fill: INK }}
             />
           </Line>

@@ -3,7 +3,7 @@ import type { CommandOutput } from '../../../app/api/commands.ts';
 import { ErrorNote, Panel } from '../../shared/components.tsx';
 import { SignOffAside } from '../../shared/phase-controls.tsx';
 import { useMutation, useQuery } from '../../shared/use-command.ts';
-import { coef, plural } from '../../shared/format.ts';
+import { STAT_LABELS, bounded, plural } from '../../../app/api/format.ts';
 import { ReviewPacket } from './ReviewPacket.tsx';
 import { RatingsPanel, RoundDetail, RoundSummary } from './RoundDetail.tsx';
 import './review.css';
@@ -72,7 +72,7 @@ function ReviewWorkspace() {
                 <span className="round-tab-title">Round {r.number}</span>
                 <span className="round-tab-meta">
                   {plural(r.items.length, 'item')} ·{' '}
-                  {r.report ? `S-CVI/Ave ${coef(r.report.sCviAve, 2)}` : 'no ratings yet'}
+                  {r.report ? `S-CVI/Ave ${bounded(r.report.sCviAve, 2)}` : 'no ratings yet'}
                 </span>
               </button>
             ))}
@@ -81,9 +81,12 @@ function ReviewWorkspace() {
           {round ? (
             <>
               <RoundSummary round={round} locked={locked} />
-              <fieldset disabled={locked} className="plain">
-                <RatingsPanel key={round.id} round={round} maxFileBytes={view.data.maxFileBytes} />
-              </fieldset>
+              <RatingsPanel
+                key={round.id}
+                round={round}
+                maxFileBytes={view.data.maxFileBytes}
+                locked={locked}
+              />
             </>
           ) : (
             <Panel title="No review round yet">
@@ -174,15 +177,16 @@ function NewRound({ view, onCreated }: { view: View; onCreated(id: number): void
 
 function CompareRounds({ comparison }: { comparison: View['comparison'] }) {
   const [all, setAll] = useState(false);
-  const repeated = comparison.rows.filter((row) => Object.keys(row.cells).length > 1);
-  const rows = all ? comparison.rows : repeated;
+  const shown = comparison.rows.filter((row) => Object.keys(row.cells).length > 1 || row.newInLatest);
+  const rows = all ? comparison.rows : shown;
+  const latest = comparison.rounds.at(-1);
   return (
     <Panel
       title="Rounds side by side"
       aside={
         <label className="inline-check">
           <input type="checkbox" checked={all} onChange={(e) => setAll(e.target.checked)} /> Show every item (
-          {comparison.rows.length}), not only the {repeated.length} rated again
+          {comparison.rows.length}), not only the {shown.length} rated again or new in round {latest}
         </label>
       }
     >
@@ -191,64 +195,77 @@ function CompareRounds({ comparison }: { comparison: View['comparison'] }) {
           <thead>
             <tr>
               <th rowSpan={2}>Item</th>
-              {comparison.rounds.map((r) => (
-                <th key={r.number} colSpan={2} className="round-group">
-                  Round {r.number}
+              {comparison.rounds.map((n) => (
+                <th key={n} colSpan={2} className="round-group">
+                  Round {n}
                 </th>
               ))}
             </tr>
             <tr>
-              {comparison.rounds.map((r) => [
-                <th key={`${r.number}-i`} className="num">
-                  I-CVI
+              {comparison.rounds.map((n) => [
+                <th key={`${n}-i`} className="num">
+                  {STAT_LABELS.iCvi}
                 </th>,
-                <th key={`${r.number}-k`} className="num">
-                  k*
+                <th key={`${n}-k`} className="num">
+                  {STAT_LABELS.modifiedKappa}
                 </th>,
               ])}
             </tr>
           </thead>
           <tbody>
             {rows.map((row) => (
-              <tr key={row.code}>
-                <td className="nowrap">{row.code}</td>
-                {comparison.rounds.map((r) => {
-                  const cell = row.cells[r.number];
+              <tr key={row.code} data-code={row.code}>
+                <td className="nowrap">
+                  {row.code}
+                  {row.newInLatest && <span className="tag-note"> new in round {latest}</span>}
+                </td>
+                {comparison.rounds.map((n) => {
+                  const cell = row.cells[n];
                   const flagged = (cell?.flags.length ?? 0) > 0;
                   return [
-                    <td key={`${r.number}-i`} className={`num${flagged ? ' cell-flagged' : ''}`}>
-                      {cell === undefined ? '' : coef(cell?.iCvi, 2)}
+                    <td key={`${n}-i`} className={`num${flagged ? ' cell-flagged' : ''}`}>
+                      {cell === undefined ? '' : bounded(cell?.iCvi, 2)}
                     </td>,
-                    <td key={`${r.number}-k`} className={`num${flagged ? ' cell-flagged' : ''}`}>
-                      {cell === undefined ? '' : coef(cell?.modifiedKappa, 2)}
+                    <td key={`${n}-k`} className={`num${flagged ? ' cell-flagged' : ''}`}>
+                      {cell === undefined ? '' : bounded(cell?.modifiedKappa, 2)}
                     </td>,
                   ];
                 })}
               </tr>
             ))}
           </tbody>
-          <tfoot>
+        </table>
+        <table
+          className="data-table compare-table compare-scale"
+          aria-label="Scale-level content validity by round"
+        >
+          <thead>
             <tr>
-              <th>S-CVI/Ave</th>
-              {comparison.rounds.map((r) => (
-                <td key={r.number} colSpan={2} className="num">
-                  {coef(r.sCviAve, 2)}
-                </td>
+              <th>Scale</th>
+              {comparison.rounds.map((n) => (
+                <th key={n} className="num">
+                  Round {n}
+                </th>
               ))}
             </tr>
-            <tr>
-              <th>S-CVI/UA</th>
-              {comparison.rounds.map((r) => (
-                <td key={r.number} colSpan={2} className="num">
-                  {coef(r.sCviUa, 2)}
-                </td>
-              ))}
-            </tr>
-          </tfoot>
+          </thead>
+          <tbody>
+            {comparison.scale.map((line) => (
+              <tr key={line.label} data-statistic={line.label}>
+                <th scope="row">{line.label}</th>
+                {comparison.rounds.map((n) => (
+                  <td key={n} className="num">
+                    {bounded(line.values[n], 2)}
+                  </td>
+                ))}
+              </tr>
+            ))}
+          </tbody>
         </table>
       </div>
       <p className="hint">
-        A blank cell: the item was not part of that round. S-CVI of each round covers its own items.
+        A blank cell: the item was not part of that round. The S-CVI of each round covers that round’s own
+        items.
       </p>
     </Panel>
   );

@@ -5,7 +5,7 @@ import { call } from '../../api/client.ts';
 import { ErrorNote, formatTime, Panel, ReasonAction } from '../../shared/components.tsx';
 import { useMutation } from '../../shared/use-command.ts';
 import { downloadText, readFileBase64 } from '../../shared/files.ts';
-import { plural } from '../../shared/format.ts';
+import { plural } from '../../../app/api/format.ts';
 import { StatsPanel } from './StatsPanel.tsx';
 import { FileNotes } from '../../shared/file-notes.tsx';
 
@@ -71,23 +71,17 @@ export function RoundDetail(props: {
   );
 }
 
-function templateCsv(round: RoundView): string {
-  const columns = ['item', 'expert', 'relevance'];
-  if (round.form.asksEssential) columns.push('essential');
-  if (round.form.asksFacet) columns.push('facet');
-  if (round.form.asksComment) columns.push('comment');
-  const experts = round.experts.length > 0 ? round.experts.map((e) => e.code) : ['E1', 'E2', 'E3'];
-  const lines = [columns.join(',')];
-  const inPacketOrder = [...round.items].sort((a, b) => a.packetNumber - b.packetNumber);
-  for (const expert of experts) {
-    for (const it of inPacketOrder)
-      lines.push([it.code, expert, ...columns.slice(2).map(() => '')].join(','));
-  }
-  return `${lines.join('\r\n')}\r\n`;
-}
-
 /** Ratings files of a round: choose, preview (problems by row and column), import; and the files imported so far. */
-export function RatingsPanel({ round, maxFileBytes }: { round: RoundView; maxFileBytes: number }) {
+export function RatingsPanel({
+  round,
+  maxFileBytes,
+  locked,
+}: {
+  round: RoundView;
+  maxFileBytes: number;
+  locked: boolean;
+}) {
+  const [sheetError, setSheetError] = useState<string | undefined>();
   const importRatings = useMutation('review.importRatings');
   const withdraw = useMutation('review.withdrawRatings');
   const [file, setFile] = useState<{ name: string; content: string } | undefined>();
@@ -142,7 +136,15 @@ export function RatingsPanel({ round, maxFileBytes }: { round: RoundView; maxFil
         <button
           type="button"
           className="link"
-          onClick={() => downloadText(`ratings-template-round-${round.number}.csv`, templateCsv(round))}
+          onClick={async () => {
+            setSheetError(undefined);
+            try {
+              const sheet = await call('review.blankSheet', { roundId: round.id });
+              downloadText(sheet.fileName, sheet.text);
+            } catch (e) {
+              setSheetError((e as Error).message);
+            }
+          }}
         >
           Download a blank ratings sheet
         </button>
@@ -153,147 +155,150 @@ export function RatingsPanel({ round, maxFileBytes }: { round: RoundView; maxFil
         item: <code>item</code> then one column per expert code (relevance only). The blank sheet lists the
         items in the packet’s order. Nothing is written until you press Import.
       </p>
-      <div className="import-choose">
-        <input
-          key={inputKey}
-          type="file"
-          accept=".csv,.tsv,.txt,text/csv"
-          aria-label="Ratings file"
-          onChange={(e) => void choose(e.target.files?.[0])}
-        />
-      </div>
-      <ErrorNote message={readError} />
-      {preview && (
-        <div className="import-preview" data-testid="ratings-preview">
-          <p>
-            <strong>{preview.fileName}</strong>
-            {preview.layout && `: ${preview.layout} form`}
-            {preview.delimiter && `, ${preview.delimiter}-separated`}.{' '}
-            {preview.problems.length === 0
-              ? `${plural(preview.ratingCount, 'rating')} from ${plural(preview.experts.length, 'expert')} on ${plural(preview.itemCount, 'item')}, ready to import.`
-              : `${plural(preview.problems.length, 'problem')} to fix first; nothing will be imported.`}
-          </p>
-          <FileNotes problems={preview.problems} warnings={preview.warnings} />
-          {preview.problems.length === 0 && unknown.length > 0 && (
-            <fieldset className="unknown-experts" data-testid="unknown-experts">
-              <legend>
-                {plural(unknown.length, 'expert code')} not on the panel: a typo must not create an expert
-              </legend>
-              {unknown.map((e) => (
-                <label key={e.code}>
-                  <input
-                    type="checkbox"
-                    checked={confirmed.has(e.code.toLowerCase())}
-                    onChange={(ev) => {
-                      const next = new Set(confirmed);
-                      if (ev.target.checked) next.add(e.code.toLowerCase());
-                      else next.delete(e.code.toLowerCase());
-                      setConfirmed(next);
-                    }}
-                  />{' '}
-                  Add {e.code} to the panel
-                  <span className="hint"> — {e.text}</span>
-                </label>
-              ))}
-            </fieldset>
-          )}
-          {preview.rows.length > 0 && (
-            <div className="preview-scroll">
-              <table className="data-table">
-                <thead>
-                  <tr>
-                    <th className="num">Row</th>
-                    <th>Item</th>
-                    <th>Expert</th>
-                    <th className="num">Relevance</th>
-                    {preview.hasEssential && <th>Essential</th>}
-                    {preview.hasFacet && <th>Facet</th>}
-                    {preview.hasComment && <th>Comment</th>}
-                  </tr>
-                </thead>
-                <tbody>
-                  {preview.rows.map((r) => (
-                    <tr key={`${r.row}-${r.expert}-${r.item}`}>
-                      <td className="num">{r.row}</td>
-                      <td>{r.item}</td>
-                      <td>{r.expert}</td>
-                      <td className="num">{r.relevance ?? '–'}</td>
-                      {preview.hasEssential && (
-                        <td>{r.essential === null ? '–' : r.essential ? 'essential' : 'not'}</td>
-                      )}
-                      {preview.hasFacet && <td>{r.facet ?? '–'}</td>}
-                      {preview.hasComment && <td>{r.comment ?? ''}</td>}
-                    </tr>
-                  ))}
-                </tbody>
-              </table>
-            </div>
-          )}
-          <div className="button-row">
-            <button
-              type="button"
-              className="primary"
-              disabled={preview.problems.length > 0 || !allConfirmed || importRatings.busy || !file}
-              onClick={async () => {
-                if (!file) return;
-                const done = await importRatings.run({
-                  roundId: round.id,
-                  fileName: file.name,
-                  content: file.content,
-                  addExperts: unknown.map((e) => e.code),
-                });
-                if (done !== undefined) reset();
-              }}
-            >
-              Import {plural(preview.ratingCount, 'rating')}
-            </button>
-            <button type="button" className="link" onClick={reset}>
-              Cancel
-            </button>
-          </div>
-          <ErrorNote message={importRatings.error} />
+      <ErrorNote message={sheetError} />
+      <fieldset disabled={locked} className="plain">
+        <div className="import-choose">
+          <input
+            key={inputKey}
+            type="file"
+            accept=".csv,.tsv,.txt,text/csv"
+            aria-label="Ratings file"
+            onChange={(e) => void choose(e.target.files?.[0])}
+          />
         </div>
-      )}
-      {round.imports.length > 0 && (
-        <table className="data-table import-history">
-          <thead>
-            <tr>
-              <th>File</th>
-              <th className="num">Ratings</th>
-              <th>Imported</th>
-              <th>SHA-256</th>
-              <th />
-            </tr>
-          </thead>
-          <tbody>
-            {round.imports.map((imp) => (
-              <tr key={imp.id} className={imp.withdrawnAt ? 'withdrawn' : undefined}>
-                <td>
-                  {imp.fileName} <span className="muted">({imp.layout} form)</span>
-                </td>
-                <td className="num">{imp.ratings}</td>
-                <td className="nowrap">{formatTime(imp.importedAt)}</td>
-                <td>
-                  <code title={imp.sha256}>{imp.sha256.slice(0, 12)}…</code>
-                </td>
-                <td>
-                  {imp.withdrawnAt ? (
-                    <span className="muted">withdrawn {formatTime(imp.withdrawnAt)}</span>
-                  ) : (
-                    <ReasonAction
-                      label="Withdraw…"
-                      confirm="Withdraw ratings"
-                      placeholder={`Why withdraw the ratings from ${imp.fileName}?`}
-                      onConfirm={(rationale) => withdraw.run({ importId: imp.id, rationale })}
-                    />
-                  )}
-                </td>
+        <ErrorNote message={readError} />
+        {preview && (
+          <div className="import-preview" data-testid="ratings-preview">
+            <p>
+              <strong>{preview.fileName}</strong>
+              {preview.layout && `: ${preview.layout} form`}
+              {preview.delimiter && `, ${preview.delimiter}-separated`}.{' '}
+              {preview.problems.length === 0
+                ? `${plural(preview.ratingCount, 'rating')} from ${plural(preview.experts.length, 'expert')} on ${plural(preview.itemCount, 'item')}, ready to import.`
+                : `${plural(preview.problems.length, 'problem')} to fix first; nothing will be imported.`}
+            </p>
+            <FileNotes problems={preview.problems} warnings={preview.warnings} />
+            {preview.problems.length === 0 && unknown.length > 0 && (
+              <fieldset className="unknown-experts" data-testid="unknown-experts">
+                <legend>
+                  {plural(unknown.length, 'expert code')} not on the panel: a typo must not create an expert
+                </legend>
+                {unknown.map((e) => (
+                  <label key={e.code}>
+                    <input
+                      type="checkbox"
+                      checked={confirmed.has(e.code.toLowerCase())}
+                      onChange={(ev) => {
+                        const next = new Set(confirmed);
+                        if (ev.target.checked) next.add(e.code.toLowerCase());
+                        else next.delete(e.code.toLowerCase());
+                        setConfirmed(next);
+                      }}
+                    />{' '}
+                    Add {e.code} to the panel
+                    <span className="hint"> — {e.text}</span>
+                  </label>
+                ))}
+              </fieldset>
+            )}
+            {preview.rows.length > 0 && (
+              <div className="preview-scroll">
+                <table className="data-table">
+                  <thead>
+                    <tr>
+                      <th className="num">Row</th>
+                      <th>Item</th>
+                      <th>Expert</th>
+                      <th className="num">Relevance</th>
+                      {preview.hasEssential && <th>Essential</th>}
+                      {preview.hasFacet && <th>Facet</th>}
+                      {preview.hasComment && <th>Comment</th>}
+                    </tr>
+                  </thead>
+                  <tbody>
+                    {preview.rows.map((r) => (
+                      <tr key={`${r.row}-${r.expert}-${r.item}`}>
+                        <td className="num">{r.row}</td>
+                        <td>{r.item}</td>
+                        <td>{r.expert}</td>
+                        <td className="num">{r.relevance ?? '–'}</td>
+                        {preview.hasEssential && (
+                          <td>{r.essential === null ? '–' : r.essential ? 'essential' : 'not'}</td>
+                        )}
+                        {preview.hasFacet && <td>{r.facet ?? '–'}</td>}
+                        {preview.hasComment && <td>{r.comment ?? ''}</td>}
+                      </tr>
+                    ))}
+                  </tbody>
+                </table>
+              </div>
+            )}
+            <div className="button-row">
+              <button
+                type="button"
+                className="primary"
+                disabled={preview.problems.length > 0 || !allConfirmed || importRatings.busy || !file}
+                onClick={async () => {
+                  if (!file) return;
+                  const done = await importRatings.run({
+                    roundId: round.id,
+                    fileName: file.name,
+                    content: file.content,
+                    addExperts: unknown.map((e) => e.code),
+                  });
+                  if (done !== undefined) reset();
+                }}
+              >
+                Import {plural(preview.ratingCount, 'rating')}
+              </button>
+              <button type="button" className="link" onClick={reset}>
+                Cancel
+              </button>
+            </div>
+            <ErrorNote message={importRatings.error} />
+          </div>
+        )}
+        {round.imports.length > 0 && (
+          <table className="data-table import-history">
+            <thead>
+              <tr>
+                <th>File</th>
+                <th className="num">Ratings</th>
+                <th>Imported</th>
+                <th>SHA-256</th>
+                <th />
               </tr>
-            ))}
-          </tbody>
-        </table>
-      )}
-      <ErrorNote message={withdraw.error} />
+            </thead>
+            <tbody>
+              {round.imports.map((imp) => (
+                <tr key={imp.id} className={imp.withdrawnAt ? 'withdrawn' : undefined}>
+                  <td>
+                    {imp.fileName} <span className="muted">({imp.layout} form)</span>
+                  </td>
+                  <td className="num">{imp.ratings}</td>
+                  <td className="nowrap">{formatTime(imp.importedAt)}</td>
+                  <td>
+                    <code title={imp.sha256}>{imp.sha256.slice(0, 12)}…</code>
+                  </td>
+                  <td>
+                    {imp.withdrawnAt ? (
+                      <span className="muted">withdrawn {formatTime(imp.withdrawnAt)}</span>
+                    ) : (
+                      <ReasonAction
+                        label="Withdraw…"
+                        confirm="Withdraw ratings"
+                        placeholder={`Why withdraw the ratings from ${imp.fileName}?`}
+                        onConfirm={(rationale) => withdraw.run({ importId: imp.id, rationale })}
+                      />
+                    )}
+                  </td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        )}
+        <ErrorNote message={withdraw.error} />
+      </fieldset>
     </Panel>
   );
 }

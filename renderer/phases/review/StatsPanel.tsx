@@ -1,9 +1,10 @@
 import { Fragment, useState } from 'react';
+import { ExportButton } from '../../shared/export-button.tsx';
 import type { RoundItemView, RoundView } from '../../../app/phases/review.ts';
 import type { Decision } from '../../../db/repos/review.ts';
 import { ErrorNote, Panel } from '../../shared/components.tsx';
 import { useMutation } from '../../shared/use-command.ts';
-import { coef, plural } from '../../shared/format.ts';
+import { bounded, plural } from '../../../app/api/format.ts';
 
 const DECISION_LABEL: Record<Decision, string> = { keep: 'Kept', revise: 'Revised', retire: 'Retired' };
 
@@ -30,7 +31,8 @@ export function StatsPanel(props: {
       aside={
         <span className="muted">
           {plural(panel, 'expert')} · relevant = {relevantFrom}–{report.scale.max}
-          {round.runId !== null && ` · stored as analysis run ${round.runId}`}
+          {round.runId !== null && ` · stored as analysis run ${round.runId}`} ·{' '}
+          <ExportButton request={{ kind: 'content-validity', roundId: round.id }} />
         </span>
       }
     >
@@ -38,13 +40,13 @@ export function StatsPanel(props: {
       <div className="stat-tiles">
         <Tile
           label="S-CVI/Ave"
-          value={coef(report.sCviAve, 2)}
-          note={`mean I-CVI; benchmark ${coef(benchmarks.sCviAve, 2)} (Polit & Beck 2006)`}
+          value={bounded(report.sCviAve, 2)}
+          note={`mean I-CVI; benchmark ${bounded(benchmarks.sCviAve, 2)} (Polit & Beck 2006)`}
           state={report.flags.length > 0 ? 'bad' : 'good'}
         />
         <Tile
           label="S-CVI/UA"
-          value={coef(report.sCviUa, 2)}
+          value={bounded(report.sCviUa, 2)}
           note="share of items every expert rated relevant"
         />
         <Tile
@@ -58,7 +60,7 @@ export function StatsPanel(props: {
         {report.facetSorting && (
           <Tile
             label="Facet sorting"
-            value={coef(report.facetSorting.fleissKappa, 2)}
+            value={bounded(report.facetSorting.fleissKappa, 2)}
             note={
               report.facetSorting.fleissKappa === null
                 ? 'Fleiss’ kappa not computed (see notes)'
@@ -68,7 +70,7 @@ export function StatsPanel(props: {
         )}
         <Tile
           label="Critical CVR"
-          value={round.form.asksEssential ? coef(report.cvrCritical, 3) : 'not asked'}
+          value={round.form.asksEssential ? bounded(report.cvrCritical, 3) : 'not asked'}
           note={
             round.form.asksEssential
               ? `exact binomial, one-tailed .05, for ${plural(panel, 'expert')}`
@@ -106,9 +108,9 @@ export function StatsPanel(props: {
                 <td
                   className={`num${f.sCviAve < benchmarks.sCviAve - benchmarks.precision ? ' cell-flagged' : ''}`}
                 >
-                  {coef(f.sCviAve, 2)}
+                  {bounded(f.sCviAve, 2)}
                 </td>
-                <td className="num">{coef(f.sCviUa, 2)}</td>
+                <td className="num">{bounded(f.sCviUa, 2)}</td>
               </tr>
             ))}
           </tbody>
@@ -138,7 +140,7 @@ export function StatsPanel(props: {
                   Placed
                 </th>
               )}
-              <th>Below benchmark</th>
+              <th>Benchmarks and flags</th>
               <th>Decision</th>
             </tr>
           </thead>
@@ -246,8 +248,8 @@ function ItemStatsRow(props: {
           )}
         </td>
         <td className="num nowrap">{s ? `${s.rated}/${props.panel}` : '–'}</td>
-        <td className="num">{coef(s?.iCvi, 2)}</td>
-        <td className="num">{coef(s?.modifiedKappa, 2)}</td>
+        <td className="num">{bounded(s?.iCvi, 2)}</td>
+        <td className="num">{bounded(s?.modifiedKappa, 2)}</td>
         <td>{s?.kappaBand ? <span className={`band band-${s.kappaBand}`}>{s.kappaBand}</span> : '–'}</td>
         {props.hasCvr && (
           <td
@@ -255,23 +257,29 @@ function ItemStatsRow(props: {
             title={
               s?.cvrCritical === null
                 ? 'no critical value for this number of answers'
-                : `critical ${coef(s?.cvrCritical, 3)}`
+                : `critical ${bounded(s?.cvrCritical, 3)}`
             }
           >
-            {coef(s?.cvr, 2)}
+            {bounded(s?.cvr, 2)}
           </td>
         )}
-        <td className="num">{coef(s?.aikenV, 2)}</td>
-        {props.hasPlacement && <td className="num">{coef(s?.facetAgreement, 2)}</td>}
+        <td className="num">{bounded(s?.aikenV, 2)}</td>
+        {props.hasPlacement && <td className="num">{bounded(s?.facetAgreement, 2)}</td>}
         <td className="flag-cell">
-          {flags.length === 0 ? (
-            <span className="muted">meets the benchmarks</span>
-          ) : (
+          {flags.length > 0 && (
             <ul>
               {flags.map((f) => (
                 <li key={f}>{f}</li>
               ))}
             </ul>
+          )}
+          {flags.length === 0 && props.item.benchmarksMet.length > 0 && (
+            <span className="muted benchmarks-met">meets {props.item.benchmarksMet.join('; ')}</span>
+          )}
+          {props.item.wordingFlags.length > 0 && (
+            <span className="wording-stand">
+              wording flags stand: {props.item.wordingFlags.join(', ')} (common practice)
+            </span>
           )}
         </td>
         <td className="decision-cell">

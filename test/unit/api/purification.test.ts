@@ -155,3 +155,41 @@ describe('purification through the command table', () => {
     expect(session.study.log.count()).toBe(rows + 1);
   });
 });
+
+describe('one reason for several flagged items', () => {
+  it('records one decision and one log row per item, all with the same reasons', async () => {
+    await fillStudy();
+    const started = await ok<{ taskId: string }>('purification.startRound', { bootstrap: null });
+    await ok('purification.collectRound', { taskId: started.taskId });
+    const before = session.study.log.count();
+    const ids = await ok<number[]>('purification.decideMany', {
+      itemCodes: ['TR1', 'TR2', 'TR1'],
+      action: 'keep',
+      domainRationale: 'Both describe riding in traffic, the facet’s core.',
+      statisticalRationale: 'Their flags are skew only; item–total r is fine.',
+    });
+    expect(ids).toHaveLength(2);
+    const rows = session.study.log.list({ phase: 'purification', limit: 2, offset: 0 });
+    expect(session.study.log.count()).toBe(before + 2);
+    expect(rows.map((r) => r.target).sort()).toEqual(['item TR1', 'item TR2']);
+    for (const row of rows) expect(row.rationale).toContain('Both describe riding in traffic');
+  });
+
+  it('records none when one item of the set is refused', async () => {
+    await fillStudy();
+    const started = await ok<{ taskId: string }>('purification.startRound', { bootstrap: null });
+    await ok('purification.collectRound', { taskId: started.taskId });
+    const before = session.study.log.count();
+    const error = await refused('purification.decideMany', {
+      itemCodes: ['TR1', 'XX9'],
+      action: 'keep',
+      domainRationale: 'x',
+      statisticalRationale: 'y',
+    });
+    expect(error).toEqual({ code: 'not-found', message: 'there is no item "XX9" in the item pool' });
+    expect(session.study.log.count()).toBe(before);
+    expect((await refused('purification.decideMany', { itemCodes: [], action: 'keep' })).message).toMatch(
+      /choose at least one item/,
+    );
+  });
+});

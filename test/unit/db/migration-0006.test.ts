@@ -3,6 +3,7 @@ import Database from 'better-sqlite3';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { currentDataset } from '../../../app/phases/analysis-data.ts';
 import { listDatasetChoices } from '../../../db/repos/datasets.ts';
+import { LATEST_VERSION } from '../../../db/migrations/index.ts';
 import { APPLICATION_ID } from '../../../db/study-file.ts';
 import { migrate, Study } from '../../../db/study.ts';
 import { TEST_ACTOR, tempDir } from '../../helpers/tmp.ts';
@@ -35,7 +36,7 @@ describe('migration 6: the current dataset of each role', () => {
     buildVersion4(file);
     const study = Study.open(file, { actor: TEST_ACTOR, app: 'test' });
     try {
-      expect(study.version).toBe(6);
+      expect(study.version).toBe(LATEST_VERSION);
       expect(study.db.prepare('SELECT name FROM dataset ORDER BY id').pluck().all()).toEqual([
         'Spring',
         'Retest',

@@ -302,11 +302,11 @@ describe('decisions and the next round', () => {
     expect(check('final-round-current')?.met).toBe(true);
     expect(check('drops-have-domain-rationale')?.met).toBe(true);
     expect(check('alpha-with-ci')?.detail).toMatch(
-      /^α = \.93\d \(good\), 95% CI \.91\d to \.94\d \(Feldt\), n = 235/,
+      /^α = \.93\d \(meets the \.70 criterion for early-stage research, Nunnally & Bernstein \(1994\)\), 95% CI \.91\d to \.94\d \(Feldt\), n = 235/,
     );
     expect(overview.holds).toEqual([
       '2 rounds',
-      'α = .93 (good) in round 2',
+      'α = .93 in round 2 (meets the .70 criterion)',
       '16 items retained',
       '1 dropped',
     ]);

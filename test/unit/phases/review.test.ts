@@ -513,7 +513,7 @@ describe('decisions and later rounds', () => {
     );
     expect(round(second).items[0].text).toBe('I can ride past a line of parked cars.');
     const { comparison } = reviewView(study);
-    expect(comparison.rounds.map((r) => r.number)).toEqual([1, 2]);
+    expect(comparison.rounds).toEqual([1, 2]);
     const row = comparison.rows.find((r) => r.code === 'TR02');
     expect(row?.cells[1]?.iCvi).toBeCloseTo(0.5, 12);
     expect(row?.cells[2]?.iCvi).toBe(1);

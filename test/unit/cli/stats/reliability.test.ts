@@ -90,8 +90,9 @@ describe('stats reliability (spawned CLI)', () => {
   it('table mode: an aligned table on stdout, warnings on stderr', () => {
     const run = cli('--data', good, '--items', 'traffic1,traffic2,route1', '--missing', 'pairwise');
     expect(run.code).toBe(0);
-    expect(run.stdout).toMatch(/alpha\s+0\.\d{3}/);
-    expect(run.stdout).toMatch(/item-rest r/);
+    expect(run.stdout).toMatch(/Cronbach’s α\s+\.\d{3} {2}(meets|below) \.70\*/);
+    expect(run.stdout).toMatch(/Corrected item–total r/);
+    for (const line of run.stdout.split('\n')) expect(line.length).toBeLessThanOrEqual(100);
     expect(run.stderr).toMatch(/^warning: only 8 respondents/);
   });
 

@@ -1,24 +1,11 @@
 import { describe, expect, it } from 'vitest';
 import {
-  alphaBand,
   alphaIfDeleted,
   cronbachAlpha,
   standardizedAlpha,
 } from '../../../../app/engine/reliability/alpha.ts';
 
 const EXACT_TOL = 1e-12;
-
-describe('alphaBand (common practice: ≥ .80 good, .70 acceptable, .60 questionable)', () => {
-  it('puts the edges in the upper band', () => {
-    expect(alphaBand(0.8)).toBe('good');
-    expect(alphaBand(0.7999)).toBe('acceptable');
-    expect(alphaBand(0.7)).toBe('acceptable');
-    expect(alphaBand(0.65)).toBe('questionable');
-    expect(alphaBand(0.59)).toBe('unacceptable');
-    expect(alphaBand(-0.2)).toBe('unacceptable');
-    expect(() => alphaBand(Number.NaN)).toThrow('a reliability band needs a finite value');
-  });
-});
 
 describe('cronbachAlpha', () => {
   it('k parallel items with unit variance and covariance c give kc/(1 + (k − 1)c)', () => {
