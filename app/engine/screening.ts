@@ -1,6 +1,6 @@
 import { chiSquareSf } from './distributions.ts';
 import { EngineError } from './errors.ts';
-import { covarianceMatrix, inverse } from './linalg.ts';
+import { cholesky, covarianceMatrix } from './linalg.ts';
 import { EPSILON, kahanSum } from './numeric.ts';
 
 /**
@@ -143,8 +143,10 @@ export function intraIndividualVariability(answers: ArrayLike<number>): number |
  * Squared Mahalanobis distance of each complete row from the centroid, D² = (x − x̄)ᵀS⁻¹(x − x̄) with
  * the sample covariance S (divisor n − 1), and its upper-tail probability under χ² with p degrees of
  * freedom (Mahalanobis 1936; the χ² reference as in Tabachnick & Fidell, from memory).
+ * S⁻¹ is applied by solving with the Cholesky factor of S (S = L·Lᵀ, D² = ‖L⁻¹(x − x̄)‖²), never by
+ * inverting S. Source: screening.mahalanobis, linalg.cholesky (the method registry).
  * Cost O(n·p² + p³). Throws EngineError "Mahalanobis distance requires more complete rows than items"
- * and "matrix is singular" (from inverse) when the items are linearly dependent.
+ * and "covariance matrix is singular" when an item is constant or the items are linearly dependent.
  */
 export function mahalanobisDistances(rows: readonly (readonly number[])[]): { d2: number[]; p: number[] } {
   const n = rows.length;
@@ -157,7 +159,20 @@ export function mahalanobisDistances(rows: readonly (readonly number[])[]): { d2
   }
   const data = rows.map((r) => [...r]);
   const s = covarianceMatrix(data);
-  const sInv = inverse(s);
+  // D² = ‖z‖² with L·z = x − x̄ and S = L·Lᵀ: one Cholesky factor, then a triangular solve per row;
+  // S⁻¹ is never formed.
+  let l: number[][];
+  try {
+    l = cholesky(s);
+  } catch (error) {
+    if (error instanceof EngineError && error.code === 'not-positive-definite') {
+      throw new EngineError(
+        "the items' covariance matrix is singular (an item is constant or a linear combination of others)",
+        'singular',
+      );
+    }
+    throw error;
+  }
   const means = new Float64Array(k);
   for (let j = 0; j < k; j++) {
     const column = new Float64Array(n);
@@ -166,19 +181,18 @@ export function mahalanobisDistances(rows: readonly (readonly number[])[]): { d2
   }
   const d2: number[] = [];
   const p: number[] = [];
-  const dev = new Float64Array(k);
+  const z = new Float64Array(k);
   for (let i = 0; i < n; i++) {
-    for (let j = 0; j < k; j++) dev[j] = data[i][j] - means[j];
     let sum = 0;
     for (let a = 0; a < k; a++) {
-      const row = sInv[a];
-      let inner = 0;
-      for (let b = 0; b < k; b++) inner += row[b] * dev[b];
-      sum += dev[a] * inner;
+      const la = l[a];
+      let v = data[i][a] - means[a];
+      for (let b = 0; b < a; b++) v -= la[b] * z[b];
+      z[a] = v / la[a];
+      sum += z[a] * z[a];
     }
-    const value = Math.max(0, sum);
-    d2.push(value);
-    p.push(chiSquareSf(value, k));
+    d2.push(sum);
+    p.push(chiSquareSf(sum, k));
   }
   return { d2, p };
 }
