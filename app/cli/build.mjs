@@ -88,8 +88,16 @@ export async function buildCli() {
   fs.renameSync(temporary, MANIFEST);
 }
 
-/** Rebuilds when stale; without esbuild (an install without dev tools) runs what is there. */
-export async function ensureCliBuilt(log = (line) => process.stderr.write(`${line}\n`)) {
+/**
+ * Rebuilds when stale (quietly: the output of a command stays exactly what the command prints; set
+ * SCALEWRIGHT_BUILD_LOG=1 to see why a rebuild happened); without esbuild (an install without dev
+ * tools) runs what is there.
+ */
+export async function ensureCliBuilt(
+  log = (line) => {
+    if (process.env.SCALEWRIGHT_BUILD_LOG === '1') process.stderr.write(`${line}\n`);
+  },
+) {
   const reason = staleReason();
   if (reason === null) return;
   try {

@@ -1,5 +1,11 @@
 import { EngineError } from '../../engine/errors.ts';
-import { type ItemAnalysis, analyseItems, DEFAULT_CI_LEVEL } from '../../engine/reliability.ts';
+import { methodsField } from '../../engine/methods/index.ts';
+import {
+  analyseItems,
+  DEFAULT_CI_LEVEL,
+  type ItemAnalysis,
+  itemAnalysisMethods,
+} from '../../engine/reliability.ts';
 import { MIN_BOOTSTRAP_RESAMPLES } from '../../engine/reliability/bootstrap.ts';
 import { formatTable } from '../table.ts';
 import { DataError, type StatsAnalysis, type StatsResult, UsageError } from '../types.ts';
@@ -77,6 +83,7 @@ export function reliabilityJson(loaded: LoadedItems, a: ItemAnalysis, seed: numb
     })),
     correlations: { items: loaded.names, matrix: a.correlations },
     seed,
+    methods: methodsField(itemAnalysisMethods(a)),
   };
 }
 

@@ -1,6 +1,7 @@
 import { EngineError } from '../errors.ts';
+import { ruleThreshold } from '../methods/index.ts';
 
-/** Common-practice bands for alpha (METHODS.md): shown beside a value, never as a verdict alone. */
+/** Common-practice bands for alpha (rule alpha.bands): shown beside a value, never as a verdict alone. */
 export type AlphaBand = 'good' | 'acceptable' | 'questionable' | 'unacceptable';
 
 /** A reliability coefficient with its common-practice band. */
@@ -9,13 +10,17 @@ export interface BandedValue {
   band: AlphaBand;
 }
 
-/** Lower edges of the bands (common practice, taught widely; METHODS.md "Reliability"). */
-export const ALPHA_BAND_EDGES = { good: 0.8, acceptable: 0.7, questionable: 0.6 } as const;
+/** Lower edges of the bands, from the registry's rule alpha.bands (common practice, taught widely). */
+export const ALPHA_BAND_EDGES = {
+  good: ruleThreshold('alpha.bands', 'good'),
+  acceptable: ruleThreshold('alpha.bands', 'acceptable'),
+  questionable: ruleThreshold('alpha.bands', 'questionable'),
+} as const;
 
 /**
  * The common-practice band of a reliability coefficient: ≥ .80 good, .70–.80 acceptable,
- * .60–.70 questionable, < .60 unacceptable. A rule of thumb of the trade (no single source);
- * early-stage research often accepts .70 (Nunnally 1978, from memory).
+ * .60–.70 questionable, < .60 unacceptable. Rule alpha.bands (the method registry): a rule of
+ * thumb of the trade with no single source.
  *
  * Cost: O(1). Throws EngineError when the value is not a finite number.
  */
@@ -38,7 +43,7 @@ export function banded(value: number): BandedValue {
  * variance σ²ₜ is the sum of all entries of the matrix (with complete data this equals the variance of
  * the sum score exactly).
  *
- * Source: Cronbach (1951). Cost: O(k²).
+ * Source: alpha.cronbach (the method registry). Cost: O(k²).
  * Throws EngineError with fewer than two items ("alpha requires at least two items") or when the total
  * score does not vary.
  */
@@ -64,7 +69,8 @@ export function cronbachAlpha(cov: readonly (readonly number[])[]): number {
  * Standardized alpha from the mean inter-item correlation r̄: kr̄ / (1 + (k − 1)r̄) — alpha of the
  * items after each is scaled to unit variance.
  *
- * Source: Cronbach (1951); the form in r̄ follows from the Spearman–Brown formula. Cost: O(1).
+ * Source: alpha.standardized (the method registry); the form in r̄ follows from the Spearman–Brown
+ * formula. Cost: O(1).
  * Throws EngineError with fewer than two items or when 1 + (k − 1)r̄ is not positive (r̄ at or below
  * −1/(k − 1), which no positive semi-definite correlation matrix has).
  */
@@ -85,7 +91,7 @@ export function standardizedAlpha(meanR: number, k: number): number {
  * covariance matrix with the item's row and column removed (σ²ₜ₍₋ᵢ₎ = σ²ₜ − 2Σⱼcᵢⱼ + cᵢᵢ).
  * `null` for an item when fewer than two items would remain or the remaining total does not vary.
  *
- * Source: Cronbach (1951), applied to each reduced item set. Cost: O(k²) (row sums once).
+ * Source: alpha.if-item-deleted (the method registry). Cost: O(k²) (row sums once).
  * Throws nothing.
  */
 export function alphaIfDeleted(cov: readonly (readonly number[])[]): (number | null)[] {
