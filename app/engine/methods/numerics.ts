@@ -8,7 +8,10 @@ const GOLUB_VAN_LOAN_2013: Reference = {
   publisher: 'Johns Hopkins University Press',
 };
 
-/** Numerical building blocks the statistics rest on: decompositions, correlations, missing data. */
+/**
+ * Numerical building blocks the statistics rest on: decompositions, correlations, missing data (the
+ * symmetric eigendecomposition and smoothing live with factor analysis).
+ */
 export const NUMERICS_METHODS: RegistryEntry[] = [
   {
     kind: 'method',
@@ -21,24 +24,6 @@ export const NUMERICS_METHODS: RegistryEntry[] = [
     id: 'linalg.cholesky',
     name: 'Cholesky decomposition',
     references: [GOLUB_VAN_LOAN_2013],
-  },
-  {
-    kind: 'method',
-    id: 'linalg.symmetric-eigen',
-    name: 'Symmetric eigendecomposition (Householder tridiagonalization and implicit QL)',
-    references: [
-      {
-        authors: ['Bowdler, H.', 'Martin, R. S.', 'Reinsch, C.', 'Wilkinson, J. H.'],
-        year: 1968,
-        title: 'The QR and QL algorithms for symmetric matrices',
-        container: 'Numerische Mathematik',
-        volume: '11',
-        issue: '4',
-        pages: '293–306',
-        fromMemory: true,
-      },
-      GOLUB_VAN_LOAN_2013,
-    ],
   },
   {
     kind: 'method',
