@@ -1,11 +1,14 @@
 #!/usr/bin/env node
-// Entry point of an installed copy: runs the TypeScript CLI through tsx's loader.
-import { spawnSync } from 'node:child_process';
-import { createRequire } from 'node:module';
-import { fileURLToPath } from 'node:url';
+// The command line's launcher (`npm run cli` and the package's `bin`): makes sure the compiled bundle
+// matches the sources (rebuilding it when a source changed), then runs it in this process.
+import { CLI_BUNDLE, ensureCliBuilt } from './build.mjs';
+import { pathToFileURL } from 'node:url';
 
-const require = createRequire(import.meta.url);
-const tsx = require.resolve('tsx/cli');
-const main = fileURLToPath(new URL('./main.ts', import.meta.url));
-const result = spawnSync(process.execPath, [tsx, main, ...process.argv.slice(2)], { stdio: 'inherit' });
-process.exit(result.status ?? 1);
+try {
+  await ensureCliBuilt();
+} catch (error) {
+  process.stderr.write(`error: ${error.message}\n`);
+  process.exit(1);
+}
+const { runCli } = await import(pathToFileURL(CLI_BUNDLE).href);
+process.exitCode = await runCli(process.argv.slice(2), { cwd: process.env.INIT_CWD ?? process.cwd() });

@@ -15,7 +15,8 @@ export interface DisattenuatedCorrelation {
  * their observed correlation and reliabilities, r̂ = rₓᵧ / √(rₓₓ·rᵧᵧ). The bias it corrects comes
  * from measurement error, not from sampling, so it does not shrink as n grows.
  *
- * Source: Spearman (1904). Check (METHODS.md): r = .432 with reliabilities .81 and .64 gives .60.
+ * Source: attenuation.spearman (the method registry). Check: a true .60 between measures with
+ * reliabilities .81 and .64 is observed as .60·.9·.8 = .432, and the correction recovers .60.
  * Cost: O(1).
  * Throws EngineError when rₓᵧ is not in [−1, 1] or a reliability is not in (0, 1].
  */

@@ -1,5 +1,6 @@
 import { binomialCoefficient, binomialSf } from './distributions.ts';
 import { EngineError } from './errors.ts';
+import { ruleThreshold } from './methods/index.ts';
 
 /**
  * Content validity from an expert panel: item and scale content validity indices, the modified
@@ -35,19 +36,19 @@ export type KappaBand = 'excellent' | 'good' | 'fair' | 'poor';
 export const CHANCE_PROBABILITY = 0.5;
 
 /** Significance level of the one-tailed exact binomial test behind the critical CVR (Lawshe 1975). */
-export const CVR_ALPHA = 0.05;
+export const CVR_ALPHA = ruleThreshold('content.cvr-significance', 'alpha');
 
 /** Benchmark I-CVI for panels of six or more experts (Polit & Beck 2006; Lynn 1986). */
-export const ICVI_BENCHMARK_LARGE_PANEL = 0.78;
+export const ICVI_BENCHMARK_LARGE_PANEL = ruleThreshold('content.i-cvi-benchmark', 'largePanelMinimum');
 
 /** Smallest panel for which Lynn (1986) gives an I-CVI benchmark (1.00 for 3 to 5 experts). */
-export const MIN_PANEL_FOR_BENCHMARK = 3;
+export const MIN_PANEL_FOR_BENCHMARK = ruleThreshold('content.i-cvi-benchmark', 'minimumPanel');
 
 /** Smallest panel size that gets the .78 benchmark rather than 1.00. */
-export const LARGE_PANEL = 6;
+export const LARGE_PANEL = ruleThreshold('content.i-cvi-benchmark', 'largePanelFrom');
 
 /** Benchmark S-CVI/Ave (Polit & Beck 2006). */
-export const SCVI_AVE_BENCHMARK = 0.9;
+export const SCVI_AVE_BENCHMARK = ruleThreshold('content.s-cvi-ave-benchmark', 'minimum');
 
 /**
  * Published benchmarks are stated to two decimals; a value meets a benchmark when it reaches it at
@@ -58,9 +59,9 @@ export const BENCHMARK_PRECISION = 0.005;
 /** Slack for comparing two exact ratios computed in floating point (e.g. CVR against its critical value). */
 export const RATIO_TOLERANCE = 1e-12;
 
-const KAPPA_EXCELLENT_ABOVE = 0.74;
-const KAPPA_GOOD_FROM = 0.6;
-const KAPPA_FAIR_FROM = 0.4;
+const KAPPA_EXCELLENT_ABOVE = ruleThreshold('content.modified-kappa-bands', 'excellentAbove');
+const KAPPA_GOOD_FROM = ruleThreshold('content.modified-kappa-bands', 'goodFrom');
+const KAPPA_FAIR_FROM = ruleThreshold('content.modified-kappa-bands', 'fairFrom');
 
 function checkScale(scale: RelevanceScale): void {
   if (!Number.isInteger(scale.min) || !Number.isInteger(scale.max)) {
@@ -94,6 +95,7 @@ function checkRatings(ratings: readonly number[], scale: RelevanceScale, what: s
  * On the usual 1–4 scale that is 3 or 4 (Lynn 1986; Polit & Beck 2006); on 1–5 it is 4 or 5 (the
  * midpoint 3 is not relevant); on 0–3 it is 2 or 3.
  *
+ * Registry: content.relevant-ratings.
  * Cost: O(1). Throws EngineError when the scale bounds are not whole numbers with min below max.
  */
 export function isRelevant(rating: number, scale: RelevanceScale): boolean {
@@ -105,6 +107,7 @@ export function isRelevant(rating: number, scale: RelevanceScale): boolean {
  * Item-level content validity index (Lynn 1986; Polit & Beck 2006): the share of experts rating the
  * item relevant. Example: ratings [4, 3, 4, 2, 4, 3] on 1–4 give 5/6 = .83.
  *
+ * Registry: content.i-cvi.
  * Cost: O(N) for N ratings. Throws EngineError on an empty list or a rating off the scale.
  */
 export function itemCvi(ratings: readonly number[], scale: RelevanceScale): number {
@@ -119,6 +122,7 @@ export function itemCvi(ratings: readonly number[], scale: RelevanceScale): numb
  * Band for a modified kappa (Polit, Beck & Owen 2007): above .74 excellent, .60–.74 good, .40–.59
  * fair, below .40 poor.
  *
+ * Registry: content.modified-kappa-bands.
  * Cost: O(1). Throws EngineError when kappa is not a finite number.
  */
 export function kappaBand(kappa: number): KappaBand {
@@ -134,6 +138,7 @@ export function kappaBand(kappa: number): KappaBand {
  * relevance. Pc = C(N, A)·.5ᴺ and k* = (I-CVI − Pc) / (1 − Pc). Worked example in that paper: N = 6,
  * A = 5 give I-CVI .83, Pc .094, k* .82 (excellent).
  *
+ * Registry: content.modified-kappa.
  * Cost: O(min(A, N − A)) for the binomial coefficient. Throws EngineError when N is not a positive
  * whole number or A is not a whole number from 0 to N.
  */
@@ -160,6 +165,7 @@ export function modifiedKappa(
  * Lawshe's (1975) content validity ratio: CVR = (nₑ − N/2) / (N/2), from −1 (no expert calls the item
  * essential) to 1 (all do). Example: 8 of 10 experts give .60.
  *
+ * Registry: content.cvr.
  * Cost: O(1). Throws EngineError when N is not a positive whole number or nₑ is not from 0 to N.
  */
 export function contentValidityRatio(essential: number, experts: number): number {
@@ -179,6 +185,7 @@ export function contentValidityRatio(essential: number, experts: number): number
  * N = 5, 6, 7 → 1.00; 8 → .750; 9 → .778; 10 → .800; 11 → .636; 12 → .667 at α = .05. Returns null
  * when no nₑ reaches α (at α = .05, panels of fewer than five experts).
  *
+ * Registry: content.cvr-critical, content.cvr-significance.
  * Cost: O(N·√N): at most N/2 binomial tails of O(√N) each. Throws EngineError when N is not a positive whole number
  * or α is not strictly between 0 and 1.
  */
@@ -206,6 +213,7 @@ export function criticalCvr(
  * of categories, so V runs from 0 (every expert gave the lowest rating) to 1 (every expert gave the
  * highest). Example: ratings [4, 4, 3] on 1–4 give (3 + 3 + 2) / (3·3) = .889.
  *
+ * Registry: content.aiken-v.
  * Cost: O(N). Throws EngineError on an empty list or a rating off the scale.
  */
 export function aikenV(ratings: readonly number[], scale: RelevanceScale): number {
@@ -221,6 +229,7 @@ export function aikenV(ratings: readonly number[], scale: RelevanceScale): numbe
  * Scale-level content validity indices (Polit & Beck 2006): S-CVI/Ave, the mean of the item I-CVIs,
  * and S-CVI/UA, the share of items every expert rated relevant (I-CVI = 1).
  *
+ * Registry: content.s-cvi, content.s-cvi-ave-benchmark.
  * Cost: O(k) for k items. Throws EngineError on an empty list or an I-CVI outside 0–1.
  */
 export function scaleCvi(itemCvis: readonly number[]): { average: number; universal: number } {
@@ -240,6 +249,7 @@ export function scaleCvi(itemCvis: readonly number[]): { average: number; univer
  * raters put subject i in category j; every subject needs the same number n ≥ 2 of raters.
  * κ = (P̄ − P̄ₑ) / (1 − P̄ₑ) with Pᵢ = (Σⱼ nᵢⱼ² − n) / (n(n − 1)) and P̄ₑ = Σⱼ pⱼ².
  *
+ * Registry: agreement.fleiss-kappa.
  * Cost: O(S·C) for S subjects and C categories. Throws EngineError with fewer than two subjects,
  * unequal or fewer than two raters per subject, negative counts, or when every rating falls in one
  * category (chance agreement 1 leaves kappa undefined).
@@ -294,6 +304,7 @@ export function fleissKappa(counts: readonly (readonly number[])[]): number {
  * Cohen's (1960) kappa for two raters assigning the same subjects to nominal categories:
  * κ = (pₒ − pₑ) / (1 − pₑ), with pₑ from the two raters' marginal shares.
  *
+ * Registry: agreement.cohen-kappa.
  * Cost: O(S + C²) for S subjects and C categories. Throws EngineError when the lists differ in
  * length, are empty, or both raters use one and the same category throughout (kappa undefined).
  */
@@ -430,6 +441,7 @@ function countWord(n: number, word: string): string {
  * experts who answered) and reported in `missing` and in the warnings. Items keep their first order
  * of appearance.
  *
+ * Registry: content.i-cvi-benchmark and the entries above.
  * Cost: O(R + k·F) for R ratings, k items and F facets. Throws EngineError when there are no
  * ratings, a rating is off the scale, an expert rates an item twice, or no item has a relevance rating.
  */
@@ -683,4 +695,23 @@ function undefinedAsNull(compute: () => number, warnings: string[]): number | nu
     }
     throw e;
   }
+}
+
+/**
+ * The registry ids of the methods and rules one content validity analysis actually used: the CVR
+ * entries only when essential judgements were given, the kappa coefficients only when they were
+ * computed.
+ *
+ * Cost: O(1). Throws nothing.
+ */
+export function contentValidityMethods(report: ContentValidityReport): string[] {
+  const ids = ['content.relevant-ratings', 'content.i-cvi', 'content.i-cvi-benchmark'];
+  ids.push('content.modified-kappa', 'content.modified-kappa-bands', 'content.aiken-v');
+  ids.push('content.s-cvi', 'content.s-cvi-ave-benchmark');
+  if (report.items.some((item) => item.cvr !== null)) {
+    ids.push('content.cvr', 'content.cvr-critical', 'content.cvr-significance');
+  }
+  if (report.facetSorting?.fleissKappa != null) ids.push('agreement.fleiss-kappa');
+  if (report.facetSorting?.cohenKappa != null) ids.push('agreement.cohen-kappa');
+  return ids;
 }

@@ -1,5 +1,6 @@
 import { EngineError } from './errors.ts';
-import { covarianceMatrix, pairwiseCorrelation } from './linalg.ts';
+import { clampCorrelation, columnsFromRows, pairwiseMoments } from './covariance.ts';
+import { covarianceMatrix } from './linalg.ts';
 import { EPSILON, kahanSum, mean, variance } from './numeric.ts';
 import type { ResponseMatrix, ScaleBounds } from './scoring.ts';
 
@@ -214,7 +215,8 @@ export function itemMoments(names: string[], data: ResponseMatrix, method: Missi
   const sds = columns.map((values) => Math.sqrt(variance(values)));
   const varies = sds.map((s) => s > ZERO_VARIANCE);
   const varying = names.map((_, c) => c).filter((c) => varies[c]);
-  const pairN = pairCounts(rows, k);
+  const moments = pairwiseMoments(columnsFromRows(rows, 'item analysis'));
+  const pairN = moments.n;
   let minPairN = k > 1 ? Number.POSITIVE_INFINITY : n;
   for (let i = 0; i < k; i++) {
     for (let j = i + 1; j < k; j++) {
@@ -228,14 +230,22 @@ export function itemMoments(names: string[], data: ResponseMatrix, method: Missi
       minPairN = Math.min(minPairN, pairN[i][j]);
     }
   }
-  const sub = varying.length > 1 ? pairwiseCorrelationByName(names, rows, varying) : [];
   const correlation: (number | null)[][] = names.map(() => names.map(() => null));
-  varying.forEach((ci, a) => {
-    varying.forEach((cj, b) => {
-      correlation[ci][cj] = a === b ? 1 : clampCorrelation(sub[a][b]);
-    });
-    if (varying.length === 1) correlation[ci][ci] = 1;
-  });
+  for (const i of varying) {
+    for (const j of varying) {
+      const r = i === j ? 1 : moments.correlation[i][j];
+      if (Number.isNaN(r)) {
+        const flat = moments.constantOn[i][j] ? i : j;
+        const other = flat === i ? j : i;
+        throw new EngineError(
+          `items "${names[flat]}" and "${names[other]}" have no correlation under pairwise deletion: ` +
+            `"${names[flat]}" does not vary among the ${pairN[i][j]} respondents who answered both`,
+          'no-variance',
+        );
+      }
+      correlation[i][j] = r;
+    }
+  }
   const covariance = names.map((_, i) =>
     names.map((_, j) => {
       if (i === j) return sds[i] * sds[i];
@@ -262,7 +272,7 @@ export function itemMoments(names: string[], data: ResponseMatrix, method: Missi
  * Corrected item-total correlation: r between each item and the sum of the other items, from the
  * covariance matrix: (Σⱼ≠ᵢ cᵢⱼ) / √(cᵢᵢ · Σⱼ,ₗ≠ᵢ cⱼₗ). `null` when the item or the rest does not vary.
  *
- * Source: standard item analysis (METHODS.md "Scoring and item statistics"). Cost: O(k²).
+ * Source: items.corrected-item-total (the method registry). Cost: O(k²).
  * Throws nothing.
  */
 export function correctedItemTotal(cov: readonly (readonly number[])[]): (number | null)[] {
@@ -275,59 +285,4 @@ export function correctedItemTotal(cov: readonly (readonly number[])[]): (number
     const r = (rowSums[i] - itemVar) / Math.sqrt(itemVar * restVar);
     return clampCorrelation(r);
   });
-}
-
-/**
- * Respondents answering both items of each pair. One presence byte per cell, stored column by column so
- * the inner loop over respondents reads two contiguous runs. O(n·k²).
- */
-function pairCounts(rows: ResponseMatrix, k: number): number[][] {
-  const n = rows.length;
-  const present = new Uint8Array(n * k);
-  for (let r = 0; r < n; r++) {
-    const row = rows[r];
-    for (let c = 0; c < k; c++) present[c * n + r] = row[c] === null ? 0 : 1;
-  }
-  const counts = Array.from({ length: k }, () => new Array<number>(k).fill(0));
-  for (let i = 0; i < k; i++) {
-    for (let j = i; j < k; j++) {
-      let count = 0;
-      const a = i * n;
-      const b = j * n;
-      for (let r = 0; r < n; r++) count += present[a + r] & present[b + r];
-      counts[i][j] = count;
-      counts[j][i] = count;
-    }
-  }
-  return counts;
-}
-
-/**
- * Pairwise correlations of the listed columns; when a pair has no variation on its shared respondents,
- * the error names the two items instead of column indices.
- */
-function pairwiseCorrelationByName(names: string[], rows: ResponseMatrix, columns: number[]): number[][] {
-  try {
-    return pairwiseCorrelation(rows.map((row) => columns.map((c) => row[c]))).r;
-  } catch (error) {
-    if (!(error instanceof EngineError) || error.code !== 'zero-variance') throw error;
-    for (const i of columns) {
-      for (const j of columns) {
-        if (i === j) continue;
-        const shared = rows.filter((row) => row[i] !== null && row[j] !== null).map((row) => row[i]);
-        if (shared.every((x) => x === shared[0])) {
-          throw new EngineError(
-            `items "${names[i]}" and "${names[j]}" have no correlation under pairwise deletion: ` +
-              `"${names[i]}" does not vary among the ${shared.length} respondents who answered both`,
-            'no-variance',
-          );
-        }
-      }
-    }
-    throw error;
-  }
-}
-
-function clampCorrelation(r: number): number {
-  return Math.max(-1, Math.min(1, r));
 }

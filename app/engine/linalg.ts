@@ -1,6 +1,18 @@
-import { EigenvalueDecomposition, Matrix, SingularValueDecomposition } from 'ml-matrix';
+import {
+  CholeskyDecomposition,
+  EigenvalueDecomposition,
+  LuDecomposition,
+  Matrix,
+  SingularValueDecomposition,
+} from 'ml-matrix';
 import { EngineError } from './errors.ts';
-import { kahanSum, mean, PD_PIVOT_TOL, SINGULAR_RCOND, SYMMETRY_TOL } from './numeric.ts';
+import {
+  columnsFromRows,
+  correlationFromCovariance,
+  listwiseCovariance,
+  pairwiseMoments,
+} from './covariance.ts';
+import { kahanSum, PD_PIVOT_TOL, SINGULAR_RCOND, SYMMETRY_TOL } from './numeric.ts';
 
 /** Default floor for eigenvalues when smoothing an indefinite correlation matrix. */
 export const SMOOTHING_MIN_EIGEN = 1e-6;
@@ -96,98 +108,133 @@ function oneNorm(a: ArrayLike<ArrayLike<number>>, n: number): number {
 }
 
 /**
- * Matrix inverse by LU decomposition with partial pivoting (Golub & Van Loan 2013, Matrix
- * Computations, 4th ed., §3.4), solving A·X = I column by column.
- *
- * A matrix is declared singular when a pivot is zero or its reciprocal 1-norm condition number
- * 1/(‖A‖₁‖A⁻¹‖₁) is below SINGULAR_RCOND, i.e. when the inverse would carry almost no correct digits.
- *
- * Cost: O(n³). Throws EngineError "matrix is singular" and on non-square or non-finite input.
- *
- * @example inverse([[4, 7], [2, 6]]) // [[0.6, -0.7], [-0.2, 0.4]]
+ * LU factors with partial pivoting (ml-matrix's LuDecomposition, the Doolittle/Crout form of Golub &
+ * Van Loan 2013, §3.4), checked: an exactly zero pivot, or a reciprocal 1-norm condition number
+ * 1/(‖A‖₁‖A⁻¹‖₁) below SINGULAR_RCOND (an answer with almost no correct digits), is "matrix is singular".
+ * Returns the decomposition and A⁻¹ (needed for the condition number anyway).
  */
-export function inverse(a: number[][]): number[][] {
-  const n = checkSquare(a, 'inverse');
-  const lu = a.map((row) => Float64Array.from(row));
-  const perm = Array.from({ length: n }, (_, i) => i);
-  for (let k = 0; k < n; k++) {
-    let p = k;
-    for (let i = k + 1; i < n; i++) if (Math.abs(lu[i][k]) > Math.abs(lu[p][k])) p = i;
-    if (lu[p][k] === 0) throw new EngineError('matrix is singular (a pivot is exactly zero)', 'singular');
-    if (p !== k) {
-      [lu[p], lu[k]] = [lu[k], lu[p]];
-      [perm[p], perm[k]] = [perm[k], perm[p]];
-    }
-    const pivotRow = lu[k];
-    const pivot = pivotRow[k];
-    for (let i = k + 1; i < n; i++) {
-      const row = lu[i];
-      const factor = row[k] / pivot;
-      row[k] = factor;
-      if (factor !== 0) for (let j = k + 1; j < n; j++) row[j] -= factor * pivotRow[j];
-    }
-  }
-  const inv: number[][] = Array.from({ length: n }, () => new Array<number>(n).fill(0));
-  const col = new Float64Array(n);
-  for (let c = 0; c < n; c++) {
-    for (let i = 0; i < n; i++) col[i] = perm[i] === c ? 1 : 0;
-    for (let i = 0; i < n; i++) {
-      let s = col[i];
-      const row = lu[i];
-      for (let j = 0; j < i; j++) s -= row[j] * col[j];
-      col[i] = s;
-    }
-    for (let i = n - 1; i >= 0; i--) {
-      let s = col[i];
-      const row = lu[i];
-      for (let j = i + 1; j < n; j++) s -= row[j] * col[j];
-      col[i] = s / row[i];
-    }
-    for (let i = 0; i < n; i++) inv[i][c] = col[i];
-  }
-  const rcond = 1 / (oneNorm(a, n) * oneNorm(inv, n));
+function checkedLu(a: number[][], fn: string): { lu: LuDecomposition; inv: Matrix } {
+  const n = checkSquare(a, fn);
+  const lu = new LuDecomposition(new Matrix(a));
+  if (lu.isSingular()) throw new EngineError('matrix is singular (a pivot is exactly zero)', 'singular');
+  const inv = lu.solve(Matrix.eye(n));
+  const rcond = 1 / (oneNorm(a, n) * oneNorm(inv.to2DArray(), n));
   if (!(rcond >= SINGULAR_RCOND)) {
     throw new EngineError(
       `matrix is singular (reciprocal condition number ${rcond.toExponential(2)})`,
       'singular',
     );
   }
-  return inv;
+  return { lu, inv };
 }
 
 /**
- * Cholesky factor L (lower triangular, A = L·Lᵀ) by the Cholesky–Banachiewicz recurrence (Golub &
- * Van Loan 2013, §4.2). A pivot at or below PD_PIVOT_TOL times its diagonal entry counts as failure.
+ * Matrix inverse from the checked LU factors (see `solve` for the singularity rule), A·X = I solved
+ * column by column. Prefer `solve` or `choleskySolve` when the inverse is only applied to vectors.
  *
- * Cost: O(n³/3). Throws EngineError "matrix is not positive definite", "matrix is not symmetric", and
- * on non-square or non-finite input.
+ * Source: linalg.lu (the method registry). Cost: O(n³). Throws EngineError "matrix is singular" and on
+ * non-square or non-finite input.
  *
- * @example cholesky([[4, 2], [2, 3]]) // [[2, 0], [1, 1.4142135623730951]]
+ * @example inverse([[4, 7], [2, 6]]) // [[0.6, -0.7], [-0.2, 0.4]]
  */
-export function cholesky(a: number[][]): number[][] {
-  const n = checkSymmetric(a, 'Cholesky factorisation');
-  const factor = choleskyOrNull(a, n);
+export function inverse(a: number[][]): number[][] {
+  return checkedLu(a, 'inverse').inv.to2DArray();
+}
+
+function checkRightHandSide(b: number[] | number[][], rows: number, fn: string): Matrix {
+  const matrix = Array.isArray(b[0]) ? (b as number[][]) : (b as number[]).map((x) => [x]);
+  const shape = checkRectangular(matrix, fn);
+  if (shape.rows !== rows) {
+    throw new EngineError(`${fn} requires a right-hand side with ${rows} rows, got ${shape.rows}`, 'shape');
+  }
+  return new Matrix(matrix);
+}
+
+/**
+ * Solves A·x = b (b a vector) or A·X = B (B a matrix, column by column) by LU with partial pivoting.
+ * A is declared singular when a pivot is exactly zero or its reciprocal 1-norm condition number is
+ * below SINGULAR_RCOND, i.e. when the answer would carry almost no correct digits.
+ *
+ * Source: linalg.lu (the method registry). Cost: O(n³ + n²·m). Throws EngineError "matrix is
+ * singular", and on non-square, mismatched or non-finite input.
+ *
+ * @example solve([[2, 0], [0, 4]], [2, 2]) // [1, 0.5]
+ */
+export function solve(a: number[][], b: number[]): number[];
+export function solve(a: number[][], b: number[][]): number[][];
+export function solve(a: number[][], b: number[] | number[][]): number[] | number[][] {
+  const n = checkSquare(a, 'solve');
+  const rhs = checkRightHandSide(b, n, 'solve');
+  const { lu } = checkedLu(a, 'solve');
+  const x = lu.solve(rhs);
+  return Array.isArray(b[0]) ? x.to2DArray() : x.getColumn(0);
+}
+
+/**
+ * Cholesky factor of a symmetric matrix from ml-matrix's CholeskyDecomposition (the Cholesky–
+ * Banachiewicz recurrence, Golub & Van Loan 2013, §4.2), checked: a pivot at or below PD_PIVOT_TOL
+ * times its diagonal entry is failure (null).
+ */
+function choleskyOrNull(a: number[][]): CholeskyDecomposition | null {
+  // The lower triangle, mirrored: ml-matrix refuses a matrix that is not exactly symmetric, and ours
+  // may differ from its transpose by rounding (within SYMMETRY_TOL).
+  const n = a.length;
+  const lower = new Matrix(n, n);
+  for (let i = 0; i < n; i++) {
+    for (let j = 0; j <= i; j++) {
+      lower.set(i, j, a[i][j]);
+      lower.set(j, i, a[i][j]);
+    }
+  }
+  const decomposition = new CholeskyDecomposition(lower);
+  if (!decomposition.isPositiveDefinite()) return null;
+  const l = decomposition.lowerTriangularMatrix;
+  for (let i = 0; i < a.length; i++) {
+    const pivot = l.get(i, i);
+    if (!(pivot * pivot > PD_PIVOT_TOL * a[i][i])) return null;
+  }
+  return decomposition;
+}
+
+function checkedCholesky(a: number[][], fn: string): CholeskyDecomposition {
+  checkSymmetric(a, fn);
+  const factor = choleskyOrNull(a);
   if (factor === null) throw new EngineError('matrix is not positive definite', 'not-positive-definite');
   return factor;
 }
 
-function choleskyOrNull(a: number[][], n: number): number[][] | null {
-  const l: number[][] = Array.from({ length: n }, () => new Array<number>(n).fill(0));
-  for (let i = 0; i < n; i++) {
-    const li = l[i];
-    for (let j = 0; j <= i; j++) {
-      const lj = l[j];
-      let s = a[i][j];
-      for (let k = 0; k < j; k++) s -= li[k] * lj[k];
-      if (i === j) {
-        if (!(s > PD_PIVOT_TOL * a[i][i])) return null;
-        li[i] = Math.sqrt(s);
-      } else {
-        li[j] = s / lj[j];
-      }
-    }
-  }
-  return l;
+/**
+ * Cholesky factor L (lower triangular, A = L·Lᵀ). A pivot at or below PD_PIVOT_TOL times its diagonal
+ * entry counts as failure.
+ *
+ * Source: linalg.cholesky (the method registry). Cost: O(n³/3). Throws EngineError "matrix is not
+ * positive definite", "matrix is not symmetric", and on non-square or non-finite input.
+ *
+ * @example cholesky([[4, 2], [2, 3]]) // [[2, 0], [1, 1.4142135623730951]]
+ */
+export function cholesky(a: number[][]): number[][] {
+  return checkedCholesky(a, 'Cholesky factorisation').lowerTriangularMatrix.to2DArray();
+}
+
+/**
+ * Solves A·x = b (or A·X = B) for a symmetric positive-definite A by its Cholesky factor: L·y = b
+ * forward, then Lᵀ·x = y backward. Half the work of LU and no pivoting; the way to apply S⁻¹ to a
+ * vector (Mahalanobis distances, generalized least squares) without forming S⁻¹.
+ *
+ * Source: linalg.cholesky (the method registry). Cost: O(n³/3 + n²·m). Throws EngineError "matrix is
+ * not positive definite", "matrix is not symmetric", and on non-square, mismatched or non-finite
+ * input.
+ *
+ * @example choleskySolve([[4, 2], [2, 3]], [2, 1]) // [0.5, 0]
+ */
+export function choleskySolve(a: number[][], b: number[]): number[];
+export function choleskySolve(a: number[][], b: number[][]): number[][];
+export function choleskySolve(a: number[][], b: number[] | number[][]): number[] | number[][] {
+  const fn = 'Cholesky solve';
+  const n = checkSymmetric(a, fn);
+  const rhs = checkRightHandSide(b, n, fn);
+  const x = checkedCholesky(a, fn).solve(rhs);
+  return Array.isArray(b[0]) ? x.to2DArray() : x.getColumn(0);
 }
 
 /**
@@ -199,8 +246,8 @@ function choleskyOrNull(a: number[][], n: number): number[][] | null {
  * @example logDeterminant([[2, 0], [0, 3]]) // ln 6
  */
 export function logDeterminant(a: number[][]): number {
-  const l = cholesky(a);
-  return 2 * kahanSum(l.map((row, i) => Math.log(row[i])));
+  const l = checkedCholesky(a, 'log-determinant').lowerTriangularMatrix;
+  return 2 * kahanSum(a.map((_, i) => Math.log(l.get(i, i))));
 }
 
 /**
@@ -213,9 +260,9 @@ export function logDeterminant(a: number[][]): number {
  * @example isPositiveDefinite([[1, 0.5], [0.5, 1]]) // true
  */
 export function isPositiveDefinite(a: number[][]): boolean {
-  const n = checkSquare(a, 'positive-definiteness check');
+  checkSquare(a, 'positive-definiteness check');
   if (!isSymmetric(a)) return false;
-  return choleskyOrNull(a, n) !== null;
+  return choleskyOrNull(a) !== null;
 }
 
 /**
@@ -243,23 +290,16 @@ export function conditionNumber(a: number[][]): number {
   return smallest === 0 ? Number.POSITIVE_INFINITY : largest / smallest;
 }
 
-function checkData(data: number[][], fn: string): { rows: number; cols: number } {
+function checkData(data: number[][], fn: string): Float64Array[] {
   if (!Array.isArray(data) || data.length < 2) {
     throw new EngineError(
       `${fn} requires at least two rows (cases), got ${Array.isArray(data) ? data.length : 0}`,
     );
   }
-  const cols = Array.isArray(data[0]) ? data[0].length : 0;
-  if (cols === 0) throw new EngineError(`${fn} requires at least one column (variable)`, 'shape');
   for (let i = 0; i < data.length; i++) {
     const row = data[i];
-    if (!Array.isArray(row) || row.length !== cols) {
-      throw new EngineError(
-        `${fn} requires every row to have ${cols} values; row index ${i} has ${Array.isArray(row) ? row.length : 0}`,
-        'shape',
-      );
-    }
-    for (let j = 0; j < cols; j++) {
+    if (!Array.isArray(row)) continue;
+    for (let j = 0; j < row.length; j++) {
       if (!Number.isFinite(row[j])) {
         throw new EngineError(
           `${fn} requires finite numbers; row index ${i}, column index ${j} is ${row[j]}`,
@@ -268,24 +308,7 @@ function checkData(data: number[][], fn: string): { rows: number; cols: number }
       }
     }
   }
-  return { rows: data.length, cols };
-}
-
-function centeredColumns(data: number[][], rows: number, cols: number): Float64Array[] {
-  const out: Float64Array[] = [];
-  for (let j = 0; j < cols; j++) {
-    const column = new Float64Array(rows);
-    for (let i = 0; i < rows; i++) column[i] = data[i][j];
-    const m = mean(column);
-    for (let i = 0; i < rows; i++) column[i] -= m;
-    out.push(column);
-  }
-  return out;
-}
-
-function centeredCrossProduct(x: Float64Array, y: Float64Array, scratch: Float64Array): number {
-  for (let i = 0; i < x.length; i++) scratch[i] = x[i] * y[i];
-  return kahanSum(scratch.subarray(0, x.length));
+  return columnsFromRows(data, fn);
 }
 
 /**
@@ -297,20 +320,17 @@ function centeredCrossProduct(x: Float64Array, y: Float64Array, scratch: Float64
  * @example constantColumns([[1, 2], [1, 3]]) // [0]
  */
 export function constantColumns(data: number[][]): number[] {
-  const { rows, cols } = checkData(data, 'constant-column check');
+  const columns = checkData(data, 'constant-column check');
   const out: number[] = [];
-  for (let j = 0; j < cols; j++) {
-    let constant = true;
-    for (let i = 1; i < rows && constant; i++) constant = data[i][j] === data[0][j];
-    if (constant) out.push(j);
-  }
+  columns.forEach((column, j) => {
+    if (column.every((v) => v === column[0])) out.push(j);
+  });
   return out;
 }
 
 /**
- * Sample covariance matrix with divisor n − 1 (rows are cases, columns are variables), by centring
- * each column on its (refined, compensated) mean and summing cross-products with compensated
- * summation — the two-pass algorithm, which avoids the cancellation of Σxy − n·x̄ȳ.
+ * Sample covariance matrix with divisor n − 1 of complete data (rows are cases, columns are
+ * variables): listwiseCovariance on the columns (two-pass, compensated).
  *
  * Cost: O(n·p²). Throws EngineError with fewer than two rows, on ragged rows or non-finite values
  * (naming row and column index).
@@ -318,163 +338,80 @@ export function constantColumns(data: number[][]): number[] {
  * @example covarianceMatrix([[1, 2], [2, 4], [3, 6]]) // [[1, 2], [2, 4]]
  */
 export function covarianceMatrix(data: number[][]): number[][] {
-  const { rows, cols } = checkData(data, 'covariance matrix');
-  const centered = centeredColumns(data, rows, cols);
-  const scratch = new Float64Array(rows);
-  const out: number[][] = Array.from({ length: cols }, () => new Array<number>(cols).fill(0));
-  for (let j = 0; j < cols; j++) {
-    for (let k = 0; k <= j; k++) {
-      const c = centeredCrossProduct(centered[j], centered[k], scratch) / (rows - 1);
-      out[j][k] = c;
-      out[k][j] = c;
-    }
-  }
-  return out;
-}
-
-function clampCorrelation(r: number): number {
-  return Math.max(-1, Math.min(1, r));
+  return listwiseCovariance(checkData(data, 'covariance matrix')).covariance;
 }
 
 /**
- * Pearson (1896) product-moment correlation matrix of complete data (rows are cases, columns are
+ * Pearson product-moment correlation matrix of complete data (rows are cases, columns are
  * variables), from the two-pass covariance matrix; the diagonal is exactly 1 and entries are clamped
  * to [−1, 1] against rounding.
  *
- * Cost: O(n·p²). Throws EngineError naming the column index of a column with zero variance, and on the
- * inputs covarianceMatrix rejects.
+ * Source: corr.pearson (the method registry). Cost: O(n·p²). Throws EngineError naming the column
+ * index of a column with zero variance, and on the inputs covarianceMatrix rejects.
  *
  * @example correlationMatrix([[1, 2], [2, 1], [3, 3]]) // [[1, 0.5], [0.5, 1]]
  */
 export function correlationMatrix(data: number[][]): number[][] {
   const fn = 'correlation matrix';
-  const { rows, cols } = checkData(data, fn);
-  const constant = constantColumns(data);
-  if (constant.length > 0) {
+  const columns = checkData(data, fn);
+  const constant = columns.findIndex((column) => column.every((v) => v === column[0]));
+  if (constant >= 0) {
     throw new EngineError(
-      `${fn} requires variation in every column; column index ${constant[0]} has the same value in every row`,
+      `${fn} requires variation in every column; column index ${constant} has the same value in every row`,
       'zero-variance',
     );
   }
-  const centered = centeredColumns(data, rows, cols);
-  const scratch = new Float64Array(rows);
-  const ss = centered.map((c) => centeredCrossProduct(c, c, scratch));
-  const out: number[][] = Array.from({ length: cols }, () => new Array<number>(cols).fill(0));
-  for (let j = 0; j < cols; j++) {
-    out[j][j] = 1;
-    for (let k = 0; k < j; k++) {
-      const r = clampCorrelation(
-        centeredCrossProduct(centered[j], centered[k], scratch) / Math.sqrt(ss[j] * ss[k]),
-      );
-      out[j][k] = r;
-      out[k][j] = r;
-    }
-  }
-  return out;
+  return correlationFromCovariance(listwiseCovariance(columns).covariance) as number[][];
 }
 
 /**
- * Pearson correlations from pairwise-complete cases: each r[j][k] uses the rows where both columns
- * hold a value (null means missing), with means taken over those same rows; n[j][k] counts them and
- * n[j][j] counts the values present in column j. The matrix need not be positive definite — see
- * smoothToPositiveDefinite.
+ * Pearson correlations from pairwise-complete cases (pairwiseMoments): each r[j][k] uses the rows
+ * where both columns hold a value (null means missing), with means taken over those same rows;
+ * n[j][k] counts them and n[j][j] counts the values present in column j. The matrix need not be
+ * positive definite — see smoothToPositiveDefinite.
  *
- * Cost: O(n·p²). Throws EngineError naming the column indices when a column has fewer than two values
- * or no variance, when a pair shares fewer than two cases or one column is constant on the shared
- * cases, and naming row and column index for a non-finite value.
+ * Source: corr.pearson, missing.deletion (the method registry). Cost: O(n·p²). Throws EngineError
+ * naming the column indices when a column has fewer than two values or no variance, when a pair shares
+ * fewer than two cases or one column is constant on the shared cases, and naming row and column index
+ * for a non-finite value.
  *
  * @example pairwiseCorrelation([[1, 2], [2, null], [3, 3], [4, 5]]).n // [[4, 3], [3, 3]]
  */
 export function pairwiseCorrelation(data: (number | null)[][]): { r: number[][]; n: number[][] } {
   const fn = 'pairwise correlation';
-  if (!Array.isArray(data) || data.length === 0)
-    throw new EngineError(`${fn} requires at least one row`, 'shape');
-  const cols = Array.isArray(data[0]) ? data[0].length : 0;
-  if (cols === 0) throw new EngineError(`${fn} requires at least one column`, 'shape');
-  const rows = data.length;
-  const present: Uint8Array[] = Array.from({ length: cols }, () => new Uint8Array(rows));
-  const values: Float64Array[] = Array.from({ length: cols }, () => new Float64Array(rows));
-  for (let i = 0; i < rows; i++) {
-    const row = data[i];
-    if (!Array.isArray(row) || row.length !== cols) {
-      throw new EngineError(
-        `${fn} requires every row to have ${cols} values; row index ${i} has ${Array.isArray(row) ? row.length : 0}`,
-        'shape',
-      );
-    }
-    for (let j = 0; j < cols; j++) {
-      const v = row[j];
-      if (v === null || v === undefined) continue;
-      if (!Number.isFinite(v)) {
-        throw new EngineError(
-          `${fn} requires finite numbers or null; row index ${i}, column index ${j} is ${v}`,
-        );
-      }
-      present[j][i] = 1;
-      values[j][i] = v;
-    }
-  }
-  const r: number[][] = Array.from({ length: cols }, () => new Array<number>(cols).fill(0));
-  const n: number[][] = Array.from({ length: cols }, () => new Array<number>(cols).fill(0));
+  const moments = pairwiseMoments(columnsFromRows(data, fn));
+  const { n, correlation, constantOn } = moments;
+  const cols = n.length;
   for (let j = 0; j < cols; j++) {
-    const idx = indicesWhere(present[j], present[j]);
-    const observed = Array.from(idx, (i) => values[j][i]);
-    if (observed.length < 2) {
-      throw new EngineError(
-        `${fn} requires at least two values in column index ${j}, found ${observed.length}`,
-      );
+    if (n[j][j] < 2) {
+      throw new EngineError(`${fn} requires at least two values in column index ${j}, found ${n[j][j]}`);
     }
-    if (observed.every((v) => v === observed[0])) {
+    if (constantOn[j][j]) {
       throw new EngineError(
         `${fn} requires variation in every column; column index ${j} is constant`,
         'zero-variance',
       );
     }
-    r[j][j] = 1;
-    n[j][j] = observed.length;
   }
   for (let j = 0; j < cols; j++) {
     for (let k = 0; k < j; k++) {
-      const idx = indicesWhere(present[j], present[k]);
-      const count = idx.length;
+      const count = n[j][k];
       if (count < 2) {
         throw new EngineError(
           `${fn} requires at least two cases with both column index ${k} and column index ${j} present, found ${count}`,
         );
       }
-      const x = Float64Array.from(idx, (i) => values[j][i]);
-      const y = Float64Array.from(idx, (i) => values[k][i]);
-      const mx = mean(x);
-      const my = mean(y);
-      for (let i = 0; i < count; i++) {
-        x[i] -= mx;
-        y[i] -= my;
-      }
-      const scratch = new Float64Array(count);
-      const sxx = centeredCrossProduct(x, x, scratch);
-      const syy = centeredCrossProduct(y, y, scratch);
-      if (sxx === 0 || syy === 0) {
-        const flat = sxx === 0 ? j : k;
-        const other = sxx === 0 ? k : j;
+      if (Number.isNaN(correlation[j][k])) {
+        const flat = constantOn[j][k] ? j : k;
+        const other = flat === j ? k : j;
         throw new EngineError(
           `${fn} requires variation on shared cases; column index ${flat} is constant on the ${count} cases where column index ${other} is present`,
           'zero-variance',
         );
       }
-      const value = clampCorrelation(centeredCrossProduct(x, y, scratch) / Math.sqrt(sxx * syy));
-      r[j][k] = value;
-      r[k][j] = value;
-      n[j][k] = count;
-      n[k][j] = count;
     }
   }
-  return { r, n };
-}
-
-function indicesWhere(a: Uint8Array, b: Uint8Array): number[] {
-  const out: number[] = [];
-  for (let i = 0; i < a.length; i++) if (a[i] === 1 && b[i] === 1) out.push(i);
-  return out;
+  return { r: correlation, n };
 }
 
 /**
@@ -537,8 +474,7 @@ export function smoothToPositiveDefinite(
 }
 
 /**
- * Matrix product A·B. The loops run i–k–j so the inner loop walks rows of B and of the result
- * contiguously (row-major arrays), which is several times faster than the textbook i–j–k order.
+ * Matrix product A·B (ml-matrix's mmul).
  *
  * Cost: O(n·m·p). Throws EngineError when the inner dimensions differ, or on ragged or non-finite input.
  *
@@ -553,18 +489,7 @@ export function matMul(a: number[][], b: number[][]): number[][] {
       'shape',
     );
   }
-  const out: number[][] = Array.from({ length: sa.rows }, () => new Array<number>(sb.cols).fill(0));
-  for (let i = 0; i < sa.rows; i++) {
-    const ai = a[i];
-    const oi = out[i];
-    for (let k = 0; k < sa.cols; k++) {
-      const aik = ai[k];
-      if (aik === 0) continue;
-      const bk = b[k];
-      for (let j = 0; j < sb.cols; j++) oi[j] += aik * bk[j];
-    }
-  }
-  return out;
+  return new Matrix(a).mmul(new Matrix(b)).to2DArray();
 }
 
 /**
@@ -575,8 +500,6 @@ export function matMul(a: number[][], b: number[][]): number[][] {
  * @example transpose([[1, 2, 3]]) // [[1], [2], [3]]
  */
 export function transpose(a: number[][]): number[][] {
-  const { rows, cols } = checkRectangular(a, 'transpose');
-  const out: number[][] = Array.from({ length: cols }, () => new Array<number>(rows).fill(0));
-  for (let i = 0; i < rows; i++) for (let j = 0; j < cols; j++) out[j][i] = a[i][j];
-  return out;
+  checkRectangular(a, 'transpose');
+  return new Matrix(a).transpose().to2DArray();
 }

@@ -15,15 +15,16 @@ import { type MeasurementError, measurementError } from './reliability/sem.ts';
 import { oddEvenSplitHalf, type SplitHalf } from './reliability/split-half.ts';
 import { checkBounds, type ResponseMatrix, type ScaleBounds } from './scoring.ts';
 import { ENGINE_VERSION } from './version.ts';
+import { ruleThreshold } from './methods/index.ts';
 
 /** Confidence level used when none is given. */
 export const DEFAULT_CI_LEVEL = 0.95;
 
 /**
- * Below this many analysed respondents a warning says the estimates are unstable. A rule of thumb
- * (common practice), not a published cut-off.
+ * Below this many analysed respondents a warning says the estimates are unstable: the registry's
+ * rule reliability.few-respondents (common practice, not a published cut-off).
  */
-export const FEW_RESPONDENTS = 30;
+export const FEW_RESPONDENTS = ruleThreshold('reliability.few-respondents', 'minimum');
 
 /** The seeded bootstrap of one round, with the hooks a worker uses to report progress and cancel. */
 export interface BootstrapRequest {
@@ -337,27 +338,30 @@ export function analyseItems(input: ItemAnalysisInput): ItemAnalysis {
   return result;
 }
 
-/** Item analysis of a whole scale and of each of its facets. */
-export interface ScaleAnalysis {
+/** Item analysis of a whole scale and of each of its facets (facets in the order given). */
+export interface ScaleAnalysis<K = string> {
   scale: ItemAnalysis;
-  facets: { facet: string; analysis: ItemAnalysis }[];
+  facets: { facet: K; analysis: ItemAnalysis }[];
 }
 
 /**
- * Runs `analyseItems` on the whole scale and on each facet's items (same options, same bootstrap seed
- * for each), so facet and scale reliabilities come from one call.
+ * Runs `analyseItems` on the whole scale and on each facet's items with the same options and the same
+ * bootstrap seed, so that facet and scale reliabilities come from one call. Under listwise deletion
+ * every facet uses the scale's complete cases (a respondent who skipped an item of another facet is
+ * left out of this facet too), so every alpha of one run rests on the same respondents; under pairwise
+ * deletion each facet uses every answer it has. Bootstrap progress is counted over all the bootstraps
+ * together (scale first, then the facets).
  *
  * Cost: that of analyseItems, once per facet plus once for the scale.
  * Throws EngineError when a facet names an item that is not in `names`, or a facet has fewer than two
- * items, and whatever analyseItems throws.
+ * items, and whatever analyseItems throws (`cancelled` when `bootstrap.shouldStop` says so).
  */
-export function analyseScaleAndFacets(
-  input: ItemAnalysisInput & { facets: Record<string, string[]> },
-): ScaleAnalysis {
+export function analyseScaleAndFacets<K extends string | number = string>(
+  input: ItemAnalysisInput & { facets: readonly { facet: K; items: readonly string[] }[] },
+): ScaleAnalysis<K> {
   const { facets, ...scaleInput } = input;
-  const scale = analyseItems(scaleInput);
-  const results = Object.entries(facets).map(([facet, members]) => {
-    const columns = members.map((name) => {
+  const plan = facets.map(({ facet, items }) => {
+    const columns = items.map((name) => {
       const index = input.names.indexOf(name);
       if (index < 0)
         throw new EngineError(`facet "${facet}" names item "${name}", which is not among the items`);
@@ -366,12 +370,56 @@ export function analyseScaleAndFacets(
     if (columns.length < 2) {
       throw new EngineError(`facet "${facet}": alpha requires at least two items`, 'too-few-items');
     }
-    const analysis = analyseItems({
-      ...scaleInput,
-      names: members,
-      data: input.data.map((row) => columns.map((c) => row[c])),
-    });
-    return { facet, analysis };
+    return { facet, names: [...items], columns };
   });
-  return { scale, facets: results };
+  const each = input.bootstrap?.resamples ?? 0;
+  const total = each * (plan.length + 1);
+  let offset = 0;
+  const analyse = (names: string[], data: ResponseMatrix): ItemAnalysis => {
+    const start = offset;
+    offset += each;
+    const bootstrap = input.bootstrap;
+    return analyseItems({
+      ...scaleInput,
+      names,
+      data,
+      bootstrap: bootstrap && {
+        ...bootstrap,
+        onProgress: bootstrap.onProgress && ((done: number) => bootstrap.onProgress?.(start + done, total)),
+      },
+    });
+  };
+  const scale = analyse(input.names, input.data);
+  const rows =
+    input.missing === 'listwise' ? input.data.filter((row) => row.every((x) => x !== null)) : input.data;
+  return {
+    scale,
+    facets: plan.map(({ facet, names, columns }) => ({
+      facet,
+      analysis: analyse(
+        names,
+        rows.map((row) => columns.map((c) => row[c])),
+      ),
+    })),
+  };
+}
+
+/**
+ * The registry ids of the methods and rules one item analysis actually used, in reporting order:
+ * what a report's `methods` list and reference list cite. A part that was not computed (omega with
+ * fewer than three varying items, no bootstrap asked for) is not listed.
+ *
+ * Cost: O(1). Throws nothing.
+ */
+export function itemAnalysisMethods(a: ItemAnalysis): string[] {
+  const ids = ['scoring.reverse-keying', 'missing.deletion', 'items.descriptives', 'corr.pearson'];
+  ids.push('items.corrected-item-total', 'alpha.cronbach', 'alpha.if-item-deleted');
+  if (a.alphaStandardized) ids.push('alpha.standardized');
+  ids.push('alpha.feldt-ci');
+  if (a.bootstrapCI) ids.push('alpha.bootstrap-ci');
+  if (a.omegaTotal) ids.push('omega.total', 'omega.one-factor-fit');
+  if (a.splitHalf) ids.push('split-half.spearman-brown');
+  if (a.measurementError) ids.push('sem.classical', 'sem.mdc95');
+  if (a.n < FEW_RESPONDENTS) ids.push('reliability.few-respondents');
+  return ids;
 }

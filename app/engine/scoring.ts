@@ -31,7 +31,8 @@ export function checkBounds(bounds: ScaleBounds): void {
  * never the observed ones (so a sample that happens not to use the top category is still reversed
  * correctly). Returns a new matrix; the input is not changed. Missing answers stay missing.
  *
- * Source: standard scoring practice for reverse-keyed items (METHODS.md, "Scoring and item statistics").
+ * Source: scoring.reverse-keying (the method registry; common practice): the declared bounds, never the
+ * observed ones.
  * Cost: O(n·k) for n respondents and k items.
  * Throws EngineError when a name in `reverse` is not among `names`, when the bounds are invalid, or
  * when a reversed item holds a value outside the declared bounds (named by respondent row and item).

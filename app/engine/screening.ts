@@ -1,6 +1,7 @@
 import { chiSquareSf } from './distributions.ts';
 import { EngineError } from './errors.ts';
-import { covarianceMatrix, inverse } from './linalg.ts';
+import { cholesky, covarianceMatrix } from './linalg.ts';
+import { ruleThreshold } from './methods/index.ts';
 import { EPSILON, kahanSum } from './numeric.ts';
 
 /**
@@ -9,26 +10,27 @@ import { EPSILON, kahanSum } from './numeric.ts';
  * Missing answers are NaN in the inputs and null in every output.
  */
 
-/** Mahalanobis D² is flagged when its χ²(p) upper-tail probability is below this (Tabachnick & Fidell, from memory). */
-export const MAHALANOBIS_ALPHA = 0.001;
+/** Mahalanobis D² is flagged when its χ²(p) upper-tail probability is below this (rule screening.mahalanobis-alpha). */
+export const MAHALANOBIS_ALPHA = ruleThreshold('screening.mahalanobis-alpha', 'alpha');
 
 /**
  * Longstring is flagged when the longest run of identical answers covers at least this share of the
- * items a respondent answered (common practice; cut-offs in the literature vary with the scale).
+ * items a respondent answered (rule screening.longstring-share: common practice; cut-offs in the
+ * literature vary with the scale).
  */
-export const LONGSTRING_SHARE = 0.5;
+export const LONGSTRING_SHARE = ruleThreshold('screening.longstring-share', 'share');
 
-/** Fewest answered items for which longstring and IRV are worth flagging. */
-export const MIN_ITEMS_FOR_PATTERN = 4;
+/** Fewest answered items for which longstring and IRV are worth flagging (rule screening.longstring-share). */
+export const MIN_ITEMS_FOR_PATTERN = ruleThreshold('screening.longstring-share', 'minimumItems');
 
 /** IRV at or below this counts as no variation at all (identical answers to every item). */
 export const IRV_FLOOR = EPSILON;
 
-/** A response time below this fraction of the median response time marks a speeder (common practice). */
-export const SPEEDER_FRACTION = 0.5;
+/** A response time below this fraction of the median marks a speeder (rule screening.speeder). */
+export const SPEEDER_FRACTION = ruleThreshold('screening.speeder', 'fractionOfMedian');
 
-/** A respondent who skipped more than this share of the items is flagged (common practice). */
-export const MAX_MISSING_SHARE = 0.2;
+/** A respondent who skipped more than this share of the items is flagged (rule screening.missing-share). */
+export const MAX_MISSING_SHARE = ruleThreshold('screening.missing-share', 'maximumShare');
 
 export type ScreeningCheck =
   | 'longstring'
@@ -99,8 +101,8 @@ export interface ScreeningResult {
 }
 
 /**
- * Longstring index: the longest run of identical consecutive answers, in item order (Johnson 2005;
- * Curran 2016, from memory). A missing answer ends a run. Cost O(k). Throws nothing.
+ * Longstring index: the longest run of identical consecutive answers, in item order (registry:
+ * screening.longstring). A missing answer ends a run. Cost O(k). Throws nothing.
  *
  * @example longstring([3, 3, 3, 1, 3]) // 3
  */
@@ -124,7 +126,7 @@ export function longstring(answers: ArrayLike<number>): number {
 
 /**
  * Intra-individual response variability: the standard deviation (divisor n − 1) of one respondent's
- * answered items (Dunn, Heggestad, Shanock & Theilgard 2018, from memory). Returns null with fewer than
+ * answered items (registry: screening.irv). Returns null with fewer than
  * two answers. Cost O(k). Throws nothing.
  *
  * @example intraIndividualVariability([1, 2, 3, 4]) // 1.2909944487358056
@@ -142,9 +144,11 @@ export function intraIndividualVariability(answers: ArrayLike<number>): number |
 /**
  * Squared Mahalanobis distance of each complete row from the centroid, D² = (x − x̄)ᵀS⁻¹(x − x̄) with
  * the sample covariance S (divisor n − 1), and its upper-tail probability under χ² with p degrees of
- * freedom (Mahalanobis 1936; the χ² reference as in Tabachnick & Fidell, from memory).
+ * freedom (screening.mahalanobis; the cut-off is rule screening.mahalanobis-alpha).
+ * S⁻¹ is applied by solving with the Cholesky factor of S (S = L·Lᵀ, D² = ‖L⁻¹(x − x̄)‖²), never by
+ * inverting S. Source: screening.mahalanobis, linalg.cholesky (the method registry).
  * Cost O(n·p² + p³). Throws EngineError "Mahalanobis distance requires more complete rows than items"
- * and "matrix is singular" (from inverse) when the items are linearly dependent.
+ * and "covariance matrix is singular" when an item is constant or the items are linearly dependent.
  */
 export function mahalanobisDistances(rows: readonly (readonly number[])[]): { d2: number[]; p: number[] } {
   const n = rows.length;
@@ -157,7 +161,20 @@ export function mahalanobisDistances(rows: readonly (readonly number[])[]): { d2
   }
   const data = rows.map((r) => [...r]);
   const s = covarianceMatrix(data);
-  const sInv = inverse(s);
+  // D² = ‖z‖² with L·z = x − x̄ and S = L·Lᵀ: one Cholesky factor, then a triangular solve per row;
+  // S⁻¹ is never formed.
+  let l: number[][];
+  try {
+    l = cholesky(s);
+  } catch (error) {
+    if (error instanceof EngineError && error.code === 'not-positive-definite') {
+      throw new EngineError(
+        "the items' covariance matrix is singular (an item is constant or a linear combination of others)",
+        'singular',
+      );
+    }
+    throw error;
+  }
   const means = new Float64Array(k);
   for (let j = 0; j < k; j++) {
     const column = new Float64Array(n);
@@ -166,19 +183,18 @@ export function mahalanobisDistances(rows: readonly (readonly number[])[]): { d2
   }
   const d2: number[] = [];
   const p: number[] = [];
-  const dev = new Float64Array(k);
+  const z = new Float64Array(k);
   for (let i = 0; i < n; i++) {
-    for (let j = 0; j < k; j++) dev[j] = data[i][j] - means[j];
     let sum = 0;
     for (let a = 0; a < k; a++) {
-      const row = sInv[a];
-      let inner = 0;
-      for (let b = 0; b < k; b++) inner += row[b] * dev[b];
-      sum += dev[a] * inner;
+      const la = l[a];
+      let v = data[i][a] - means[a];
+      for (let b = 0; b < a; b++) v -= la[b] * z[b];
+      z[a] = v / la[a];
+      sum += z[a] * z[a];
     }
-    const value = Math.max(0, sum);
-    d2.push(value);
-    p.push(chiSquareSf(value, k));
+    d2.push(sum);
+    p.push(chiSquareSf(sum, k));
   }
   return { d2, p };
 }

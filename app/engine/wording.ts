@@ -1,4 +1,5 @@
 import { EngineError } from './errors.ts';
+import { ruleThreshold } from './methods/index.ts';
 
 /**
  * Item wording checks for an item pool: readability (Flesch 1948; Kincaid et al. 1975) and the
@@ -48,8 +49,8 @@ export interface WordingReport extends Readability {
   flags: WordingFlag[];
 }
 
-/** Items longer than this many words are flagged (common practice: keep items short). */
-export const MAX_ITEM_WORDS = 20;
+/** Items longer than this many words are flagged (rule wording.max-words, common practice). */
+export const MAX_ITEM_WORDS = ruleThreshold('wording.max-words', 'maximum');
 
 /**
  * Flesch Reading Ease below which an item is flagged. On Flesch's (1948) scale (from memory) 60–70
@@ -57,10 +58,13 @@ export const MAX_ITEM_WORDS = 20;
  * practice for general-public material is 60 or above, but in a one-sentence item of six words a
  * single three-syllable word already pulls the score under 60).
  */
-export const MIN_READING_EASE = 50;
+export const MIN_READING_EASE = ruleThreshold('wording.min-reading-ease', 'minimum');
 
-/** Cosine similarity of character trigrams at or above which two items count as near duplicates. */
-export const NEAR_DUPLICATE_THRESHOLD = 0.8;
+/**
+ * Cosine similarity of character trigrams at or above which two items count as near duplicates
+ * (rule wording.near-duplicate-threshold, common practice).
+ */
+export const NEAR_DUPLICATE_THRESHOLD = ruleThreshold('wording.near-duplicate-threshold', 'similarity');
 
 /**
  * A small starting list of words a general adult panel may not know. Researchers extend it per study
@@ -249,6 +253,7 @@ export function splitSentences(text: string): string[] {
  * Flesch (1948) Reading Ease: 206.835 − 1.015·(words/sentences) − 84.6·(syllables/words). Higher is
  * easier; 60–70 reads as plain English.
  *
+ * Registry: wording.flesch-reading-ease.
  * Cost: O(1). Throws EngineError when words or sentences is below 1.
  */
 export function fleschReadingEase(counts: { words: number; sentences: number; syllables: number }): number {
@@ -260,6 +265,7 @@ export function fleschReadingEase(counts: { words: number; sentences: number; sy
  * Flesch–Kincaid grade level (Kincaid et al. 1975): 0.39·(words/sentences) + 11.8·(syllables/words)
  * − 15.59, a US school grade.
  *
+ * Registry: wording.flesch-kincaid-grade.
  * Cost: O(1). Throws EngineError when words or sentences is below 1.
  */
 export function fleschKincaidGrade(counts: { words: number; sentences: number; syllables: number }): number {
@@ -386,6 +392,7 @@ function matchesTerm(words: readonly string[], at: number, term: readonly string
  * Example: "I always feel safe and relaxed in traffic" gets an absolute flag (always) and a
  * double-barrelled flag (safe and relaxed).
  *
+ * Registry: wording.max-words, wording.min-reading-ease, wording.double-barrelled, wording.double-negative, wording.absolutes, wording.jargon.
  * Cost: O(L·J) for L words and J jargon terms. Throws EngineError when maxWords is not a positive
  * whole number or minReadingEase is not finite.
  */
@@ -498,6 +505,7 @@ export interface NearDuplicate {
  * caught while items sharing only a stem such as "I feel confident" are not). Sorted by similarity,
  * highest first.
  *
+ * Registry: wording.near-duplicate, wording.near-duplicate-threshold.
  * Cost: O(n²·L) for n items of about L characters. Throws EngineError when two items share a code or
  * the threshold is not in (0, 1].
  */

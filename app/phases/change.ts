@@ -13,7 +13,7 @@ import { PHASE_TITLES } from './titles.ts';
 export type PhaseEntry = Omit<ChangeEntry, 'phase'> & { phase: PhaseId };
 
 /** Refuses work on a signed-off phase; returns the phase's state before the change. */
-function requireOpen(study: Study, phase: PhaseId): PhaseStatus {
+export function requireOpen(study: Study, phase: PhaseId): PhaseStatus {
   const status = getPhaseStatus(study, phase);
   if (status === 'signed-off') {
     throw new RuleError(

@@ -1,4 +1,5 @@
-import crypto from 'node:crypto';
+import { sha256Hex } from '../import/sha256.ts';
+import { ruleThreshold } from '../engine/methods/index.ts';
 import Papa from 'papaparse';
 import { type FacetRecord, listFacets } from '../../db/repos/construct.ts';
 import {
@@ -38,7 +39,7 @@ import type { ChecklistItem, PhaseRules } from './types.ts';
  * Common practice: a facet needs at least three items to be measured at all (and a draft pool
  * several times the final number); fewer is a warning in the coverage view and blocks sign-off.
  */
-export const MIN_ITEMS_PER_FACET = 3;
+export const MIN_ITEMS_PER_FACET = ruleThreshold('pool.items-per-facet', 'minimum');
 
 /** Longest item wording accepted (characters); the wording checks flag long items well before this. */
 export const MAX_ITEM_TEXT = 600;
@@ -60,9 +61,7 @@ export const SOURCE_LABEL: Record<ItemSource, string> = {
 };
 
 /** SHA-256 of a file's bytes, stored with every import so the file can be recognised later. */
-export function sha256Hex(bytes: Uint8Array): string {
-  return crypto.createHash('sha256').update(bytes).digest('hex');
-}
+export { sha256Hex };
 
 export interface ItemView extends ItemRecord {
   facetName: string | null;

@@ -1,4 +1,4 @@
-import { createHash } from 'node:crypto';
+import { sha256Hex } from '../import/sha256.ts';
 import { EngineError } from '../engine/errors.ts';
 import {
   chooseDecimalMark,
@@ -105,10 +105,6 @@ function datasetOptions(request: ReadRequest): DatasetOptions {
   };
 }
 
-function sha256Of(bytes: Uint8Array): string {
-  return createHash('sha256').update(bytes).digest('hex');
-}
-
 /** A table read whole (a workbook sheet, or delimited text read at once) turned into a dataset. */
 function assembleTable(table: ParsedTable, mapping: ColumnMapping, options: DatasetOptions): EncodedDataset {
   const warnings = [...table.warnings];
@@ -165,7 +161,7 @@ async function readWorkbookFile(request: ReadRequest, control?: JobContext): Pro
     quoteChar: '',
     sheet: table.sheet,
     byteLength: request.bytes.length,
-    sha256: sha256Of(request.bytes),
+    sha256: sha256Hex(request.bytes),
   };
 }
 
@@ -241,7 +237,7 @@ export function readDelimitedFileNow(request: ReadRequest): ImportRead {
     delimiter: table.delimiter,
     quoteChar: table.quoteChar ?? '"',
     byteLength: request.bytes.length,
-    sha256: sha256Of(request.bytes),
+    sha256: sha256Hex(request.bytes),
   };
 }
 

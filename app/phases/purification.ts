@@ -29,13 +29,14 @@ import {
   type ReliabilityCriterion,
   reliabilityCriterion,
 } from '../engine/reliability/criterion.ts';
+import { MIN_BOOTSTRAP_RESAMPLES } from '../engine/reliability/bootstrap.ts';
 import { reverseScore, type ScaleBounds } from '../engine/scoring.ts';
 import { JOBS, type RoundJobInput, type RoundJobOutput } from '../workers/jobs.ts';
 import { analysisData } from './analysis-data.ts';
-import { changeInPhase, recordRun } from './change.ts';
+import { changeInPhase, recordRun, requireOpen } from './change.ts';
 import { currentPilotDataset, declaredBounds } from './analysis-data.ts';
 import { RuleError } from './errors.ts';
-import { PHASE_TITLES } from './titles.ts';
+import { MIN_ITEMS_PER_FACET } from './items.ts';
 import type { ChecklistItem, PhaseRules } from './types.ts';
 
 /**
@@ -56,7 +57,7 @@ export const ROUND_RULES = {
   /** Common practice: more than 10% of respondents left the item unanswered. */
   maxMissingShare: 0.1,
   /** Common practice: a facet needs at least three items to be measured on its own. */
-  minItemsPerFacet: 3,
+  minItemsPerFacet: MIN_ITEMS_PER_FACET,
 } as const;
 
 export type FlagRule =
@@ -136,8 +137,8 @@ export interface ItemFlag {
 
 /** Bootstrap resamples of a round unless the researcher asks otherwise. */
 export const DEFAULT_BOOTSTRAP_RESAMPLES = 1_000;
-/** Fewest and most bootstrap resamples a round accepts. */
-export const MIN_BOOTSTRAP_RESAMPLES = 200;
+/** Fewest and most bootstrap resamples a round accepts (the fewest is the engine's, one rule). */
+export { MIN_BOOTSTRAP_RESAMPLES };
 export const MAX_BOOTSTRAP_RESAMPLES = 20_000;
 
 /** How a round is run. Every field is stored with the round. */
@@ -180,15 +181,6 @@ export interface RoundResults extends RoundJobOutput {
 }
 
 const PHASE = 'purification';
-
-function requireOpen(study: Study): void {
-  if (getPhaseStatus(study, PHASE) === 'signed-off') {
-    throw new RuleError(
-      `the ${PHASE_TITLES[PHASE]} phase is signed off; reopen it (with a reason) before changing it`,
-      'signed-off',
-    );
-  }
-}
 
 /** Where each item stands after every decision so far. */
 export interface ItemStanding {
@@ -331,7 +323,7 @@ function distributionOf(values: (number | null)[], bounds: ScaleBounds): ItemDis
  * respondent and item).
  */
 export function prepareRound(study: Study, request: RoundRequest = {}): PreparedRound {
-  requireOpen(study);
+  requireOpen(study, PHASE);
   const ws = workingSet(study);
   const rounds = listRounds(study);
   const number = (rounds.at(-1)?.number ?? 0) + 1;
@@ -896,7 +888,7 @@ function activeFacet(study: Study, id: number): FacetRecord {
  * to the facet an item came from reverses that move. Returns the decision id.
  */
 export function decideItem(study: Study, request: DecisionRequest): number {
-  requireOpen(study);
+  requireOpen(study, PHASE);
   const round = latestRound(study, request.roundId);
   const item = getItemByCode(study, request.itemCode.trim());
   if (!item) throw new RuleError(`there is no item "${request.itemCode}" in the item pool`, 'not-found');

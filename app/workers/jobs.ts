@@ -1,8 +1,12 @@
 import { resampleProgress } from '../api/format.ts';
-import { EngineError } from '../engine/errors.ts';
 import { simulateEigenvalues } from '../engine/factor/factor-count.ts';
 import { polychoricMatrix } from '../engine/factor/polychoric.ts';
-import { type ItemAnalysis, type ItemAnalysisInput, analyseItems } from '../engine/reliability.ts';
+import {
+  analyseItems,
+  analyseScaleAndFacets,
+  type ItemAnalysis,
+  type ItemAnalysisInput,
+} from '../engine/reliability.ts';
 import { readDataFileJob } from '../phases/pilot-read.ts';
 
 type AnalysisJobInput = Omit<ItemAnalysisInput, 'bootstrap'> & {
@@ -41,51 +45,22 @@ export const JOBS = {
         shouldStop: () => ctx.shouldStop(),
       },
     }),
-  /**
-   * One purification round: the scale, then each facet (facets named by id), progress counted over
-   * all the bootstraps together. Under listwise deletion the facets use the scale's complete cases,
-   * so every alpha of a round rests on the same respondents.
-   */
+  /** One purification round: the scale, then each facet (by id), as `analyseScaleAndFacets` does it. */
   'purification.round': (input: RoundJobInput, ctx: JobContext): RoundJobOutput => {
     const { facets, ...common } = input;
-    const each = input.bootstrap?.resamples ?? 0;
-    const total = each * (facets.length + 1);
-    let offset = 0;
-    const analyse = (names: string[], data: ItemAnalysisInput['data']) => {
-      const start = offset;
-      offset += each;
-      return analyseItems({
-        ...common,
-        names,
-        data,
-        bootstrap: input.bootstrap && {
-          ...input.bootstrap,
-          onProgress: (done: number) =>
-            ctx.progress(start + done, total, resampleProgress(start + done, each, facets.length)),
-          shouldStop: () => ctx.shouldStop(),
-        },
-      });
-    };
-    const scale = analyse(input.names, input.data);
-    const rows =
-      input.missing === 'listwise' ? input.data.filter((row) => row.every((x) => x !== null)) : input.data;
+    const result = analyseScaleAndFacets({
+      ...common,
+      facets: facets.map(({ facetId, items }) => ({ facet: facetId, items })),
+      bootstrap: input.bootstrap && {
+        ...input.bootstrap,
+        onProgress: (done: number, total: number) =>
+          ctx.progress(done, total, resampleProgress(done, input.bootstrap?.resamples ?? 0, facets.length)),
+        shouldStop: () => ctx.shouldStop(),
+      },
+    });
     return {
-      scale,
-      facets: facets.map(({ facetId, items }) => {
-        const columns = items.map((name) => {
-          const column = input.names.indexOf(name);
-          if (column < 0)
-            throw new EngineError(`facet ${facetId} names item "${name}", which is not among the items`);
-          return column;
-        });
-        return {
-          facetId,
-          analysis: analyse(
-            items,
-            rows.map((row) => columns.map((c) => row[c])),
-          ),
-        };
-      }),
+      scale: result.scale,
+      facets: result.facets.map(({ facet, analysis }) => ({ facetId: facet, analysis })),
     };
   },
   /**

@@ -12,7 +12,11 @@ export interface CliRun {
   stderr: string;
 }
 
-/** Runs the CLI as a user would (`npm run -s cli -- …` resolves paths against INIT_CWD). */
+/**
+ * Runs the command line from its TypeScript sources through tsx, as a user would call it
+ * (`npm run -s cli -- …` resolves paths against INIT_CWD); test/unit/cli/compiled.test.ts checks
+ * that the compiled bundle answers the same.
+ */
 export function runCli(
   args: string[],
   options: { cwd?: string; env?: Record<string, string>; user?: { uid: number; gid: number } } = {},
@@ -27,7 +31,7 @@ export function runCli(
   return { code: result.status ?? -1, stdout: result.stdout, stderr: result.stderr };
 }
 
-/** Runs `npm run -s cli -- …` itself, exactly as CLI.md documents it. */
+/** Runs `npm run -s cli -- …` itself, exactly as the README documents it (the compiled command line). */
 export function runNpmCli(args: string[], cwd: string): CliRun {
   const result = spawnSync('npm', ['--prefix', ROOT, 'run', '-s', 'cli', '--', ...args], {
     cwd,

@@ -62,16 +62,20 @@ def pairwise_case(n, p, missing_share):
     mask = rng.uniform(size=(n, p)) < missing_share
     values = np.where(mask, np.nan, np.round(data, 4))
     r = np.eye(p)
+    cov = np.zeros((p, p))
     counts = np.zeros((p, p), dtype=int)
     for j in range(p):
         counts[j, j] = int(np.sum(~np.isnan(values[:, j])))
+        cov[j, j] = np.var(values[~np.isnan(values[:, j]), j], ddof=1)
         for k in range(j):
             both = ~np.isnan(values[:, j]) & ~np.isnan(values[:, k])
             r[j, k] = r[k, j] = np.corrcoef(values[both, j], values[both, k])[0, 1]
+            cov[j, k] = cov[k, j] = np.cov(values[both, j], values[both, k], ddof=1)[0, 1]
             counts[j, k] = counts[k, j] = int(both.sum())
     return {
         "data": [[None if np.isnan(v) else float(v) for v in row] for row in values],
         "r": r.tolist(),
+        "covariance": cov.tolist(),
         "n": counts.tolist(),
     }
 
@@ -93,6 +97,18 @@ def indefinite_case():
     return {"matrix": r.tolist(), "eigenvalues": sorted(values.tolist(), reverse=True), "smoothed": smoothed.tolist()}
 
 
+def solve_case(a, columns):
+    """A right-hand side drawn after every other case (so earlier cases keep their values) and
+    numpy.linalg.solve's answer; a vector when columns is None."""
+    b = rng.standard_normal(a.shape[0]) if columns is None else rng.standard_normal((a.shape[0], columns))
+    return {
+        "matrix": a.tolist(),
+        "rhs": b.tolist(),
+        "solution": np.linalg.solve(a, b).tolist(),
+        "condition": float(np.linalg.cond(a)),
+    }
+
+
 fixture = {
     "generator": "test/reference/linalg.py",
     "versions": {"python": platform.python_version(), "numpy": np.__version__},
@@ -108,6 +124,12 @@ fixture = {
     "data": [data_case(50, 4, (3.0, 1.0)), data_case(300, 9, (1e6, 0.01)), data_case(1000, 20, (-2.0, 10.0))],
     "pairwise": [pairwise_case(60, 5, 0.15), pairwise_case(400, 12, 0.3)],
     "indefinite": indefinite_case(),
+}
+fixture["solve"] = {
+    "general": [solve_case(np.array(c["matrix"]), None) for c in fixture["general"]]
+    + [solve_case(np.array(fixture["general"][1]["matrix"]), 3)],
+    "positiveDefinite": [solve_case(spd(10, 3), None), solve_case(spd(30, 6), 4),
+                         solve_case(np.array(fixture["symmetric"][4]["matrix"]), None)],
 }
 
 with open(OUT, "w") as fh:

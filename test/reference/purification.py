@@ -11,7 +11,7 @@ factor, plus one item ("OD1", filed under the first facet) that measures almost 
 share, as an item outside the construct's domain would. BH3 is reverse-keyed. Respondents listed in
 `straight_liners` answered 5 to everything.
 
-The expected values are written from the published formulas (METHODS.md), independently of the
+The expected values are written from the published formulas (the sources in app/engine/methods/), independently of the
 TypeScript code: reverse keying x' = min + max - x with the declared bounds 1 and 5; listwise
 deletion; alpha from item and total variances (Cronbach 1951); corrected item-total correlation
 with the sum of the other items; alpha if item deleted; Feldt (1965) limits from scipy.stats.f.ppf.

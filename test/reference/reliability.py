@@ -4,7 +4,7 @@ Run from the project root with Debian's Python:
     /usr/bin/python3 test/reference/reliability.py
 It writes test/reference/fixtures/reliability.json (data, expected values, library versions).
 
-Everything here is written from the published formulas (METHODS.md) without looking at the
+Everything here is written from the published formulas (the sources in app/engine/methods/) without looking at the
 TypeScript engine: alpha from item and total variances (Cronbach 1951), standardized alpha from the
 mean inter-item correlation, Feldt (1965) limits from scipy.stats.f.ppf, omega total (McDonald 1999)
 from a one-factor model fitted by scipy.optimize.minimize on the unweighted least-squares

@@ -1,6 +1,8 @@
 import { bounded } from '../../api/format.ts';
+import { methodsField } from '../../engine/methods/index.ts';
 import {
   analyzeContentValidity,
+  contentValidityMethods,
   CVR_ALPHA,
   type ContentValidityReport,
   type ExpertRating,
@@ -161,7 +163,7 @@ function renderTable(file: string, report: ContentValidityReport): string {
   return lines.join('\n');
 }
 
-/** `stats content`: content validity from an expert ratings file (see CLI.md and METHODS.md). */
+/** `stats content`: content validity from an expert ratings file (methods as in the registry's content area). */
 export const content: StatsAnalysis = {
   name: 'content',
   summary: "content validity from expert ratings: I-CVI, S-CVI, modified kappa, CVR, Aiken's V",
@@ -263,6 +265,7 @@ export const content: StatsAnalysis = {
       facets: report.facets,
       facetSorting: report.facetSorting,
       flags: report.flags,
+      methods: methodsField(contentValidityMethods(report)),
     };
     return { json, table: renderTable(file, report), warnings };
   },

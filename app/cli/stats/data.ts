@@ -1,4 +1,4 @@
-import { createHash } from 'node:crypto';
+import { sha256Hex } from '../../import/sha256.ts';
 import type { MissingMethod } from '../../engine/item-stats.ts';
 import { DEFAULT_SEED } from '../../engine/rng.ts';
 import { type ResponseMatrix, reverseScore, type ScaleBounds } from '../../engine/scoring.ts';
@@ -213,7 +213,7 @@ export async function loadItemData(
   const numericCodes = missingCodes.filter((c) => NUMBER.test(c)).map(Number);
 
   const bytes = await readUserFile(file, 'data file', ctx);
-  const sha256 = createHash('sha256').update(bytes).digest('hex');
+  const sha256 = sha256Hex(bytes);
   let table: ReturnType<typeof parseTable>;
   try {
     table = parseTable(bytes, { fileName: file });

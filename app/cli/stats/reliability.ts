@@ -1,5 +1,11 @@
 import { EngineError } from '../../engine/errors.ts';
-import { type ItemAnalysis, analyseItems, DEFAULT_CI_LEVEL } from '../../engine/reliability.ts';
+import { methodsField } from '../../engine/methods/index.ts';
+import {
+  analyseItems,
+  DEFAULT_CI_LEVEL,
+  type ItemAnalysis,
+  itemAnalysisMethods,
+} from '../../engine/reliability.ts';
 import { MIN_BOOTSTRAP_RESAMPLES } from '../../engine/reliability/bootstrap.ts';
 import { STAT_LABELS, bounded, count, percent, unbounded } from '../../api/format.ts';
 import { meetsCriterion, reliabilityCriterion } from '../../engine/reliability/criterion.ts';
@@ -88,6 +94,7 @@ export function reliabilityJson(loaded: LoadedItems, a: ItemAnalysis, seed: numb
       alphaMeets: meetsCriterion(a.alpha.value, CRITERION),
     },
     seed,
+    methods: methodsField([...itemAnalysisMethods(a), CRITERION.ruleId]),
   };
 }
 

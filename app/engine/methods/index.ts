@@ -1,7 +1,11 @@
 import { EngineError } from '../errors.ts';
 import { CRITERIA_METHODS } from './criteria.ts';
+import { CONTENT_METHODS } from './content.ts';
+import { NUMERICS_METHODS } from './numerics.ts';
 import { FACTOR_ANALYSIS_METHODS } from './factor-analysis.ts';
 import { RELIABILITY_METHODS } from './reliability.ts';
+import { SCREENING_METHODS } from './screening.ts';
+import { WORDING_METHODS } from './wording.ts';
 import type { Reference, RegistryEntry } from './types.ts';
 import { VALIDITY_METHODS } from './validity.ts';
 
@@ -13,6 +17,10 @@ export type { MethodEntry, Reference, RegistryEntry, RuleEntry } from './types.t
  */
 export const METHODS: ReadonlyMap<string, RegistryEntry> = buildRegistry([
   ...RELIABILITY_METHODS,
+  ...CONTENT_METHODS,
+  ...WORDING_METHODS,
+  ...SCREENING_METHODS,
+  ...NUMERICS_METHODS,
   ...VALIDITY_METHODS,
   ...FACTOR_ANALYSIS_METHODS,
   ...CRITERIA_METHODS,
@@ -22,7 +30,7 @@ function buildRegistry(entries: RegistryEntry[]): ReadonlyMap<string, RegistryEn
   const map = new Map<string, RegistryEntry>();
   for (const entry of entries) {
     if (map.has(entry.id)) throw new EngineError(`methods registry: id "${entry.id}" appears twice`);
-    if (entry.references.length === 0 && !(entry.kind === 'rule' && entry.commonPractice))
+    if (entry.references.length === 0 && !entry.commonPractice)
       throw new EngineError(`methods registry: "${entry.id}" has no reference`);
     map.set(entry.id, entry);
   }
@@ -75,8 +83,23 @@ export function citation(ref: Reference): string {
 
 /** The `methods` field of an analysis's JSON: each id with its references in the one style. */
 export function methodsField(ids: readonly string[]): { id: string; reference: string }[] {
-  return [...new Set(ids)].map((id) => ({
-    id,
-    reference: methodEntry(id).references.map(formatReference).join(' '),
-  }));
+  return [...new Set(ids)].map((id) => {
+    const entry = methodEntry(id);
+    const references = entry.references.map(formatReference).join(' ');
+    const practice = entry.commonPractice ? 'Common practice of the trade (no single published source).' : '';
+    return { id, reference: [practice, references].filter((part) => part !== '').join(' ') };
+  });
+}
+
+/**
+ * A rule's cut-off by name, so that the engine applies exactly the threshold its registry entry shows:
+ * `ruleThreshold('screening.speeder', 'fractionOfMedian')` is 0.5. Throws EngineError for an id that is
+ * not a rule or a name the rule does not define.
+ */
+export function ruleThreshold(id: string, name: string): number {
+  const entry = methodEntry(id);
+  if (entry.kind !== 'rule') throw new EngineError(`methods registry: "${id}" is a method, not a rule`);
+  const value = entry.thresholds[name];
+  if (value === undefined) throw new EngineError(`methods registry: rule "${id}" has no threshold "${name}"`);
+  return value;
 }

@@ -30,6 +30,8 @@ export interface MethodEntry {
   id: string;
   /** The method's usual name, as the trade writes it. */
   name: string;
+  /** A procedure of the trade with no single source (reverse keying, duplicate ids). */
+  commonPractice?: boolean;
   references: Reference[];
 }
 

@@ -10,7 +10,7 @@ export interface Coefficient {
  * variance σ²ₜ is the sum of all entries of the matrix (with complete data this equals the variance of
  * the sum score exactly).
  *
- * Source: Cronbach (1951). Cost: O(k²).
+ * Source: alpha.cronbach (the method registry). Cost: O(k²).
  * Throws EngineError with fewer than two items ("alpha requires at least two items") or when the total
  * score does not vary.
  */
@@ -36,7 +36,8 @@ export function cronbachAlpha(cov: readonly (readonly number[])[]): number {
  * Standardized alpha from the mean inter-item correlation r̄: kr̄ / (1 + (k − 1)r̄) — alpha of the
  * items after each is scaled to unit variance.
  *
- * Source: Cronbach (1951); the form in r̄ follows from the Spearman–Brown formula. Cost: O(1).
+ * Source: alpha.standardized (the method registry); the form in r̄ follows from the Spearman–Brown
+ * formula. Cost: O(1).
  * Throws EngineError with fewer than two items or when 1 + (k − 1)r̄ is not positive (r̄ at or below
  * −1/(k − 1), which no positive semi-definite correlation matrix has).
  */
@@ -57,7 +58,7 @@ export function standardizedAlpha(meanR: number, k: number): number {
  * covariance matrix with the item's row and column removed (σ²ₜ₍₋ᵢ₎ = σ²ₜ − 2Σⱼcᵢⱼ + cᵢᵢ).
  * `null` for an item when fewer than two items would remain or the remaining total does not vary.
  *
- * Source: Cronbach (1951), applied to each reduced item set. Cost: O(k²) (row sums once).
+ * Source: alpha.if-item-deleted (the method registry). Cost: O(k²) (row sums once).
  * Throws nothing.
  */
 export function alphaIfDeleted(cov: readonly (readonly number[])[]): (number | null)[] {

@@ -1,13 +1,14 @@
 import { EngineError } from '../errors.ts';
 import type { MissingMethod } from '../item-stats.ts';
+import { ruleThreshold } from '../methods/index.ts';
 import { createRng } from '../rng.ts';
 import type { ResponseMatrix } from '../scoring.ts';
 
 /** Resamples between two progress reports (and two checks of `shouldStop`). */
 export const BOOTSTRAP_PROGRESS_EVERY = 50;
 
-/** Fewest resamples a percentile interval is drawn from. */
-export const MIN_BOOTSTRAP_RESAMPLES = 100;
+/** Fewest resamples a percentile interval is drawn from: rule bootstrap.minimum-resamples (the method registry). */
+export const MIN_BOOTSTRAP_RESAMPLES = ruleThreshold('bootstrap.minimum-resamples', 'minimum');
 
 /** How to run the bootstrap, and how a worker follows or cancels it. */
 export interface BootstrapOptions {
@@ -279,7 +280,7 @@ function pairwiseAlphas(
  * point estimate, and the interval is the (γ/2, 1 − γ/2) quantiles of the B values (γ = 1 − level).
  * The same seed gives the same interval.
  *
- * Source: Efron & Tibshirani (1993), percentile interval. Cost: O(B·n·k) for complete data,
+ * Source: alpha.bootstrap-ci (the method registry), percentile interval. Cost: O(B·n·k) for complete data,
  * O(B·n·k²) with pairwise deletion.
  * Throws EngineError with fewer than two respondents or items, fewer than MIN_BOOTSTRAP_RESAMPLES
  * resamples, a level outside (0, 1), when fewer than two resamples give a defined alpha, and with

@@ -16,7 +16,7 @@ export interface FeldtInterval {
  * df₁ = n − 1 and df₂ = (n − 1)(k − 1), so with γ = 1 − level:
  * lower = 1 − (1 − α̂)·F₁₋γ/₂, upper = 1 − (1 − α̂)·F_γ/₂ (F_p the p-quantile).
  *
- * Source: Feldt (1965); formula as fixed in METHODS.md and CLI.md. Cost: two F quantiles (iterative,
+ * Source: alpha.feldt-ci (the method registry). Cost: two F quantiles (iterative,
  * independent of n and k).
  * Throws EngineError with fewer than two respondents or items, a level outside (0, 1), or a
  * non-finite alpha.

@@ -50,7 +50,8 @@ function startingCommunalities(r: number[][]): { h2: number[]; start: OneFactorF
  * ONE_FACTOR_TOLERANCE. The fixed point minimises the unweighted least-squares (minres) discrepancy
  * Σᵢ<ⱼ (rᵢⱼ − λᵢλⱼ)². A communality above 1 (Heywood case) is held at 1 and reported.
  *
- * Source: Harman (1976), principal-axis method; its equivalence to ULS: Jöreskog (1977), from memory.
+ * Source: omega.one-factor-fit (the method registry), the principal-axis method; its equivalence to
+ * unweighted least squares is from memory (Jöreskog 1977).
  * Cost: O(k³) per iteration (one symmetric eigendecomposition), typically tens of iterations.
  * Throws EngineError with fewer than three items (a one-factor model of two items is not identified).
  */
@@ -105,7 +106,7 @@ export function fitOneFactor(r: number[][]): OneFactorFit {
  * ω = (Σλ)² / ((Σλ)² + Σψ), in the correlation metric (the reliability of the sum of standardized
  * items). The model is fitted by `fitOneFactor` (iterated principal axis, ULS).
  *
- * Source: McDonald (1999), Test Theory: A Unified Treatment, ch. 6. Cost: as fitOneFactor.
+ * Source: omega.total (the method registry), ch. 6. Cost: as fitOneFactor.
  * Throws EngineError with fewer than three items. Non-convergence, a Heywood case and negative
  * loadings are returned as warnings.
  */

@@ -17,8 +17,7 @@ export interface MeasurementError {
  * Standard error of measurement SEM = SD·√(1 − rₓₓ) and minimal detectable change
  * MDC95 = 1.96·√2·SEM, on the scale of the sum score.
  *
- * Source: classical test theory (Lord & Novick 1968, from memory); MDC95 is common practice
- * (METHODS.md). Cost: O(1).
+ * Source: sem.classical and sem.mdc95 (the method registry). Cost: O(1).
  * Throws EngineError when SD is negative or not finite, or rₓₓ is above 1 or not finite. A negative
  * reliability is accepted (SEM then exceeds SD); callers warn about it.
  */

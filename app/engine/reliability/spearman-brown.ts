@@ -13,7 +13,8 @@ function checkReliability(rho: number, what: string): void {
  * Spearman–Brown prophecy formula: the reliability of a test m times as long, built from parallel
  * items, ρ* = mρ / (1 + (m − 1)ρ). m below 1 predicts a shortened test.
  *
- * Source: Spearman (1910); Brown (1910). Check (METHODS.md): doubling a test with ρ = .50 gives .667.
+ * Source: spearman-brown.prophecy (the method registry). Check: doubling a test with ρ = .50 gives
+ * 2·.5/(1 + .5) = .667.
  * Cost: O(1).
  * Throws EngineError when ρ is not strictly between 0 and 1 or m is not a positive finite number.
  */
@@ -29,7 +30,7 @@ export function spearmanBrown(rho: number, m: number): number {
  * Spearman–Brown solved for length: the factor m by which a test of reliability ρ must be lengthened
  * (m > 1) or may be shortened (m < 1) to reach a target ρ*, m = ρ*(1 − ρ) / (ρ(1 − ρ*)).
  *
- * Source: Spearman (1910); Brown (1910); METHODS.md, "Reliability".
+ * Source: spearman-brown.prophecy (the method registry), solved for the length factor m.
  * Cost: O(1).
  * Throws EngineError when ρ or ρ* is not strictly between 0 and 1.
  */
@@ -43,7 +44,7 @@ export function lengthFactorForTarget(rho: number, target: number): number {
  * Items needed to reach a target reliability: the smallest whole number of parallel items whose
  * Spearman–Brown prophecy reaches ρ*, i.e. ⌈m·k⌉ with m from `lengthFactorForTarget`.
  *
- * Source: Spearman (1910); Brown (1910). Cost: O(1).
+ * Source: spearman-brown.prophecy (the method registry). Cost: O(1).
  * Throws EngineError when ρ or ρ* is not strictly between 0 and 1 or k is not a positive integer.
  */
 export function itemsForTarget(rho: number, k: number, target: number): number {

@@ -21,7 +21,7 @@ export interface SplitHalf {
  * half holds one item more, which the formula (built for equal halves) does not account for.
  * Computed from the item covariance matrix: cov(A, B) = Σᵢ∈A Σⱼ∈B cᵢⱼ.
  *
- * Source: Spearman (1910); Brown (1910). Cost: O(k²).
+ * Source: split-half.spearman-brown (the method registry). Cost: O(k²).
  * Throws EngineError with fewer than two items or when a half sum does not vary.
  */
 export function oddEvenSplitHalf(names: string[], cov: readonly (readonly number[])[]): SplitHalf {

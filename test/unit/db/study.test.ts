@@ -179,12 +179,22 @@ describe('one writer at a time', () => {
   it('takes over a lock left by a process that no longer runs', () => {
     const file = path.join(tmp.dir, 'a.scalewright');
     Study.create(file, opts).close();
+    // A pid above Linux's pid_max (2²²) cannot belong to a running process.
     fs.writeFileSync(
       `${file}.lock`,
       JSON.stringify({ pid: 2 ** 22 + 12345, host: os.hostname(), user: 'x', app: 'gone', since: '' }),
     );
     const study = Study.open(file, opts);
+    const holder = JSON.parse(fs.readFileSync(`${file}.lock`, 'utf8'));
+    expect(holder.pid).toBe(process.pid);
+    expect(holder.app).toBe(opts.app);
+    const rows = study.log.count();
+    study.change({ phase: 'construct', kind: 'edit', target: 'name' }, () => {
+      study.db.prepare("UPDATE construct SET name = 'taken over' WHERE id = 1").run();
+    });
+    expect(study.log.count()).toBe(rows + 1);
     study.close();
+    expect(fs.existsSync(`${file}.lock`)).toBe(false);
   });
 });
 

@@ -23,7 +23,7 @@ function simulateObservedR(n: number, rho: number, relX: number, relY: number, s
 }
 
 describe('correctForAttenuation', () => {
-  it('recovers .60 from .432 with reliabilities .81 and .64 (METHODS.md check, Spearman 1904)', () => {
+  it('recovers .60 from .432 with reliabilities .81 and .64 (Spearman 1904: .60·√.81·√.64 = .432)', () => {
     const c = correctForAttenuation(0.432, 0.81, 0.64);
     expect(Math.abs(c.value - 0.6)).toBeLessThan(PUBLISHED_TOL);
     expect(c.warnings).toEqual([]);

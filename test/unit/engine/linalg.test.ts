@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { EngineError } from '../../../app/engine/errors.ts';
 import {
   cholesky,
+  choleskySolve,
   conditionNumber,
   constantColumns,
   correlationMatrix,
@@ -12,6 +13,7 @@ import {
   matMul,
   pairwiseCorrelation,
   smoothToPositiveDefinite,
+  solve,
   symmetricEigen,
   transpose,
 } from '../../../app/engine/linalg.ts';
@@ -251,5 +253,79 @@ describe('matMul and transpose', () => {
     ).toEqual([[-2], [-2]]);
     expect(transpose([[1, 2, 3]])).toEqual([[1], [2], [3]]);
     expect(() => matMul([[1, 2]], [[1, 2]])).toThrow('1×2 times 1×2');
+  });
+});
+
+describe('solve and choleskySolve against numpy.linalg.solve', () => {
+  const relative = (x: number[][], y: number[][]) => maxAbsDiff(x, y) / maxAbs(y);
+  const asMatrix = (v: number[] | number[][]) =>
+    Array.isArray(v[0]) ? (v as number[][]) : (v as number[]).map((x) => [x]);
+  for (const [index, c] of fixture.solve.general.entries()) {
+    const n = c.matrix.length;
+    it(`general case ${index} (${n}×${n}, condition ${c.condition.toExponential(1)})`, () => {
+      // Backward-stable LU: forward error within a small multiple of n·κ(A)·ε (Higham 2002, §9.3).
+      const tol = n * c.condition * 10 * MACHINE;
+      const x = Array.isArray(c.rhs[0])
+        ? solve(c.matrix, c.rhs as number[][])
+        : solve(c.matrix, c.rhs as number[]);
+      expect(relative(asMatrix(x), asMatrix(c.solution))).toBeLessThan(tol);
+    });
+  }
+  for (const [index, c] of fixture.solve.positiveDefinite.entries()) {
+    const n = c.matrix.length;
+    it(`positive-definite case ${index} (${n}×${n}, condition ${c.condition.toExponential(1)}): both agree with numpy`, () => {
+      const tol = n * c.condition * 10 * MACHINE;
+      const rhs = c.rhs as number[] | number[][];
+      const byCholesky = Array.isArray(rhs[0])
+        ? choleskySolve(c.matrix, rhs as number[][])
+        : choleskySolve(c.matrix, rhs as number[]);
+      const byLu = Array.isArray(rhs[0])
+        ? solve(c.matrix, rhs as number[][])
+        : solve(c.matrix, rhs as number[]);
+      expect(relative(asMatrix(byCholesky), asMatrix(c.solution))).toBeLessThan(tol);
+      expect(relative(asMatrix(byLu), asMatrix(c.solution))).toBeLessThan(tol);
+    });
+  }
+
+  it('names a singular, indefinite or mismatched system', () => {
+    expect(() =>
+      solve(
+        [
+          [1, 2],
+          [2, 4],
+        ],
+        [1, 1],
+      ),
+    ).toThrow('matrix is singular');
+    expect(() => choleskySolve(fixture.indefinite.matrix, [1, 1, 1, 1])).toThrow(
+      'matrix is not positive definite',
+    );
+    expect(() =>
+      choleskySolve(
+        [
+          [1, 2],
+          [0, 1],
+        ],
+        [1, 1],
+      ),
+    ).toThrow('matrix is not symmetric');
+    expect(() =>
+      solve(
+        [
+          [1, 0],
+          [0, 1],
+        ],
+        [1, 2, 3],
+      ),
+    ).toThrow('right-hand side with 2 rows, got 3');
+    expect(() =>
+      solve(
+        [
+          [1, 0],
+          [0, 1],
+        ],
+        [1, Number.NaN],
+      ),
+    ).toThrow('entry [1][0] is NaN');
   });
 });

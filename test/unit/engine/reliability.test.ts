@@ -243,7 +243,7 @@ describe('analyseScaleAndFacets', () => {
       names: complete.names,
       data: complete.data,
       missing: 'listwise',
-      facets,
+      facets: Object.entries(facets).map(([facet, items]) => ({ facet, items })),
     });
     expect(both.scale.alpha.value).toBeCloseTo(complete.expected.alpha, 10);
     const columns = facets.route.map((n) => complete.names.indexOf(n));
@@ -259,7 +259,7 @@ describe('analyseScaleAndFacets', () => {
         names: complete.names,
         data: complete.data,
         missing: 'listwise',
-        facets: { x: ['zz', 'traffic1'] },
+        facets: [{ facet: 'x', items: ['zz', 'traffic1'] }],
       }),
     ).toThrow('facet "x" names item "zz", which is not among the items');
   });

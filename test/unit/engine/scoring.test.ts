@@ -12,7 +12,7 @@ const UNIT_CORRELATION_TOL = 1e-12;
 
 describe('reverseScore', () => {
   it('uses the declared bounds, never the observed ones: x′ = min + max − x', () => {
-    // On a 1–5 scale, a sample that only uses 2–4 must still map 2 → 4 and 4 → 2 (METHODS.md).
+    // On a 1–5 scale, a sample that only uses 2–4 must still map 2 → 4 and 4 → 2 (reverse keying uses the declared bounds: scoring.reverse-keying, common practice).
     const data = [
       [2, 3],
       [4, 3],
@@ -51,7 +51,7 @@ describe('reverseScore', () => {
 });
 
 describe('sum and mean scores', () => {
-  it('correlate exactly 1 (METHODS.md: a check any test can make)', () => {
+  it('correlate exactly 1 (the mean is the sum divided by a constant k)', () => {
     const data = fixture.complete.data;
     const sums = sumScores(data) as number[];
     const means = meanScores(data) as number[];

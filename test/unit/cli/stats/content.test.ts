@@ -49,6 +49,24 @@ function cli(args: string[]): { status: number | null; stdout: string; stderr: s
 }
 
 describe('stats content (spawned CLI)', () => {
+  it('lists the methods the run used with their references, CVR and kappas only when computed', () => {
+    const withAll = JSON.parse(
+      cli(['--ratings', 'panel.csv', '--item-facets', 'facets.csv', '--json']).stdout,
+    );
+    const ids = withAll.methods.map((m: { id: string }) => m.id);
+    expect(ids).toEqual(expect.arrayContaining(['content.i-cvi', 'content.modified-kappa', 'content.cvr']));
+    expect(ids).toContain('agreement.fleiss-kappa');
+    const lynn = withAll.methods.find((m: { id: string }) => m.id === 'content.i-cvi');
+    // Lynn (1986), Nursing Research 35(6), 382–385.
+    expect(lynn.reference).toContain(
+      'Lynn, M. R. (1986). Determination and quantification of content validity.',
+    );
+    const plain = JSON.parse(cli(['--ratings', 'no-essential.tsv', '--json']).stdout);
+    const plainIds = plain.methods.map((m: { id: string }) => m.id);
+    expect(plainIds).not.toContain('content.cvr');
+    expect(plainIds).not.toContain('agreement.fleiss-kappa');
+  });
+
   it('prints exactly one JSON object with the contract fields and exits 0', () => {
     const r = cli(['--ratings', 'panel.csv', '--item-facets', 'facets.csv', '--json']);
     expect(r.status).toBe(0);

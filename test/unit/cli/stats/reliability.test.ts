@@ -116,4 +116,19 @@ describe('stats reliability (spawned CLI)', () => {
     expect(run.code).toBe(2);
     expect(run.stderr).toMatch(/^error: --reverse needs the declared scale bounds --min and --max/);
   });
+
+  it('lists the methods the run used, the bootstrap only when asked for', () => {
+    const plain = JSON.parse(cli('--data', good, '--items', 'traffic1,traffic2,route1', '--json').stdout);
+    const ids = plain.methods.map((m: { id: string }) => m.id);
+    expect(ids).toEqual(expect.arrayContaining(['alpha.cronbach', 'alpha.feldt-ci', 'omega.total']));
+    expect(ids).not.toContain('alpha.bootstrap-ci');
+    // Eight respondents: the few-respondents rule (common practice) is cited with the warning it raised.
+    expect(ids).toContain('reliability.few-respondents');
+    const cronbach = plain.methods.find((m: { id: string }) => m.id === 'alpha.cronbach');
+    expect(cronbach.reference).toContain('Psychometrika, 16(3), 297–334');
+    const boot = JSON.parse(
+      cli('--data', good, '--items', 'traffic1,traffic2,route1', '--bootstrap', '200', '--json').stdout,
+    );
+    expect(boot.methods.map((m: { id: string }) => m.id)).toContain('alpha.bootstrap-ci');
+  });
 });

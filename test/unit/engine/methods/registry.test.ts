@@ -1,5 +1,23 @@
+import fs from 'node:fs';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
-import { citation, formatReference, METHODS, methodsField } from '../../../../app/engine/methods/index.ts';
+import {
+  CVR_ALPHA,
+  ICVI_BENCHMARK_LARGE_PANEL,
+  kappaBand,
+  LARGE_PANEL,
+  MIN_PANEL_FOR_BENCHMARK,
+  SCVI_AVE_BENCHMARK,
+} from '../../../../app/engine/content.ts';
+import {
+  citation,
+  formatReference,
+  METHODS,
+  methodsField,
+  ruleThreshold,
+} from '../../../../app/engine/methods/index.ts';
+import { MAHALANOBIS_ALPHA } from '../../../../app/engine/screening.ts';
 
 describe('methods registry', () => {
   it('formats a journal article in the one reference style', () => {
@@ -27,8 +45,7 @@ describe('methods registry', () => {
     for (const [id, entry] of METHODS) {
       expect(entry.id).toBe(id);
       expect(entry.name.length).toBeGreaterThan(0);
-      if (!(entry.kind === 'rule' && entry.commonPractice))
-        expect(entry.references.length).toBeGreaterThan(0);
+      if (!entry.commonPractice) expect(entry.references.length).toBeGreaterThan(0);
     }
   });
 
@@ -59,5 +76,76 @@ describe('registry ids cited by the validity engine', () => {
     expect(methodsField(['validity.standards'])[0].reference).toMatch(
       /^American Educational Research Association, American Psychological Association, & National Council on Measurement in Education \(2014\)\. Standards for educational and psychological testing\./,
     );
+  });
+});
+
+describe('the registry and the engine agree', () => {
+  const root = fileURLToPath(new URL('../../../../', import.meta.url));
+  const sources = (dir: string): string[] =>
+    fs.readdirSync(path.join(root, dir), { withFileTypes: true }).flatMap((entry) => {
+      const rel = path.join(dir, entry.name);
+      if (entry.isDirectory()) return entry.name === 'dist' ? [] : sources(rel);
+      return /\.(ts|tsx|mjs|py)$/.test(entry.name) ? [rel] : [];
+    });
+
+  it('every registry id a doc comment cites exists', () => {
+    const cited = new Set<string>();
+    for (const file of sources('app')) {
+      const text = fs.readFileSync(path.join(root, file), 'utf8').replace(/\n\s*\* /g, ' ');
+      // "Registry: a.b, c.d." and "Source: a.b and c.d (the method registry)": ids always hold a dot.
+      const id = String.raw`[a-z0-9-]+\.[a-z0-9.-]*[a-z0-9]`;
+      const list = new RegExp(`(?:[Rr]egistry: |Source: )((?:${id})(?:(?:, | and )${id})*)`, 'g');
+      for (const m of text.matchAll(list)) for (const one of m[1].split(/, | and /)) cited.add(one.trim());
+    }
+    expect(cited.size).toBeGreaterThan(30);
+    for (const id of cited) expect(METHODS.has(id), `cited id "${id}"`).toBe(true);
+  });
+
+  it('no source or test cites a document outside the repository', () => {
+    const notes = ['METHODS', 'CLI', 'ARCHITECTURE', 'STYLE'].map((name) => `${name}.md`);
+    for (const file of [...sources('app'), ...sources('db'), ...sources('renderer'), ...sources('test')]) {
+      const text = fs.readFileSync(path.join(root, file), 'utf8');
+      for (const note of notes) expect(text.includes(note), `${file} mentions ${note}`).toBe(false);
+    }
+  });
+
+  it('applies the published cut-offs', () => {
+    // Lynn (1986) and Polit & Beck (2006): I-CVI .78 with six or more experts, 1.00 with three to five.
+    expect(ICVI_BENCHMARK_LARGE_PANEL).toBe(0.78);
+    expect(LARGE_PANEL).toBe(6);
+    expect(MIN_PANEL_FOR_BENCHMARK).toBe(3);
+    // Polit & Beck (2006): S-CVI/Ave of .90 or more.
+    expect(SCVI_AVE_BENCHMARK).toBe(0.9);
+    // Polit, Beck & Owen (2007): modified kappa > .74 excellent, .60–.74 good, .40–.59 fair.
+    expect(kappaBand(0.75)).toBe('excellent');
+    expect(kappaBand(0.74)).toBe('good');
+    expect(kappaBand(0.6)).toBe('good');
+    expect(kappaBand(0.59)).toBe('fair');
+    expect(kappaBand(0.39)).toBe('poor');
+    // Lawshe (1975): one-tailed .05.
+    expect(CVR_ALPHA).toBe(0.05);
+    // Tabachnick & Fidell (from memory): D² flagged at p < .001.
+    expect(MAHALANOBIS_ALPHA).toBe(0.001);
+  });
+
+  it('states every rule threshold in its wording (common practice rules included)', () => {
+    for (const entry of METHODS.values()) {
+      if (entry.kind !== 'rule') continue;
+      expect(entry.wording.length, entry.id).toBeGreaterThan(20);
+      for (const [name, value] of Object.entries(entry.thresholds)) {
+        const shown = [String(value), String(value).replace(/^0\./, '.'), `${Math.round(value * 100)}%`];
+        if (name === 'scaleMax' || name === 'chance' || name === 'smallPanelMinimum') continue;
+        expect(
+          shown.some((s) => entry.wording.includes(s)),
+          `${entry.id}: ${name} = ${value} is not in "${entry.wording}"`,
+        ).toBe(true);
+      }
+    }
+  });
+
+  it('renders a common-practice entry as such', () => {
+    expect(methodsField(['scoring.reverse-keying'])[0].reference).toMatch(/^Common practice/);
+    expect(ruleThreshold('screening.speeder', 'fractionOfMedian')).toBe(0.5);
+    expect(() => ruleThreshold('alpha.cronbach', 'x')).toThrow('is a method, not a rule');
   });
 });

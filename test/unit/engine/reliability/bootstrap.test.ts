@@ -68,15 +68,15 @@ describe('bootstrapAlpha', () => {
   it('reports progress and stops when asked', () => {
     const seen: number[] = [];
     bootstrapAlpha(names, data, 'listwise', {
-      resamples: 120,
+      resamples: 220,
       seed: 1,
       level: 0.95,
       onProgress: (done, total) => {
-        expect(total).toBe(120);
+        expect(total).toBe(220);
         seen.push(done);
       },
     });
-    expect(seen).toEqual([50, 100, 120]);
+    expect(seen).toEqual([50, 100, 150, 200, 220]);
     let calls = 0;
     const run = () =>
       bootstrapAlpha(names, data, 'listwise', {
@@ -110,10 +110,10 @@ describe('bootstrapAlpha', () => {
 
   it('rejects too few resamples or respondents', () => {
     expect(() => bootstrapAlpha(names, data, 'listwise', { resamples: 10, seed: 1, level: 0.95 })).toThrow(
-      'the bootstrap requires a whole number of at least 100 resamples (got 10)',
+      'the bootstrap requires a whole number of at least 200 resamples (got 10)',
     );
     expect(() =>
-      bootstrapAlpha(names, [data[0]], 'listwise', { resamples: 100, seed: 1, level: 0.95 }),
+      bootstrapAlpha(names, [data[0]], 'listwise', { resamples: 200, seed: 1, level: 0.95 }),
     ).toThrow('the bootstrap requires at least two respondents');
   });
 });
@@ -126,7 +126,7 @@ describe('bootstrapAlpha with listwise deletion', () => {
       [3, null],
     ];
     expect(() =>
-      bootstrapAlpha(['a', 'b'], rows, 'listwise', { resamples: 100, seed: 1, level: 0.95 }),
+      bootstrapAlpha(['a', 'b'], rows, 'listwise', { resamples: 200, seed: 1, level: 0.95 }),
     ).toThrow('the bootstrap requires at least two respondents; found 1 complete respondents');
   });
 });

@@ -8,7 +8,7 @@ import {
 const EXACT_TOL = 1e-12;
 
 describe('Spearman–Brown prophecy', () => {
-  it('doubling a test with ρ = .50 gives .667 (METHODS.md check)', () => {
+  it('doubling a test with ρ = .50 gives 2·.5/1.5 = .667 (Spearman 1910; Brown 1910: the prophecy formula)', () => {
     expect(spearmanBrown(0.5, 2)).toBeCloseTo(0.667, 3);
     expect(Math.abs(spearmanBrown(0.5, 2) - 2 / 3)).toBeLessThan(EXACT_TOL);
   });

@@ -1,0 +1,119 @@
+// Builds the command line into one JavaScript file, app/cli/dist/main.mjs, so that a command starts as
+// a plain Node process instead of transpiling TypeScript on every call. `npm install`/`npm ci` run it
+// (the `prepare` script); the launcher (bin.mjs) calls `ensureCliBuilt` first, which rebuilds only when
+// a source file the bundle was made from has changed, so stale code never runs silently.
+//
+// Plain JavaScript on purpose: it runs before anything else is compiled.
+import fs from 'node:fs';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+
+const here = path.dirname(fileURLToPath(import.meta.url));
+const root = path.resolve(here, '..', '..');
+export const CLI_DIST = path.join(here, 'dist');
+export const CLI_BUNDLE = path.join(CLI_DIST, 'main.mjs');
+const MANIFEST = path.join(CLI_DIST, 'inputs.json');
+
+/**
+ * The files the bundle was built from, each with the modification time and size it had then: the
+ * project's own sources, this script, and package.json (a dependency change reinstalls and rebuilds).
+ */
+function readManifest() {
+  try {
+    return JSON.parse(fs.readFileSync(MANIFEST, 'utf8'));
+  } catch {
+    return null;
+  }
+}
+
+function stamp(file) {
+  const st = fs.statSync(path.join(root, file));
+  return { file, mtimeMs: st.mtimeMs, size: st.size };
+}
+
+/** Why the bundle must be rebuilt, or null when it is current. Costs one stat per source file. */
+export function staleReason() {
+  if (!fs.existsSync(CLI_BUNDLE)) return 'not built yet';
+  const manifest = readManifest();
+  if (!manifest || !Array.isArray(manifest.inputs)) return 'its list of sources is missing';
+  for (const input of manifest.inputs) {
+    let now;
+    try {
+      now = stamp(input.file);
+    } catch {
+      return `${input.file} is gone`;
+    }
+    if (now.mtimeMs !== input.mtimeMs || now.size !== input.size) return `${input.file} changed`;
+  }
+  return null;
+}
+
+/** Bundles app/cli/main.ts with esbuild (better-sqlite3, a native addon, stays external). */
+export async function buildCli() {
+  const { build } = await import('esbuild');
+  const result = await build({
+    entryPoints: [path.join(here, 'main.ts')],
+    outfile: CLI_BUNDLE,
+    bundle: true,
+    platform: 'node',
+    format: 'esm',
+    target: 'node20',
+    sourcemap: true,
+    metafile: true,
+    write: false,
+    logLevel: 'warning',
+    external: ['better-sqlite3'],
+    // Bundled CommonJS dependencies call require(); give the ES module one.
+    banner: {
+      js: "import { createRequire as scalewrightRequire } from 'node:module'; const require = scalewrightRequire(import.meta.url);",
+    },
+  });
+  // Each file is written beside its final name and renamed into place, so that a command starting
+  // while another process rebuilds reads either the old bundle or the new one, never half of one.
+  fs.mkdirSync(CLI_DIST, { recursive: true });
+  for (const file of result.outputFiles) {
+    const temporary = `${file.path}.${process.pid}.tmp`;
+    fs.writeFileSync(temporary, file.contents);
+    fs.renameSync(temporary, file.path);
+  }
+  const own = Object.keys(result.metafile.inputs).filter((f) => !f.includes('node_modules'));
+  const files = [
+    ...own.map((f) => path.relative(root, path.resolve(process.cwd(), f))),
+    'app/cli/build.mjs',
+    'package.json',
+  ];
+  const inputs = [...new Set(files)].sort().map(stamp);
+  const temporary = `${MANIFEST}.${process.pid}.tmp`;
+  fs.writeFileSync(temporary, `${JSON.stringify({ inputs }, null, 1)}\n`);
+  fs.renameSync(temporary, MANIFEST);
+}
+
+/**
+ * Rebuilds when stale (quietly: the output of a command stays exactly what the command prints; set
+ * SCALEWRIGHT_BUILD_LOG=1 to see why a rebuild happened); without esbuild (an install without dev
+ * tools) runs what is there.
+ */
+export async function ensureCliBuilt(
+  log = (line) => {
+    if (process.env.SCALEWRIGHT_BUILD_LOG === '1') process.stderr.write(`${line}\n`);
+  },
+) {
+  const reason = staleReason();
+  if (reason === null) return;
+  try {
+    await import('esbuild');
+  } catch {
+    if (fs.existsSync(CLI_BUNDLE)) return;
+    throw new Error('the command line is not built and esbuild is not installed; run npm install');
+  }
+  if (reason !== 'not built yet') log(`scalewright: rebuilding the command line (${reason})`);
+  await buildCli();
+}
+
+const invoked = process.argv[1] && path.resolve(process.argv[1]) === fileURLToPath(import.meta.url);
+if (invoked) {
+  buildCli().catch((error) => {
+    process.stderr.write(`error: building the command line failed: ${error.message}\n`);
+    process.exitCode = 1;
+  });
+}

@@ -1,0 +1,70 @@
+import { spawnSync } from 'node:child_process';
+import { mkdtempSync, readFileSync, rmSync, statSync, utimesSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
+import { afterAll, describe, expect, it } from 'vitest';
+import { ROOT, runCli } from '../../helpers/cli.ts';
+
+const LAUNCHER = path.join(ROOT, 'app', 'cli', 'bin.mjs');
+const BUNDLE = path.join(ROOT, 'app', 'cli', 'dist', 'main.mjs');
+const dir = mkdtempSync(path.join(tmpdir(), 'scalewright-compiled-'));
+afterAll(() => rmSync(dir, { recursive: true, force: true }));
+
+// Invented demo responses and expert ratings (cycling-confidence items).
+writeFileSync(
+  path.join(dir, 'pilot.csv'),
+  'id,traffic1,traffic2,route1,route2\np1,4,4,3,4\np2,2,3,2,2\np3,5,4,4,5\np4,3,3,3,2\np5,1,2,2,1\np6,4,5,4,4\n',
+);
+writeFileSync(
+  path.join(dir, 'ratings.csv'),
+  'item,expert,relevance\nT1,e1,4\nT1,e2,3\nT1,e3,4\nT2,e1,2\nT2,e2,4\nT2,e3,3\n',
+);
+
+/** The compiled command line through its launcher, as `npm run cli` and the package's bin run it. */
+function runCompiled(args: string[], env: Record<string, string> = {}) {
+  const result = spawnSync(process.execPath, [LAUNCHER, ...args], {
+    cwd: ROOT,
+    encoding: 'utf8',
+    env: { ...process.env, INIT_CWD: dir, SCALEWRIGHT_NAME: 'CLI Tester', ...env },
+  });
+  return { code: result.status ?? -1, stdout: result.stdout, stderr: result.stderr };
+}
+
+describe('the compiled command line', () => {
+  const cases: [string, string[]][] = [
+    ['top-level help', ['--help']],
+    ['no command (usage, exit 2)', []],
+    [
+      'reliability JSON',
+      ['stats', 'reliability', '--data', 'pilot.csv', '--items', 'traffic1,traffic2,route1,route2', '--json'],
+    ],
+    [
+      'reliability table',
+      ['stats', 'reliability', '--data', 'pilot.csv', '--items', 'traffic1,traffic2,route1,route2'],
+    ],
+    ['content JSON', ['stats', 'content', '--ratings', 'ratings.csv', '--json']],
+    ['a usage error', ['stats', 'reliability', '--data', 'pilot.csv', '--itemz', 'a']],
+    ['a data error', ['stats', 'reliability', '--data', 'missing.csv', '--items', 'a,b']],
+  ];
+  it.each(cases)('answers like the sources: %s', (_name, args) => {
+    const compiled = runCompiled(args);
+    const source = runCli(args, { cwd: dir });
+    expect(compiled).toEqual(source);
+  });
+
+  it('rebuilds itself when a source file changed since the build, and can say why', () => {
+    runCompiled(['--help']);
+    const source = path.join(ROOT, 'app', 'cli', 'table.ts');
+    const later = new Date(Date.now() + 5_000);
+    utimesSync(source, later, later);
+    const run = runCompiled(['--help'], { SCALEWRIGHT_BUILD_LOG: '1' });
+    expect(run.code).toBe(0);
+    expect(run.stderr).toContain('rebuilding the command line (app/cli/table.ts changed)');
+    const inputs = JSON.parse(readFileSync(path.join(ROOT, 'app', 'cli', 'dist', 'inputs.json'), 'utf8'));
+    const stamp = inputs.inputs.find((i: { file: string }) => i.file === 'app/cli/table.ts');
+    expect(stamp.mtimeMs).toBe(statSync(source).mtimeMs);
+    const again = runCompiled(['--help'], { SCALEWRIGHT_BUILD_LOG: '1' });
+    expect(again.stderr).toBe('');
+    expect(readFileSync(BUNDLE, 'utf8')).toContain('formatTable');
+  });
+});
