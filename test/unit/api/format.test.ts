@@ -153,7 +153,7 @@ describe('progress of a round counts what was asked', () => {
         names: ['a', 'b', 'c', 'd'],
         data,
         missing: 'listwise',
-        bootstrap: { resamples: 100, seed: 5 },
+        bootstrap: { resamples: 200, seed: 5 },
         facets: [
           { facetId: 1, items: ['a', 'b'] },
           { facetId: 2, items: ['c', 'd'] },
@@ -161,7 +161,7 @@ describe('progress of a round counts what was asked', () => {
       },
       { progress: (_done, _total, note) => note && notes.push(note), shouldStop: () => false },
     );
-    expect(notes.at(-1)).toBe('100 resamples for the scale and 2 facets: facet 2 of 2, resample 100 of 100');
-    expect(notes.some((n) => n.includes('5,000') || n.includes('300 resamples'))).toBe(false);
+    expect(notes.at(-1)).toBe('200 resamples for the scale and 2 facets: facet 2 of 2, resample 200 of 200');
+    expect(notes.some((n) => n.includes('5,000') || n.includes('600 resamples'))).toBe(false);
   });
 });
