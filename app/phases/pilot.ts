@@ -1243,7 +1243,7 @@ export function excludeRespondents(
 export function includeRespondents(
   study: Study,
   datasetId: number,
-  request: { respondents: number[]; reason: string },
+  request: { respondents: number[]; reason: string; reversesRow?: number },
 ): { included: number; ids: string[] } {
   const summary = requireDataset(study, datasetId);
   const reason = checkReason(request.reason, 'these respondents are brought back');
@@ -1274,6 +1274,7 @@ export function includeRespondents(
         earlierReasons: back.map((p) => already.get(p)?.reason ?? ''),
         excludedAfter: already.size - back.length,
         respondentsInFile: encoded.n,
+        ...(request.reversesRow === undefined ? {} : { reverses: request.reversesRow }),
       },
     },
     () =>

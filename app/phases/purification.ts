@@ -831,6 +831,8 @@ export interface DecisionRequest {
   domainRationale: string;
   /** What the round's statistics show. */
   statisticalRationale: string;
+  /** Set when the decision undoes the change logged in this row (its `seq`). */
+  reversesRow?: number;
 }
 
 /**
@@ -968,7 +970,8 @@ export function decideItem(study: Study, request: DecisionRequest): number {
         domainRationale: domain,
         statisticalRationale: statistical,
         statisticsOnly,
-        reverses: reversed ? { action: reversed.action, decidedAt: reversed.decidedAt } : null,
+        reversesDecision: reversed ? { action: reversed.action, decidedAt: reversed.decidedAt } : null,
+        ...(request.reversesRow === undefined ? {} : { reverses: request.reversesRow }),
       },
     },
     () =>
@@ -995,7 +998,7 @@ export function decideItem(study: Study, request: DecisionRequest): number {
 export function reverseDecision(
   study: Study,
   decisionId: number,
-  rationale: { domainRationale: string; statisticalRationale: string },
+  rationale: { domainRationale: string; statisticalRationale: string; reversesRow?: number },
 ): number {
   const d = getDecision(study, decisionId);
   if (!d) throw new RuleError(`there is no item decision ${decisionId} in this study`, 'not-found');

@@ -3,8 +3,9 @@ import { PHASE_IDS } from '../../../db/repos/phase-state.ts';
 import { parseHead, verifyStudy } from '../../../db/verify.ts';
 import { reopenPhase, signOffPhase, studyOverview } from '../../phases/index.ts';
 import { exportLogCsv } from '../../phases/log.ts';
+import { lastChange, undoLastChange } from '../../phases/undo.ts';
 import { command } from '../define.ts';
-import { phase, rationale, text } from './schemas.ts';
+import { id, phase, rationale, text } from './schemas.ts';
 
 /** What the log can be narrowed to: a phase (or the study itself), a kind, an item code, a text. */
 const logFilter = z.object({
@@ -46,6 +47,12 @@ export const coreCommands = {
       head: s.study.log.head() ?? null,
       kinds: s.study.log.kinds(),
     }),
+  ),
+  /** The most recent change in the log, whether undo can reverse it, and what undoing does. */
+  'log.lastChange': command(z.object({}), (s) => lastChange(s.study)),
+  /** Undoes the change in row `seq` (which must be the last change) by its phase's reversal. */
+  'log.undo': command(z.object({ seq: id, reason: rationale }), (s, input) =>
+    undoLastChange(s.study, { seq: input.seq, reason: input.reason }),
   ),
   'log.exportCsv': command(logFilter, (s, input) => exportLogCsv(s.study, input)),
   'log.verify': command(
