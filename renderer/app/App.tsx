@@ -8,6 +8,7 @@ import { DisplayName } from './DisplayName.tsx';
 import { PhaseNotYetAvailable } from './PhaseNotYetAvailable.tsx';
 import { PHASE_SCREENS } from './phase-screens.ts';
 import { StudyScreen } from './StudyScreen.tsx';
+import { UndoLastChange } from './UndoLastChange.tsx';
 
 type Route =
   | { screen: 'overview' }
@@ -83,6 +84,7 @@ function Shell() {
         <a href="#/log" className={route.screen === 'log' ? 'nav-item active' : 'nav-item'}>
           Decision log
         </a>
+        {info.data && <UndoLastChange />}
         {info.data && <DisplayName name={info.data.actor.name} user={info.data.actor.user} />}
       </nav>
       <main className="content">

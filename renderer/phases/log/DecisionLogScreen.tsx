@@ -291,7 +291,12 @@ function LogRow({ entry }: { entry: LogEntry }) {
         <td className="nowrap">{formatTime(entry.at)}</td>
         <td title={entry.actorUser}>{entry.actorName}</td>
         <td>{PHASE_TITLES[entry.phase as PhaseId] ?? entry.phase}</td>
-        <td>{entry.kind.replaceAll('-', ' ')}</td>
+        <td>
+          {entry.kind.replaceAll('-', ' ')}
+          {typeof entry.detail.reverses === 'number' && (
+            <span className="reverses-row"> · reverses row {entry.detail.reverses}</span>
+          )}
+        </td>
         <td>{entry.target}</td>
         <td className="rationale">{entry.rationale}</td>
       </tr>
