@@ -24,7 +24,7 @@ test('Ctrl+Z outside a text field opens the undo confirm; inside a field it stay
   const head = (await page.locator('.log-head-value').textContent()) as string;
   await expect(dialog).toContainText('Last change: row');
   expect(Number(head.split(':')[0])).toBeGreaterThan(0);
-  await page.screenshot({ path: path.join(SCREENSHOTS, 'undo-confirm.png'), fullPage: true });
+  await page.screenshot({ path: path.join(SCREENSHOTS, 'undo-confirm.png') });
   await dialog.getByRole('button', { name: 'Cancel' }).click();
   await expect(dialog).toHaveCount(0);
 
