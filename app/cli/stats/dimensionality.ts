@@ -1,3 +1,4 @@
+import { bounded, boundedSignificant, pValue, unbounded } from '../../api/format.ts';
 import {
   analyzeDimensionality,
   DEFAULT_PA_ITERATIONS,
@@ -13,15 +14,7 @@ import { TaskRunner } from '../../workers/tasks.ts';
 import { formatTable } from '../table.ts';
 import { type StatsAnalysis, UsageError } from '../types.ts';
 import { integerOption, type LoadedItems, loadItemData, numberOption, seedOption } from './data.ts';
-import {
-  correlationKindOption,
-  correlationsOf,
-  cut,
-  engineStep,
-  fixed,
-  factorSpec,
-  pValue,
-} from './factor-common.ts';
+import { correlationKindOption, correlationsOf, cut, engineStep, factorSpec } from './factor-common.ts';
 
 /** Most replications `--iterations` accepts. */
 export const MAX_PA_ITERATIONS = 1_000_000;
@@ -91,11 +84,11 @@ function toTable(loaded: LoadedItems, input: CorrelationInput, d: Dimensionality
     `Dimensionality of ${d.p} items: n = ${d.n} (${input.kind} correlations, ${loaded.missing} deletion)`,
     `  data: ${cut(loaded.file, 90)}`,
     '',
-    `  KMO ${fixed(f.kmo)} (${kmoLabel(f.kmo)}; labels from Kaiser 1974)`,
+    `  KMO ${bounded(f.kmo)} (${kmoLabel(f.kmo)}; labels from Kaiser 1974)`,
     f.bartlett
-      ? `  Bartlett's test of sphericity: χ² = ${fixed(f.bartlett.chiSquare, 2)}, df = ${f.bartlett.df}, p ${pValue(f.bartlett.p).startsWith('<') ? pValue(f.bartlett.p) : `= ${pValue(f.bartlett.p)}`}`
+      ? `  Bartlett's test of sphericity: χ² = ${unbounded(f.bartlett.chiSquare)}, df = ${f.bartlett.df}, ${pValue(f.bartlett.p)}`
       : "  Bartlett's test of sphericity: not defined (singular correlation matrix)",
-    `  determinant of R: ${f.determinant === null ? '—' : f.determinant.toExponential(3)}`,
+    `  determinant of R: ${boundedSignificant(f.determinant)}`,
     '',
   ];
   const hasPa = d.parallel !== null;
@@ -110,12 +103,12 @@ function toTable(loaded: LoadedItems, input: CorrelationInput, d: Dimensionality
   ];
   const rows = d.eigenvalues.map((value, k) => [
     String(k),
-    fixed(value),
-    ...(hasPa ? [fixed(d.parallel?.components.percentile[k])] : []),
-    fixed(d.reducedEigenvalues[k]),
-    ...(hasPa ? [fixed(d.parallel?.factors.percentile[k])] : []),
-    fixed(d.map?.squared[k], 4),
-    fixed(d.map?.fourth[k], 4),
+    unbounded(value, 3),
+    ...(hasPa ? [unbounded(d.parallel?.components.percentile[k], 3)] : []),
+    unbounded(d.reducedEigenvalues[k], 3),
+    ...(hasPa ? [unbounded(d.parallel?.factors.percentile[k], 3)] : []),
+    bounded(d.map?.squared[k], 4),
+    bounded(d.map?.fourth[k], 4),
   ]);
   rows.forEach((row, k) => {
     row[0] = String(k + 1);
