@@ -1,7 +1,6 @@
 import { bounded, NO_VALUE, pCell, pValue, unbounded } from '../../api/format.ts';
+import { sourceNoteLines } from '../../api/source-notes.ts';
 import {
-  AVE_MIN,
-  CR_MIN,
   constructReliability,
   covarianceToCorrelation,
   type FactorReliability,
@@ -42,7 +41,7 @@ const NOTES = `Maximum-likelihood confirmatory factor analysis of a measurement 
 with 90% CI, SRMR, standardized loadings with standard errors, factor correlations, composite
 reliability, AVE, the Fornell-Larcker comparison, HTMT, residual correlations and modification hints.
 
-Cut-offs shown (Hu & Bentler 1999, from memory): CFI and TLI >= .95, RMSEA <= .06, SRMR <= .08.
+Cut-offs shown: CFI and TLI >= .95, RMSEA <= .06, SRMR <= .08; the table's numbered notes give the sources.
 Fit supports, but does not establish, validity; a new scale is not validated for diagnosis, hiring,
 admission or other high-stakes decisions about people.`;
 
@@ -338,8 +337,6 @@ export function cfaTable(loaded: LoadedItems, out: CfaOutput): string {
     `${fitLine('RMSEA', fit.rmsea, '≤ .06', fit.rmsea === null ? null : fit.rmsea <= FIT_CUTOFFS.rmsea)}` +
       `   90% CI ${bounded(fit.rmseaCI?.[0])} to ${bounded(fit.rmseaCI?.[1])}`,
     fitLine('SRMR', fit.srmr, '≤ .08', fit.srmr <= FIT_CUTOFFS.srmr),
-    '  (cut-offs: Hu & Bentler 1999, from memory; RMSEA ≤ .05 close, ≤ .08 reasonable, Browne & Cudeck',
-    '  1993)',
     '',
     formatTable(
       ['item', 'factor', 'loading', 'SE', 'std. loading', 'SE', 'residual var.'],
@@ -383,9 +380,6 @@ export function cfaTable(loaded: LoadedItems, out: CfaOutput): string {
       ]),
       ['left', 'right', 'right', 'right', 'right', 'left'],
     ),
-    `  (CR ≥ ${bounded(CR_MIN, 2)}, common practice; AVE ≥ ${bounded(AVE_MIN, 2)} and √AVE above every ` +
-      'factor correlation:',
-    '  Fornell & Larcker 1981)',
     '',
   );
   if (out.htmt.length > 0) {
@@ -400,7 +394,6 @@ export function cfaTable(loaded: LoadedItems, out: CfaOutput): string {
         ]),
         ['left', 'left', 'right', 'left'],
       ),
-      '  (HTMT below .85 strict, below .90 lenient: Henseler, Ringle & Sarstedt 2015)',
       '',
     );
   }
@@ -444,7 +437,14 @@ export function cfaTable(loaded: LoadedItems, out: CfaOutput): string {
       '',
     );
   }
-  lines.push('A new scale is not validated for diagnosis, hiring, admission or other high-stakes decisions.');
+  const rules = ['cfa.cutoffs', 'rmsea.bands', 'cr.criterion', 'fornell-larcker'];
+  if (out.htmt.length > 0) rules.push('htmt');
+  lines.push(
+    'Rules of thumb shown (sources in the numbered notes)',
+    ...sourceNoteLines(rules, WIDTH),
+    '',
+    'A new scale is not validated for diagnosis, hiring, admission or other high-stakes decisions.',
+  );
   return lines.join('\n').split('\n').map(cut).join('\n');
 }
 

@@ -1,4 +1,5 @@
-import { bounded, boundedSignificant, pValue, unbounded } from '../../api/format.ts';
+import { bounded, boundedSignificant, NO_VALUE, pValue, unbounded } from '../../api/format.ts';
+import { sourceNoteLines } from '../../api/source-notes.ts';
 import {
   analyzeDimensionality,
   DEFAULT_PA_ITERATIONS,
@@ -84,7 +85,7 @@ function toTable(loaded: LoadedItems, input: CorrelationInput, d: Dimensionality
     `Dimensionality of ${d.p} items: n = ${d.n} (${input.kind} correlations, ${loaded.missing} deletion)`,
     `  data: ${cut(loaded.file, 90)}`,
     '',
-    `  KMO ${bounded(f.kmo)} (${kmoLabel(f.kmo)}; labels from Kaiser 1974)`,
+    `  KMO ${bounded(f.kmo)} (${kmoLabel(f.kmo)} [1])`,
     f.bartlett
       ? `  Bartlett's test of sphericity: χ² = ${unbounded(f.bartlett.chiSquare)}, df = ${f.bartlett.df}, ${pValue(f.bartlett.p)}`
       : "  Bartlett's test of sphericity: not defined (singular correlation matrix)",
@@ -125,10 +126,10 @@ function toTable(loaded: LoadedItems, input: CorrelationInput, d: Dimensionality
     '',
     '  How many factors (shown side by side; the choice is yours):',
     `    Kaiser (eigenvalues > 1)             ${d.suggested.kaiser}`,
-    `    parallel analysis, components        ${d.suggested.parallel ?? '—'}`,
-    `    parallel analysis, common factors    ${d.suggested.parallelFactors ?? '—'}`,
-    `    MAP, squared partials                ${d.suggested.map ?? '—'}`,
-    `    MAP, 4th-power partials              ${d.suggested.mapFourth ?? '—'}`,
+    `    parallel analysis, components        ${d.suggested.parallel ?? NO_VALUE}`,
+    `    parallel analysis, common factors    ${d.suggested.parallelFactors ?? NO_VALUE}`,
+    `    MAP, squared partials                ${d.suggested.map ?? NO_VALUE}`,
+    `    MAP, 4th-power partials              ${d.suggested.mapFourth ?? NO_VALUE}`,
   );
   if (d.parallel)
     lines.push(
@@ -138,8 +139,9 @@ function toTable(loaded: LoadedItems, input: CorrelationInput, d: Dimensionality
   const low = loaded.names.filter((_, i) => f.msa[i] < 0.5);
   if (low.length > 0) lines.push(`  MSA below .50 (unacceptable): ${low.map((s) => cut(s)).join(', ')}`);
   lines.push(
-    '  sample size (Comrey & Lee 1992, from memory):',
-    '    100 poor, 200 fair, 300 good, 500 very good, 1000 excellent',
+    '',
+    'Rules of thumb shown (sources in the numbered notes)',
+    ...sourceNoteLines(['efa.kmo-labels', 'rule.efa-sample-size']),
   );
   return lines.join('\n');
 }

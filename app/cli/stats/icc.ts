@@ -1,5 +1,6 @@
 import { EngineError } from '../../engine/errors.ts';
 import { bounded, pCell, unbounded } from '../../api/format.ts';
+import { sourceNoteLines } from '../../api/source-notes.ts';
 import {
   DEFAULT_ICC_LEVEL,
   type IccResult,
@@ -101,10 +102,12 @@ export function iccTable(loaded: LoadedItems, out: IccOutput): string {
       ]),
       ['left', 'left', 'left', 'left', 'right', 'right', 'right', 'right', 'right', 'right'],
     ),
-    '  (Shrout & Fleiss 1979; intervals and F tests: McGraw & Wong 1996)',
     '',
     `  from ${SEM_FORM}: pooled SD ${unbounded(out.measurement.sdTotal)}, SEM ${unbounded(out.measurement.sem)}, ` +
-      `MDC95 ${unbounded(out.measurement.mdc95)} (1.96·√2·SEM, common practice)`,
+      `MDC95 ${unbounded(out.measurement.mdc95)}`,
+    '',
+    'Methods and rules of thumb shown (sources in the numbered notes)',
+    ...sourceNoteLines(['icc.shrout-fleiss', 'icc.mcgraw-wong-ci', 'icc.sem', 'icc.mdc95']),
     '',
     'A new scale is not validated for diagnosis, hiring, admission or other high-stakes decisions.',
   ].join('\n');
