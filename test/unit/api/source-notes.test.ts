@@ -2,6 +2,7 @@ import { createElement } from 'react';
 import { renderToStaticMarkup } from 'react-dom/server';
 import { describe, expect, it } from 'vitest';
 import { sourceNoteLines, sourceNotes } from '../../../app/api/source-notes.ts';
+import { RULES_OF_THUMB } from '../../../app/phases/purification.ts';
 import { SourceNotes } from '../../../renderer/shared/source-notes.tsx';
 
 // The sources quoted below are the registry's own entries (app/engine/methods/); the check is that
@@ -43,5 +44,14 @@ describe('source notes', () => {
       /\|Kaiser, H\. F\. \(1974\)\. An index of factorial simplicity\..*\[Details from memory\.\]\|/,
     );
     expect(html).toMatch(/<ol class="source-notes-list"><li>Kaiser/);
+  });
+
+  it('the purification legend states no source mid-sentence; the kurtosis rule points to its note', () => {
+    for (const r of RULES_OF_THUMB) expect(r.statement, r.rule).not.toMatch(/from memory|\d{4}\)/i);
+    const kurtosis = RULES_OF_THUMB.find((r) => r.rule === 'kurtosis');
+    expect(kurtosis?.source).toBe('items.kurtosis');
+    expect(sourceNotes(['items.kurtosis']).notes[0]).toMatch(
+      /West, S\. G\., Finch, J\. F\., & Curran, P\. J\. \(1995\).*\[Details from memory\.\]$/,
+    );
   });
 });
