@@ -34,6 +34,17 @@ export function bounded(x: Maybe, digits = 3): string {
   return fixed(x, digits).replace(/^(\u2212?)0\./, '$1.');
 }
 
+/**
+ * A small bounded quantity (a determinant of a correlation matrix, a tiny share) to `significant`
+ * digits, still without exponent notation: `.0000123`. Beyond `maxDigits` decimals it reads as zero.
+ */
+export function boundedSignificant(x: Maybe, significant = 3, maxDigits = 12): string {
+  if (missing(x)) return NO_VALUE;
+  const abs = Math.abs(x);
+  const needed = abs === 0 ? 3 : significant - 1 - Math.floor(Math.log10(abs));
+  return bounded(x, Math.max(3, Math.min(maxDigits, needed)));
+}
+
 /** An unbounded statistic (mean, SD, t, F, χ², skewness): `3.41`, `−0.52`, `1,204.50`. */
 export function unbounded(x: Maybe, digits = 2): string {
   if (missing(x)) return NO_VALUE;

@@ -29,6 +29,7 @@ import {
   type ReliabilityCriterion,
   reliabilityCriterion,
 } from '../engine/reliability/criterion.ts';
+import { methodEntry, ruleThreshold } from '../engine/methods/index.ts';
 import { MIN_BOOTSTRAP_RESAMPLES } from '../engine/reliability/bootstrap.ts';
 import { reverseScore, type ScaleBounds } from '../engine/scoring.ts';
 import { JOBS, type RoundJobInput, type RoundJobOutput } from '../workers/jobs.ts';
@@ -50,8 +51,8 @@ export const ROUND_RULES = {
   minAlphaRise: 0.001,
   /** Common practice: |skewness| above 2 marks a strongly lopsided item. */
   maxAbsSkewness: 2,
-  /** |Excess kurtosis| above 7 (West, Finch & Curran 1995, from memory). */
-  maxAbsKurtosis: 7,
+  /** |Excess kurtosis| above 7. Registry: `items.kurtosis`. */
+  maxAbsKurtosis: ruleThreshold('items.kurtosis', 'maxAbs'),
   /** Common practice: more than 15% of answers at the lowest or highest category. */
   maxFloorCeilingShare: 0.15,
   /** Common practice: more than 10% of respondents left the item unanswered. */
@@ -77,6 +78,14 @@ export interface RuleOfThumb {
   label: string;
   /** The rule in words, with where it comes from; shown in the legend and as a tooltip. */
   statement: string;
+  /** The methods-registry id whose published source a numbered note under the legend gives. */
+  source?: string;
+}
+
+/** A registry rule's wording, without its source (a numbered note gives that). */
+function methodWording(id: string): string {
+  const entry = methodEntry(id);
+  return entry.kind === 'rule' ? entry.wording : entry.name;
 }
 
 export const RULES_OF_THUMB: readonly RuleOfThumb[] = [
@@ -105,7 +114,8 @@ export const RULES_OF_THUMB: readonly RuleOfThumb[] = [
   {
     rule: 'kurtosis',
     label: 'kurtosis',
-    statement: `|Excess kurtosis| above ${ROUND_RULES.maxAbsKurtosis} (West, Finch & Curran 1995, from memory).`,
+    statement: methodWording('items.kurtosis'),
+    source: 'items.kurtosis',
   },
   {
     rule: 'floor',

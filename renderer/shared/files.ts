@@ -1,3 +1,4 @@
+import { count, unbounded } from '../../app/api/format.ts';
 /** Chunk size for turning bytes into a binary string (keeps String.fromCharCode within argument limits). */
 const CHUNK = 0x8000;
 
@@ -23,7 +24,7 @@ export function downloadText(fileName: string, text: string, type = 'text/csv;ch
 
 /** "12.3 KB" for file sizes. */
 export function formatBytes(bytes: number): string {
-  if (bytes < 1024) return `${bytes} bytes`;
-  if (bytes < 1024 * 1024) return `${(bytes / 1024).toFixed(1)} KB`;
-  return `${(bytes / 1024 / 1024).toFixed(1)} MB`;
+  if (bytes < 1024) return `${count(bytes)} bytes`;
+  if (bytes < 1024 * 1024) return `${unbounded(bytes / 1024, 1)} KB`;
+  return `${unbounded(bytes / 1024 / 1024, 1)} MB`;
 }

@@ -1,7 +1,6 @@
-import { pValue } from '../../api/format.ts';
+import { bounded, NO_VALUE, pCell, pValue, unbounded } from '../../api/format.ts';
+import { sourceNoteLines } from '../../api/source-notes.ts';
 import {
-  AVE_MIN,
-  CR_MIN,
   constructReliability,
   covarianceToCorrelation,
   type FactorReliability,
@@ -42,7 +41,7 @@ const NOTES = `Maximum-likelihood confirmatory factor analysis of a measurement 
 with 90% CI, SRMR, standardized loadings with standard errors, factor correlations, composite
 reliability, AVE, the Fornell-Larcker comparison, HTMT, residual correlations and modification hints.
 
-Cut-offs shown (Hu & Bentler 1999, from memory): CFI and TLI >= .95, RMSEA <= .06, SRMR <= .08.
+Cut-offs shown: CFI and TLI >= .95, RMSEA <= .06, SRMR <= .08; the table's numbered notes give the sources.
 Fit supports, but does not establish, validity; a new scale is not validated for diagnosis, hiring,
 admission or other high-stakes decisions about people.`;
 
@@ -167,14 +166,8 @@ export function parseModelFile(file: string, source: string): CfaModel {
   return model;
 }
 
-function round(x: number | null | undefined, digits = 3): string {
-  if (x === null || x === undefined || !Number.isFinite(x)) return '—';
-  const t = x.toFixed(digits);
-  return Number(t) === 0 ? t.replace('-', '') : t;
-}
-
 function fitLine(label: string, value: number | null, rule: string, ok: boolean | null): string {
-  return `  ${label.padEnd(8)} ${round(value).padStart(7)}   ${rule}${ok === null ? '' : ok ? '  met' : '  not met'}`;
+  return `  ${label.padEnd(8)} ${bounded(value).padStart(7)}   ${rule}${ok === null ? '' : ok ? '  met' : '  not met'}`;
 }
 
 function cut(line: string): string {
@@ -338,25 +331,23 @@ export function cfaTable(loaded: LoadedItems, out: CfaOutput): string {
     `n = ${fit.n} (listwise: ${out.dropped} of ${out.respondents} respondents left out)` +
       `${fit.converged ? `, converged in ${fit.iterations} steps` : ', DID NOT CONVERGE'}`,
     '',
-    `  chi-square ${round(fit.chiSquare, 2)} on ${fit.df} df, ${pValue(fit.p)}`,
+    `  chi-square ${unbounded(fit.chiSquare)} on ${fit.df} df, ${pValue(fit.p)}`,
     fitLine('CFI', fit.cfi, '≥ .95', fit.cfi === null ? null : fit.cfi >= FIT_CUTOFFS.cfi),
     fitLine('TLI', fit.tli, '≥ .95', fit.tli === null ? null : fit.tli >= FIT_CUTOFFS.tli),
     `${fitLine('RMSEA', fit.rmsea, '≤ .06', fit.rmsea === null ? null : fit.rmsea <= FIT_CUTOFFS.rmsea)}` +
-      `   90% CI ${round(fit.rmseaCI?.[0])} to ${round(fit.rmseaCI?.[1])}`,
+      `   90% CI ${bounded(fit.rmseaCI?.[0])} to ${bounded(fit.rmseaCI?.[1])}`,
     fitLine('SRMR', fit.srmr, '≤ .08', fit.srmr <= FIT_CUTOFFS.srmr),
-    '  (cut-offs: Hu & Bentler 1999, from memory; RMSEA ≤ .05 close, ≤ .08 reasonable, Browne & Cudeck',
-    '  1993)',
     '',
     formatTable(
       ['item', 'factor', 'loading', 'SE', 'std. loading', 'SE', 'residual var.'],
       fit.loadings.map((l) => [
         short(l.item, 20),
         short(l.factor, 20),
-        round(l.estimate),
-        round(l.se),
-        round(l.standardized),
-        round(l.standardizedSE),
-        round(g.standardizedResidualVariances[fit.items.indexOf(l.item)]),
+        unbounded(l.estimate, 3),
+        unbounded(l.se, 3),
+        bounded(l.standardized),
+        bounded(l.standardizedSE),
+        bounded(g.standardizedResidualVariances[fit.items.indexOf(l.item)]),
       ]),
       ['left', 'left', 'right', 'right', 'right', 'right', 'right'],
     ),
@@ -368,7 +359,7 @@ export function cfaTable(loaded: LoadedItems, out: CfaOutput): string {
       'Factor correlations',
       formatTable(
         ['', ...shown.map((f) => short(f))],
-        shown.map((f, j) => [short(f), ...shown.map((_, k) => round(g.factorCorrelations[j][k], 2))]),
+        shown.map((f, j) => [short(f), ...shown.map((_, k) => bounded(g.factorCorrelations[j][k], 2))]),
         ['left', ...shown.map(() => 'right' as const)],
       ),
     );
@@ -381,17 +372,14 @@ export function cfaTable(loaded: LoadedItems, out: CfaOutput): string {
       ['factor', 'CR', 'AVE', '√AVE', 'max |r|', 'Fornell–Larcker'],
       out.reliability.map((r) => [
         short(r.factor, 20),
-        round(r.compositeReliability),
-        round(r.ave),
-        round(r.sqrtAve),
-        round(r.maxCorrelation),
+        bounded(r.compositeReliability),
+        bounded(r.ave),
+        bounded(r.sqrtAve),
+        bounded(r.maxCorrelation),
         r.fornellLarcker ? 'met' : 'not met',
       ]),
       ['left', 'right', 'right', 'right', 'right', 'left'],
     ),
-    `  (CR ≥ ${CR_MIN.toFixed(2)}, common practice; AVE ≥ ${AVE_MIN.toFixed(2)} and √AVE above every ` +
-      'factor correlation:',
-    '  Fornell & Larcker 1981)',
     '',
   );
   if (out.htmt.length > 0) {
@@ -401,12 +389,11 @@ export function cfaTable(loaded: LoadedItems, out: CfaOutput): string {
         out.htmt.map((h) => [
           short(h.a, 20),
           short(h.b, 20),
-          round(h.value),
+          bounded(h.value),
           h.verdict ?? 'needs 2+ items each',
         ]),
         ['left', 'left', 'right', 'left'],
       ),
-      '  (HTMT below .85 strict, below .90 lenient: Henseler, Ringle & Sarstedt 2015)',
       '',
     );
   }
@@ -418,8 +405,8 @@ export function cfaTable(loaded: LoadedItems, out: CfaOutput): string {
           h.kind,
           short(h.a, 20),
           short(h.b, 20),
-          round(h.mi, 2),
-          round(h.standardizedEpc),
+          unbounded(h.mi),
+          unbounded(h.standardizedEpc, 3),
         ]),
         ['left', 'left', 'left', 'right', 'right'],
       ),
@@ -434,14 +421,14 @@ export function cfaTable(loaded: LoadedItems, out: CfaOutput): string {
         ['invariance step', 'chi-square', 'df', 'CFI', 'RMSEA', 'Δχ²', 'Δdf', 'p', 'ΔCFI', 'holds'],
         inv.steps.map((s) => [
           s.step,
-          round(s.fit.chiSquare, 2),
+          unbounded(s.fit.chiSquare),
           String(s.fit.df),
-          round(s.fit.cfi),
-          round(s.fit.rmsea),
-          round(s.deltaChiSquare, 2),
-          s.deltaDf === null ? '—' : String(s.deltaDf),
-          round(s.deltaP),
-          round(s.deltaCfi),
+          bounded(s.fit.cfi),
+          bounded(s.fit.rmsea),
+          unbounded(s.deltaChiSquare),
+          s.deltaDf === null ? NO_VALUE : String(s.deltaDf),
+          pCell(s.deltaP),
+          bounded(s.deltaCfi),
           s.holds ? 'yes' : 'no',
         ]),
         ['left', 'right', 'right', 'right', 'right', 'right', 'right', 'right', 'right', 'left'],
@@ -450,7 +437,14 @@ export function cfaTable(loaded: LoadedItems, out: CfaOutput): string {
       '',
     );
   }
-  lines.push('A new scale is not validated for diagnosis, hiring, admission or other high-stakes decisions.');
+  const rules = ['cfa.cutoffs', 'rmsea.bands', 'cr.criterion', 'fornell-larcker'];
+  if (out.htmt.length > 0) rules.push('htmt');
+  lines.push(
+    'Rules of thumb shown (sources in the numbered notes)',
+    ...sourceNoteLines(rules, WIDTH),
+    '',
+    'A new scale is not validated for diagnosis, hiring, admission or other high-stakes decisions.',
+  );
   return lines.join('\n').split('\n').map(cut).join('\n');
 }
 

@@ -1,3 +1,5 @@
+import { bounded, boundedSignificant, NO_VALUE, pValue, unbounded } from '../../api/format.ts';
+import { sourceNoteLines } from '../../api/source-notes.ts';
 import {
   analyzeDimensionality,
   DEFAULT_PA_ITERATIONS,
@@ -13,15 +15,7 @@ import { TaskRunner } from '../../workers/tasks.ts';
 import { formatTable } from '../table.ts';
 import { type StatsAnalysis, UsageError } from '../types.ts';
 import { integerOption, type LoadedItems, loadItemData, numberOption, seedOption } from './data.ts';
-import {
-  correlationKindOption,
-  correlationsOf,
-  cut,
-  engineStep,
-  fixed,
-  factorSpec,
-  pValue,
-} from './factor-common.ts';
+import { correlationKindOption, correlationsOf, cut, engineStep, factorSpec } from './factor-common.ts';
 
 /** Most replications `--iterations` accepts. */
 export const MAX_PA_ITERATIONS = 1_000_000;
@@ -91,11 +85,11 @@ function toTable(loaded: LoadedItems, input: CorrelationInput, d: Dimensionality
     `Dimensionality of ${d.p} items: n = ${d.n} (${input.kind} correlations, ${loaded.missing} deletion)`,
     `  data: ${cut(loaded.file, 90)}`,
     '',
-    `  KMO ${fixed(f.kmo)} (${kmoLabel(f.kmo)}; labels from Kaiser 1974)`,
+    `  KMO ${bounded(f.kmo)} (${kmoLabel(f.kmo)} [1])`,
     f.bartlett
-      ? `  Bartlett's test of sphericity: χ² = ${fixed(f.bartlett.chiSquare, 2)}, df = ${f.bartlett.df}, p ${pValue(f.bartlett.p).startsWith('<') ? pValue(f.bartlett.p) : `= ${pValue(f.bartlett.p)}`}`
+      ? `  Bartlett's test of sphericity: χ² = ${unbounded(f.bartlett.chiSquare)}, df = ${f.bartlett.df}, ${pValue(f.bartlett.p)}`
       : "  Bartlett's test of sphericity: not defined (singular correlation matrix)",
-    `  determinant of R: ${f.determinant === null ? '—' : f.determinant.toExponential(3)}`,
+    `  determinant of R: ${boundedSignificant(f.determinant)}`,
     '',
   ];
   const hasPa = d.parallel !== null;
@@ -110,12 +104,12 @@ function toTable(loaded: LoadedItems, input: CorrelationInput, d: Dimensionality
   ];
   const rows = d.eigenvalues.map((value, k) => [
     String(k),
-    fixed(value),
-    ...(hasPa ? [fixed(d.parallel?.components.percentile[k])] : []),
-    fixed(d.reducedEigenvalues[k]),
-    ...(hasPa ? [fixed(d.parallel?.factors.percentile[k])] : []),
-    fixed(d.map?.squared[k], 4),
-    fixed(d.map?.fourth[k], 4),
+    unbounded(value, 3),
+    ...(hasPa ? [unbounded(d.parallel?.components.percentile[k], 3)] : []),
+    unbounded(d.reducedEigenvalues[k], 3),
+    ...(hasPa ? [unbounded(d.parallel?.factors.percentile[k], 3)] : []),
+    bounded(d.map?.squared[k], 4),
+    bounded(d.map?.fourth[k], 4),
   ]);
   rows.forEach((row, k) => {
     row[0] = String(k + 1);
@@ -132,10 +126,10 @@ function toTable(loaded: LoadedItems, input: CorrelationInput, d: Dimensionality
     '',
     '  How many factors (shown side by side; the choice is yours):',
     `    Kaiser (eigenvalues > 1)             ${d.suggested.kaiser}`,
-    `    parallel analysis, components        ${d.suggested.parallel ?? '—'}`,
-    `    parallel analysis, common factors    ${d.suggested.parallelFactors ?? '—'}`,
-    `    MAP, squared partials                ${d.suggested.map ?? '—'}`,
-    `    MAP, 4th-power partials              ${d.suggested.mapFourth ?? '—'}`,
+    `    parallel analysis, components        ${d.suggested.parallel ?? NO_VALUE}`,
+    `    parallel analysis, common factors    ${d.suggested.parallelFactors ?? NO_VALUE}`,
+    `    MAP, squared partials                ${d.suggested.map ?? NO_VALUE}`,
+    `    MAP, 4th-power partials              ${d.suggested.mapFourth ?? NO_VALUE}`,
   );
   if (d.parallel)
     lines.push(
@@ -145,8 +139,9 @@ function toTable(loaded: LoadedItems, input: CorrelationInput, d: Dimensionality
   const low = loaded.names.filter((_, i) => f.msa[i] < 0.5);
   if (low.length > 0) lines.push(`  MSA below .50 (unacceptable): ${low.map((s) => cut(s)).join(', ')}`);
   lines.push(
-    '  sample size (Comrey & Lee 1992, from memory):',
-    '    100 poor, 200 fair, 300 good, 500 very good, 1000 excellent',
+    '',
+    'Rules of thumb shown (sources in the numbered notes)',
+    ...sourceNoteLines(['efa.kmo-labels', 'rule.efa-sample-size']),
   );
   return lines.join('\n');
 }

@@ -1,3 +1,4 @@
+import { bounded, pValue, unbounded } from '../../api/format.ts';
 import { type EfaResult, exploratoryFactorAnalysis } from '../../engine/factor/efa.ts';
 import type { ExtractionMethod } from '../../engine/factor/extraction.ts';
 import type { CorrelationInput } from '../../engine/factor/input.ts';
@@ -19,10 +20,8 @@ import {
   correlationsOf,
   cut,
   engineStep,
-  fixed,
   NAME_WIDTH,
   factorSpec,
-  pValue,
 } from './factor-common.ts';
 
 const EXTRACTIONS = ['paf', 'minres', 'ml'] as const;
@@ -126,16 +125,20 @@ function toTable(loaded: LoadedItems, input: CorrelationInput, r: EfaResult): st
     const header = ['item', ...block.map((k) => `F${k + 1}`), ...(last ? ['h²', 'flags'] : [])];
     const rows = loaded.names.map((name, i) => [
       cut(name),
-      ...block.map((k) => fixed(r.loadings[i][k], 2)),
+      ...block.map((k) => bounded(r.loadings[i][k], 2)),
       ...(last
         ? [
-            fixed(r.communalities[i], 2),
+            bounded(r.communalities[i], 2),
             r.flags[i].notes.length > 0 ? '*'.repeat(r.flags[i].notes.length) : '',
           ]
         : []),
     ]);
-    rows.push(['SS', ...block.map((k) => fixed(r.variance[k].ss, 2)), ...(last ? ['', ''] : [])]);
-    rows.push(['share', ...block.map((k) => fixed(r.variance[k].proportion, 2)), ...(last ? ['', ''] : [])]);
+    rows.push(['SS', ...block.map((k) => unbounded(r.variance[k].ss)), ...(last ? ['', ''] : [])]);
+    rows.push([
+      'share',
+      ...block.map((k) => bounded(r.variance[k].proportion, 2)),
+      ...(last ? ['', ''] : []),
+    ]);
     lines.push(
       formatTable(
         header,
@@ -146,7 +149,7 @@ function toTable(loaded: LoadedItems, input: CorrelationInput, r: EfaResult): st
     );
   }
   lines.push(
-    `  ${r.oblique ? 'pattern loadings; SS of an oblique factor overlaps the others' : 'loadings'}; common variance ${fixed(r.totalProportion, 2)} of the total`,
+    `  ${r.oblique ? 'pattern loadings; SS of an oblique factor overlaps the others' : 'loadings'}; common variance ${bounded(r.totalProportion, 2)} of the total`,
   );
   if (r.oblique && r.factors > 1) {
     lines.push('', '  factor correlations');
@@ -154,7 +157,7 @@ function toTable(loaded: LoadedItems, input: CorrelationInput, r: EfaResult): st
       lines.push(
         formatTable(
           ['', ...block.map((k) => `F${k + 1}`)],
-          r.factorCorrelations.map((row, i) => [`F${i + 1}`, ...block.map((k) => fixed(row[k], 2))]),
+          r.factorCorrelations.map((row, i) => [`F${i + 1}`, ...block.map((k) => bounded(row[k], 2))]),
           ['left', ...block.map(() => 'right' as const)],
         ),
       );
@@ -165,20 +168,20 @@ function toTable(loaded: LoadedItems, input: CorrelationInput, r: EfaResult): st
     lines.push(
       '',
       f.p === null
-        ? `  fit: χ² = ${fixed(f.chiSquare, 2)}, df = 0 (just identified; nothing to test)`
-        : `  fit: χ² = ${fixed(f.chiSquare, 2)}, df = ${f.df}, p ${pValue(f.p).startsWith('<') ? pValue(f.p) : `= ${pValue(f.p)}`}; ` +
-            `RMSEA ${fixed(f.rmsea)} (90% CI ${fixed(f.rmseaCI?.lower)} to ${fixed(f.rmseaCI?.upper)}); TLI ${fixed(f.tli)}`,
+        ? `  fit: χ² = ${unbounded(f.chiSquare)}, df = 0 (just identified; nothing to test)`
+        : `  fit: χ² = ${unbounded(f.chiSquare)}, df = ${f.df}, ${pValue(f.p)}; ` +
+            `RMSEA ${bounded(f.rmsea)} (90% CI ${bounded(f.rmseaCI?.lower)} to ${bounded(f.rmseaCI?.upper)}); TLI ${bounded(f.tli)}`,
     );
   }
   if (r.omega) {
     lines.push(
       '',
-      `  omega hierarchical ${fixed(r.omega.omegaHierarchical)}, omega total ${fixed(r.omega.omegaTotal)}`,
+      `  omega hierarchical ${bounded(r.omega.omegaHierarchical)}, omega total ${bounded(r.omega.omegaTotal)}`,
       `    from the ${r.omega.model}`,
     );
     for (const f of r.omega.facets) {
       lines.push(
-        `    F${f.factor + 1} (${f.items.length} items): omega total ${fixed(f.omegaTotal)}, general share ${fixed(f.omegaHierarchical)}, own factor ${fixed(f.omegaGroup)}`,
+        `    F${f.factor + 1} (${f.items.length} items): omega total ${bounded(f.omegaTotal)}, general share ${bounded(f.omegaHierarchical)}, own factor ${bounded(f.omegaGroup)}`,
       );
     }
   }

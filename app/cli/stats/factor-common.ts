@@ -55,19 +55,6 @@ export function engineStep<T>(file: string, run: () => T): T {
   }
 }
 
-/** A number rounded for a table; a value that rounds to zero prints without a minus sign. */
-export function fixed(x: number | null | undefined, digits = 3): string {
-  if (x === null || x === undefined || !Number.isFinite(x)) return '—';
-  const text = x.toFixed(digits);
-  return Number(text) === 0 ? text.replace('-', '') : text;
-}
-
-/** A p-value for a table: "< .001" below that. */
-export function pValue(p: number | null): string {
-  if (p === null) return '—';
-  return p < 0.001 ? '< .001' : fixed(p, 3);
-}
-
 /** An item name cut to `width` characters with an ellipsis. */
 export function cut(name: string, width = NAME_WIDTH): string {
   return name.length <= width ? name : `${name.slice(0, width - 1)}…`;

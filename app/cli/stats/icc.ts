@@ -1,5 +1,6 @@
 import { EngineError } from '../../engine/errors.ts';
-import { pCell } from '../../api/format.ts';
+import { bounded, pCell, unbounded } from '../../api/format.ts';
+import { sourceNoteLines } from '../../api/source-notes.ts';
 import {
   DEFAULT_ICC_LEVEL,
   type IccResult,
@@ -32,12 +33,6 @@ rater or occasion (test and retest).
 SEM = SD·√(1 − ICC) with the SD pooled over occasions; MDC95 = 1.96·√2·SEM (common practice).
 Reliability supports, but does not establish, fitness for a use; a new scale is not validated for
 diagnosis, hiring, admission or other high-stakes decisions about people.`;
-
-function round(x: number | null | undefined, digits = 3): string {
-  if (x === null || x === undefined || !Number.isFinite(x)) return '—';
-  const t = x.toFixed(digits);
-  return Number(t) === 0 ? t.replace('-', '') : t;
-}
 
 interface IccOutput {
   result: IccResult;
@@ -98,19 +93,21 @@ export function iccTable(loaded: LoadedItems, out: IccOutput): string {
         f.model,
         f.type,
         f.unit,
-        round(f.value),
-        `${round(f.lower)} to ${round(f.upper)}`,
-        round(f.F, 2),
+        bounded(f.value),
+        `${bounded(f.lower)} to ${bounded(f.upper)}`,
+        unbounded(f.F),
         String(f.df1),
         String(f.df2),
         pCell(f.p),
       ]),
       ['left', 'left', 'left', 'left', 'right', 'right', 'right', 'right', 'right', 'right'],
     ),
-    '  (Shrout & Fleiss 1979; intervals and F tests: McGraw & Wong 1996)',
     '',
-    `  from ${SEM_FORM}: pooled SD ${round(out.measurement.sdTotal, 2)}, SEM ${round(out.measurement.sem, 2)}, ` +
-      `MDC95 ${round(out.measurement.mdc95, 2)} (1.96·√2·SEM, common practice)`,
+    `  from ${SEM_FORM}: pooled SD ${unbounded(out.measurement.sdTotal)}, SEM ${unbounded(out.measurement.sem)}, ` +
+      `MDC95 ${unbounded(out.measurement.mdc95)}`,
+    '',
+    'Methods and rules of thumb shown (sources in the numbered notes)',
+    ...sourceNoteLines(['icc.shrout-fleiss', 'icc.mcgraw-wong-ci', 'icc.sem', 'icc.mdc95']),
     '',
     'A new scale is not validated for diagnosis, hiring, admission or other high-stakes decisions.',
   ].join('\n');
@@ -170,7 +167,7 @@ export const icc: StatsAnalysis = {
       const basis = result.forms.find((f) => f.form === SEM_FORM);
       if (!basis) throw new EngineError(`${SEM_FORM} is missing from the results`);
       if (basis.value < 0)
-        warnings.push(`${SEM_FORM} is negative (${round(basis.value)}); the SEM then exceeds the SD`);
+        warnings.push(`${SEM_FORM} is negative (${bounded(basis.value)}); the SEM then exceeds the SD`);
       out = { result, measurement: iccMeasurementError(complete, Math.min(basis.value, 1)), dropped };
     } catch (error) {
       if (error instanceof EngineError) throw new DataError(`${loaded.file}: ${error.message}`);

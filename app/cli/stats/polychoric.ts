@@ -4,7 +4,8 @@ import { ENGINE_VERSION } from '../../engine/version.ts';
 import { formatTable } from '../table.ts';
 import { type StatsAnalysis, UsageError } from '../types.ts';
 import { loadItemData } from './data.ts';
-import { columnBlocks, cut, engineStep, factorSpec, fixed } from './factor-common.ts';
+import { bounded, unbounded } from '../../api/format.ts';
+import { columnBlocks, cut, engineStep, factorSpec } from './factor-common.ts';
 
 /** `stats polychoric`: the polychoric correlation matrix and thresholds of ordinal items. */
 export const polychoric: StatsAnalysis = {
@@ -57,7 +58,7 @@ export const polychoric: StatsAnalysis = {
           ['item', ...block.map((k) => String(k + 1))],
           loaded.names.map((name, i) => [
             `${i + 1} ${cut(name)}`,
-            ...block.map((k) => fixed(input.matrix[i][k], 2)),
+            ...block.map((k) => bounded(input.matrix[i][k], 2)),
           ]),
           ['left', ...block.map(() => 'right' as const)],
         ),
@@ -66,7 +67,7 @@ export const polychoric: StatsAnalysis = {
     }
     lines.push('thresholds (z values between adjacent answer categories)');
     for (const [i, name] of loaded.names.entries()) {
-      const row = `  ${cut(name)}: ${thresholds[i].map((t) => fixed(t, 2)).join('  ')}`;
+      const row = `  ${cut(name)}: ${thresholds[i].map((t) => unbounded(t)).join('  ')}`;
       lines.push(row.length > 100 ? `${row.slice(0, 99)}…` : row);
     }
     return { json, table: lines.join('\n'), warnings: [...loaded.warnings, ...input.warnings] };

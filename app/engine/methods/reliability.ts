@@ -184,6 +184,24 @@ export const RELIABILITY_METHODS: RegistryEntry[] = [
     references: [NUNNALLY_BERNSTEIN_1994],
   },
   {
+    kind: 'rule',
+    id: 'items.kurtosis',
+    name: 'Excess kurtosis of an item',
+    wording: 'An item whose excess kurtosis exceeds 7 in absolute value is far from normal in its tails.',
+    thresholds: { maxAbs: 7 },
+    references: [
+      {
+        authors: ['West, S. G.', 'Finch, J. F.', 'Curran, P. J.'],
+        year: 1995,
+        title: 'Structural equation models with nonnormal variables: Problems and remedies',
+        container: 'Structural equation modeling: Concepts, issues, and applications (R. H. Hoyle, Ed.)',
+        pages: '56–75',
+        publisher: 'Sage',
+        fromMemory: true,
+      },
+    ],
+  },
+  {
     kind: 'method',
     id: 'items.descriptives',
     name: 'Item mean, SD, skewness and excess kurtosis (bias-adjusted sample estimators)',

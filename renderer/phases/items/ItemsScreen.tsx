@@ -1,4 +1,4 @@
-import { percent } from '../../../app/api/format.ts';
+import { bounded, percent } from '../../../app/api/format.ts';
 import { useMemo, useState } from 'react';
 import type { CommandOutput } from '../../../app/api/commands.ts';
 import type { FacetCoverage } from '../../../app/phases/items.ts';
@@ -112,7 +112,7 @@ function CheckLegend({ threshold }: { threshold: number }) {
         </dd>
         <dt>Near duplicates</dt>
         <dd>
-          Cosine similarity of the character trigrams of two items of {threshold.toFixed(2)} or more (items
+          Cosine similarity of the character trigrams of two items of {bounded(threshold, 2)} or more (items
           that differ in a word or two).
         </dd>
       </dl>

@@ -1,3 +1,4 @@
+import { bounded, unbounded } from '../../../app/api/format.ts';
 import type { WordingCheck, WordingReport } from '../../../app/engine/wording.ts';
 
 const CHECK_LABEL: Record<WordingCheck, string> = {
@@ -28,10 +29,10 @@ export function WordingNotes({ wording, matches }: { wording: WordingReport; mat
         ) : (
           <>
             <span title="Flesch Reading Ease (Flesch 1948): higher is easier; 60–70 reads as plain English">
-              Reading ease <strong>{wording.readingEase.toFixed(0)}</strong>
+              Reading ease <strong>{unbounded(wording.readingEase, 0)}</strong>
             </span>
             <span title="Flesch–Kincaid grade (Kincaid et al. 1975): the US school grade the text suits">
-              Grade <strong>{(wording.gradeLevel ?? 0).toFixed(1)}</strong>
+              Grade <strong>{unbounded(wording.gradeLevel ?? 0, 1)}</strong>
             </span>
             <span>
               {wording.words} word{wording.words === 1 ? '' : 's'}
@@ -53,7 +54,7 @@ export function WordingNotes({ wording, matches }: { wording: WordingReport; mat
               <span className="flag-pill">Near duplicate</span>
               <span className="flag-reason">
                 worded almost like {m.code}
-                {m.similarity !== null && ` (trigram similarity ${m.similarity.toFixed(2)})`}: keep one, or
+                {m.similarity !== null && ` (trigram similarity ${bounded(m.similarity, 2)})`}: keep one, or
                 make each ask something distinct
               </span>
             </li>

@@ -1,6 +1,8 @@
 import { Fragment } from 'react';
 import type { FacetResult, FlagRule, RoundItemRow, RuleOfThumb } from '../../../app/phases/purification.ts';
 import { STAT_LABELS, bounded, percent, unbounded } from '../../../app/api/format.ts';
+import { sourceNotes } from '../../../app/api/source-notes.ts';
+import { SourceNotes } from '../../shared/source-notes.tsx';
 
 type SortKey =
   | 'order'
@@ -137,6 +139,8 @@ export function ItemTable(props: {
     props.onView({ grouped, sort: typeof next === 'function' ? next(sort) : next });
   const setGrouped = (next: boolean) => props.onView({ sort, grouped: next });
   const statement = new Map(props.rules.map((r) => [r.rule, r]));
+  const sources = props.rules.flatMap((r) => (r.source ? [r.source] : []));
+  const markers = new Map(sourceNotes(sources).rules.map((r) => [r.id, r.marker]));
   const ordered = props.rows
     .map((row, index) => ({ row, index }))
     .sort((a, b) => {
@@ -235,10 +239,14 @@ export function ItemTable(props: {
             <dt>
               <span className={`flag flag-${r.rule}`}>{r.label}</span>
             </dt>
-            <dd>{r.statement}</dd>
+            <dd>
+              {r.statement}
+              {r.source && <sup>{markers.get(r.source)}</sup>}
+            </dd>
           </div>
         ))}
       </dl>
+      <SourceNotes ids={sources} withRules={false} />
     </div>
   );
 }

@@ -3,6 +3,7 @@ import {
   MINUS,
   NO_VALUE,
   bounded,
+  boundedSignificant,
   count,
   duration,
   pCell,
@@ -163,5 +164,18 @@ describe('progress of a round counts what was asked', () => {
     );
     expect(notes.at(-1)).toBe('200 resamples for the scale and 2 facets: facet 2 of 2, resample 200 of 200');
     expect(notes.some((n) => n.includes('5,000') || n.includes('600 resamples'))).toBe(false);
+  });
+});
+
+describe('boundedSignificant', () => {
+  it('prints small bounded values to three significant digits, never in exponent notation', () => {
+    // Checked by hand against the decimal expansions of the inputs.
+    expect(boundedSignificant(0.0991)).toBe('.0991');
+    expect(boundedSignificant(1.234e-5)).toBe('.0000123');
+    expect(boundedSignificant(7.39e-7)).toBe('.000000739');
+    expect(boundedSignificant(0.5)).toBe('.500');
+    expect(boundedSignificant(-2.5e-4)).toBe('\u2212.000250');
+    expect(boundedSignificant(1e-15)).toBe('.000000000000');
+    expect(boundedSignificant(null)).toBe('\u2013');
   });
 });
