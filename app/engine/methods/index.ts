@@ -3,6 +3,7 @@ import { CRITERIA_METHODS } from './criteria.ts';
 import { CONTENT_METHODS } from './content.ts';
 import { NUMERICS_METHODS } from './numerics.ts';
 import { FACTOR_ANALYSIS_METHODS } from './factor-analysis.ts';
+import { NORMS_METHODS } from './norms.ts';
 import { RELIABILITY_METHODS } from './reliability.ts';
 import { SCREENING_METHODS } from './screening.ts';
 import { WORDING_METHODS } from './wording.ts';
@@ -24,6 +25,7 @@ export const METHODS: ReadonlyMap<string, RegistryEntry> = buildRegistry([
   ...VALIDITY_METHODS,
   ...FACTOR_ANALYSIS_METHODS,
   ...CRITERIA_METHODS,
+  ...NORMS_METHODS,
 ]);
 
 function buildRegistry(entries: RegistryEntry[]): ReadonlyMap<string, RegistryEntry> {
