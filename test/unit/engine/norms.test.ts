@@ -1,6 +1,12 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { normTable, percentileRank, ruleScores, scoreGrid, type ScoreRule } from '../../../app/engine/norms.ts';
+import {
+  normTable,
+  percentileRank,
+  ruleScores,
+  scoreGrid,
+  type ScoreRule,
+} from '../../../app/engine/norms.ts';
 
 /** Values computed by test/reference/norms.py (numpy and scipy.stats.percentileofscore, kind="mean"). */
 const fixture = JSON.parse(
@@ -12,7 +18,12 @@ const fixture = JSON.parse(
     rule: ScoreRule;
     minAnswered: number;
     scores: (number | null)[];
-    norms: { n: number; mean: number; sd: number; rows: { score: number; percentile: number; z: number; t: number }[] };
+    norms: {
+      n: number;
+      mean: number;
+      sd: number;
+      rows: { score: number; percentile: number; z: number; t: number }[];
+    };
   }[];
 };
 
