@@ -7,7 +7,7 @@ import { type InstrumentModel, provenance } from './model.ts';
  * notes (log head, how to check it, cautions) follow on a page of their own when printed.
  */
 
-function escape(text: string): string {
+function escapeHtml(text: string): string {
   return text
     .replace(/&/g, '&amp;')
     .replace(/</g, '&lt;')
@@ -36,15 +36,15 @@ code { font-size: 0.85em; word-break: break-all; }
 
 export function questionnaireHtml(m: InstrumentModel): string {
   const header = m.anchors
-    .map((a) => `<th scope="col">${a.label === '' ? String(a.value) : escape(a.label)}</th>`)
+    .map((a) => `<th scope="col">${a.label === '' ? String(a.value) : escapeHtml(a.label)}</th>`)
     .join('');
   const rows = m.items
     .map(
       (it) =>
-        `<tr><td class="number">${it.position}</td><th scope="row" class="statement">${escape(it.text)}</th>${m.anchors
+        `<tr><td class="number">${it.position}</td><th scope="row" class="statement">${escapeHtml(it.text)}</th>${m.anchors
           .map(
             (a) =>
-              `<td class="answer"><span role="img" aria-label="${escape(a.label || String(a.value))}"></span><small>${a.value}</small></td>`,
+              `<td class="answer"><span role="img" aria-label="${escapeHtml(a.label || String(a.value))}"></span><small>${a.value}</small></td>`,
           )
           .join('')}</tr>`,
     )
@@ -56,13 +56,13 @@ export function questionnaireHtml(m: InstrumentModel): string {
 <meta charset="utf-8">
 <meta name="viewport" content="width=device-width, initial-scale=1">
 <meta name="generator" content="Scalewright">
-<title>${escape(m.title)}</title>
+<title>${escapeHtml(m.title)}</title>
 <style>${STYLE}</style>
 </head>
 <body>
 <main>
-<h1>${escape(m.title)}</h1>
-<p class="instructions">${escape(m.instructions)}</p>
+<h1>${escapeHtml(m.title)}</h1>
+<p class="instructions">${escapeHtml(m.instructions)}</p>
 <table class="items">
 <thead><tr><th scope="col" class="number">No.</th><th scope="col" class="statement">Statement</th>${header}</tr></thead>
 <tbody>
@@ -72,13 +72,13 @@ ${rows}
 </main>
 <section class="researcher" aria-label="For the researcher">
 <h2>For the researcher (not part of the questionnaire)</h2>
-<p>${escape(study)}</p>
-<p>${escape(head)}. Check it later with: <code>${escape(m.verifyCommand)}</code></p>
-<p${m.verification.intact ? '' : ' class="failed"'}>${escape(verification)}</p>
+<p>${escapeHtml(study)}</p>
+<p>${escapeHtml(head)}. Check it later with: <code>${escapeHtml(m.verifyCommand)}</code></p>
+<p${m.verification.intact ? '' : ' class="failed"'}>${escapeHtml(verification)}</p>
 <p>${m.items.length} items; score with the scoring key exported beside this file (scoring-key.csv or scoring-key.json).</p>
 <h3>Cautions</h3>
 <ul>
-${m.cautions.map((c) => `<li>${escape(c)}</li>`).join('\n')}
+${m.cautions.map((c) => `<li>${escapeHtml(c)}</li>`).join('\n')}
 </ul>
 </section>
 </body>

@@ -217,7 +217,7 @@ export function setInstrumentForm(study: Study, request: InstrumentFormRequest):
     rule: request.rule ?? now.rule,
     minAnsweredShare: share,
   };
-  const describe = (f: InstrumentForm | InstrumentFormRecord, codes: string[]) => ({
+  const formSummary = (f: InstrumentForm | InstrumentFormRecord, codes: string[]) => ({
     order: codes,
     title: f.title,
     instructions: f.instructions,
@@ -233,12 +233,12 @@ export function setInstrumentForm(study: Study, request: InstrumentFormRequest):
       rationale: request.reason,
       detail: {
         before: now.chosen
-          ? describe(
+          ? formSummary(
               now,
               now.items.map((it) => it.code),
             )
           : null,
-        after: describe(
+        after: formSummary(
           next,
           order.map((it) => it.code),
         ),
