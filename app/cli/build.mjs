@@ -48,7 +48,10 @@ export function staleReason() {
   return null;
 }
 
-/** Bundles app/cli/main.ts with esbuild (better-sqlite3, a native addon, stays external). */
+/**
+ * Bundles app/cli/main.ts with esbuild. better-sqlite3 (a native addon) and pdfkit (which reads its
+ * font metrics and colour profile from files beside its own modules) stay external.
+ */
 export async function buildCli() {
   const { build } = await import('esbuild');
   const result = await build({
@@ -62,7 +65,7 @@ export async function buildCli() {
     metafile: true,
     write: false,
     logLevel: 'warning',
-    external: ['better-sqlite3'],
+    external: ['better-sqlite3', 'pdfkit'],
     // Bundled CommonJS dependencies call require(); give the ES module one.
     banner: {
       js: "import { createRequire as scalewrightRequire } from 'node:module'; const require = scalewrightRequire(import.meta.url);",

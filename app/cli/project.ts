@@ -17,6 +17,7 @@ import { type CliCommand, type OptionSpec, type ParsedArgs, stringValue } from '
 import { resolveUserPath } from './files.ts';
 import { datasetsCommand, useCommand } from './project-datasets.ts';
 import { importCommand } from './project-import.ts';
+import { instrumentCommand } from './project-instrument.ts';
 import { cut, formatTable, LINE_WIDTH, wrapIndented } from './table.ts';
 import { type CliContext, DataError, UsageError } from './types.ts';
 
@@ -388,5 +389,6 @@ export const PROJECT_COMMANDS: CliCommand[] = [
   useCommand,
   reopenCommand,
   signoffCommand,
+  instrumentCommand,
   verifyCommand,
 ];

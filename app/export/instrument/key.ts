@@ -1,5 +1,5 @@
 import Papa from 'papaparse';
-import { type InstrumentModel, type InstrumentScore, provenanceLines } from './model.ts';
+import { type InstrumentModel, type InstrumentScore, provenance, provenanceLines } from './model.ts';
 
 /**
  * The scoring key (CSV and JSON) and the norms (CSV) of the final instrument. CSV files open with
@@ -81,7 +81,7 @@ export function scoringKeyJson(m: InstrumentModel): string {
     exportedAt: m.exportedAt,
     log: m.log,
     verifyCommand: m.verifyCommand,
-    verification: m.verification,
+    verification: { ...m.verification, note: provenance(m).verification },
     questionnaire: {
       title: m.title,
       instructions: m.instructions,
