@@ -67,4 +67,17 @@ describe('the compiled command line', () => {
     expect(again.stderr).toBe('');
     expect(readFileSync(BUNDLE, 'utf8')).toContain('formatTable');
   });
+
+  it('writes the final instrument with pdfkit kept outside the bundle and the fonts found from it', () => {
+    expect(readFileSync(BUNDLE, 'utf8')).toMatch(/from "pdfkit"|require\("pdfkit"\)/);
+    expect(runCompiled(['project', 'new', 'demo.scalewright', '--demo']).code).toBe(0);
+    const run = runCompiled(['project', 'instrument', 'demo.scalewright', '--out', 'instrument', '--json']);
+    expect(run.stderr).toBe('');
+    expect(run.code).toBe(0);
+    const pdf = readFileSync(path.join(dir, 'instrument', 'questionnaire.pdf')).toString('latin1');
+    expect(pdf.startsWith('%PDF-')).toBe(true);
+    expect(pdf).toMatch(/DejaVuSerif/);
+    const value = JSON.parse(run.stdout) as { files: { name: string; bytes: number }[] };
+    expect(value.files.map((f) => f.name)).toContain('questionnaire.pdf');
+  });
 });

@@ -7,7 +7,7 @@ import { listRuns } from '../../../db/repos/analysis-runs.ts';
 import { listRounds } from '../../../db/repos/purification.ts';
 import { Study } from '../../../db/study.ts';
 import { fillDemoStudy } from '../../../app/demo/index.ts';
-import { instrumentFiles, writeExportFolder } from '../../../app/export/instrument/index.ts';
+import { instrumentFiles } from '../../../app/export/instrument/index.ts';
 import { analysisData } from '../../../app/phases/analysis-data.ts';
 import { setInstrumentForm } from '../../../app/phases/appendix/instrument-form.ts';
 import type { RoundResults } from '../../../app/phases/purification.ts';
