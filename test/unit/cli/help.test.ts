@@ -27,6 +27,7 @@ describe('--help', () => {
         'project use',
         'project reopen',
         'project signoff',
+        'project instrument',
         'project verify',
       ].sort(),
     );
