@@ -2,6 +2,7 @@ import type { z } from 'zod';
 import { constructCommands } from './commands/construct.ts';
 import { coreCommands } from './commands/core.ts';
 import { exportCommands } from './commands/exports.ts';
+import { instrumentCommands } from './commands/instrument.ts';
 import { itemsCommands } from './commands/items.ts';
 import { pilotCommands } from './commands/pilot.ts';
 import { purificationCommands } from './commands/purification.ts';
@@ -22,6 +23,7 @@ export const commands = {
   ...pilotCommands,
   ...purificationCommands,
   ...exportCommands,
+  ...instrumentCommands,
 };
 
 export type Commands = typeof commands;

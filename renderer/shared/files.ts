@@ -28,3 +28,16 @@ export function formatBytes(bytes: number): string {
   if (bytes < 1024 * 1024) return `${unbounded(bytes / 1024, 1)} KB`;
   return `${unbounded(bytes / 1024 / 1024, 1)} MB`;
 }
+
+/** Offers bytes sent as base64 (a PDF, a file of any kind) as a file download. */
+export function downloadBase64(fileName: string, base64: string, type: string): void {
+  const binary = atob(base64);
+  const bytes = new Uint8Array(binary.length);
+  for (let i = 0; i < binary.length; i++) bytes[i] = binary.charCodeAt(i);
+  const url = URL.createObjectURL(new Blob([bytes], { type }));
+  const link = document.createElement('a');
+  link.href = url;
+  link.download = fileName;
+  link.click();
+  setTimeout(() => URL.revokeObjectURL(url), 0);
+}

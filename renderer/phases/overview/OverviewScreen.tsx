@@ -1,6 +1,7 @@
 import { Checklist, ErrorNote, phaseState, StatusBadge } from '../../shared/components.tsx';
 import { NeedsReview } from '../../shared/needs-review.tsx';
 import { useQuery } from '../../shared/use-command.ts';
+import { InstrumentPanel } from './InstrumentPanel.tsx';
 
 export function OverviewScreen() {
   const overview = useQuery('study.overview', {});
@@ -46,6 +47,7 @@ export function OverviewScreen() {
           </li>
         ))}
       </ol>
+      <InstrumentPanel />
     </div>
   );
 }
