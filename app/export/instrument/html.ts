@@ -24,6 +24,7 @@ table.items { border-collapse: collapse; width: 100%; }
 table.items th, table.items td { border-bottom: 1px solid #bbb; padding: 0.45rem 0.3rem; vertical-align: middle; }
 table.items thead th { font-size: 0.78rem; font-weight: bold; text-align: center; vertical-align: bottom; }
 table.items th.statement { text-align: left; }
+table.items tbody th.statement { font-weight: normal; }
 td.number { width: 2rem; text-align: right; color: #444; }
 td.answer { text-align: center; width: 4.2rem; }
 td.answer span { display: inline-block; width: 0.95rem; height: 0.95rem; border: 1.5px solid #333; border-radius: 50%; }
