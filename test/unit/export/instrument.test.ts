@@ -7,7 +7,9 @@ import { listRuns } from '../../../db/repos/analysis-runs.ts';
 import { listRounds } from '../../../db/repos/purification.ts';
 import { Study } from '../../../db/study.ts';
 import { fillDemoStudy } from '../../../app/demo/index.ts';
+import { intraclassCorrelations, iccMeasurementError } from '../../../app/engine/icc.ts';
 import { instrumentFiles } from '../../../app/export/instrument/index.ts';
+import { recordRun } from '../../../app/phases/change.ts';
 import { analysisData } from '../../../app/phases/analysis-data.ts';
 import { setInstrumentForm } from '../../../app/phases/appendix/instrument-form.ts';
 import type { RoundResults } from '../../../app/phases/purification.ts';
@@ -311,5 +313,44 @@ describe('project instrument on the command line', () => {
     for (const name of ['questionnaire.html', 'scoring-key.csv', 'scoring-key.json', 'norms.csv']) {
       expect(fs.readFileSync(path.join(out, name), 'utf8'), name).toContain('VERIFICATION FAILED at export');
     }
+  });
+});
+
+describe('SEM and MDC from a retest analysis', () => {
+  it('are reported, with the run they come from, when the study stores a retest analysis', async () => {
+    const file = demoCopy('retest');
+    await withStudy(file, async (study) => {
+      // Shrout & Fleiss (1979), Table 2: six targets rated by judges 1 and 2, as pilot and retest scores.
+      const data = [
+        [9, 2],
+        [6, 1],
+        [8, 4],
+        [7, 1],
+        [10, 5],
+        [6, 2],
+      ];
+      const icc = intraclassCorrelations(data).forms.find((f) => f.form === 'ICC(2,1)')?.value as number;
+      const measurement = iccMeasurementError(data, icc);
+      const runId = recordRun(study, {
+        phase: 'validity',
+        kind: 'test-retest',
+        label: 'retest of the scale score (test)',
+        inputs: { scores: data },
+        options: {},
+        results: { icc, measurement },
+      });
+      const { model, files } = await instrumentFiles(study);
+      expect(model.retest).toMatchObject({
+        runId,
+        sem: measurement.sem,
+        mdc95: measurement.mdc95,
+        reliability: icc,
+      });
+      expect(measurement.mdc95).toBeCloseTo(1.96 * Math.SQRT2 * measurement.sem, 12);
+      const norms = files.find((f) => f.name === 'norms.csv')?.bytes.toString('utf8') ?? '';
+      expect(norms).toContain(`# Retest (analysis run ${runId}, test-retest`);
+      expect(norms).toContain(`SEM ${measurement.sem}, MDC95 ${measurement.mdc95}`);
+      expect(model.methods.map((m) => m.id)).toContain('sem.mdc95');
+    });
   });
 });
