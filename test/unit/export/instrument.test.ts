@@ -10,6 +10,7 @@ import { fillDemoStudy } from '../../../app/demo/index.ts';
 import { intraclassCorrelations, iccMeasurementError } from '../../../app/engine/icc.ts';
 import { instrumentFiles } from '../../../app/export/instrument/index.ts';
 import { recordRun } from '../../../app/phases/change.ts';
+import { decideItem } from '../../../app/phases/purification.ts';
 import { analysisData } from '../../../app/phases/analysis-data.ts';
 import { setInstrumentForm } from '../../../app/phases/appendix/instrument-form.ts';
 import type { RoundResults } from '../../../app/phases/purification.ts';
@@ -297,6 +298,23 @@ describe('project instrument on the command line', () => {
       /^error: the purification phase has no retained item set yet \(.*no pilot data/,
     );
     expect(fs.existsSync(out)).toBe(false);
+  });
+
+  it('refuses, exit 1, while a drop is not yet in a round, naming the decision and the round to run', async () => {
+    const file = demoCopy('stale-round');
+    await withStudy(file, (study) =>
+      decideItem(study, {
+        itemCode: 'BH08',
+        action: 'drop',
+        domainRationale: 'Handling at low speed is covered by BH07 already (test)',
+        statisticalRationale: 'None needed for this check (test)',
+      }),
+    );
+    const run = await runCliHere(['project', 'instrument', file, '--out', path.join(tmp.dir, 'stale-out')]);
+    expect(run.code).toBe(1);
+    expect(run.stderr).toMatch(
+      /^error: the purification phase has no retained item set yet \(The final round includes every drop, move and restore: 1 decision since round 2 \(drop BH08\): run round 3\)/,
+    );
   });
 
   it('exports a tampered study, every file saying that verification failed', async () => {
