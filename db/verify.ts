@@ -3,7 +3,16 @@ import { HEAD_PATTERN } from './decision-log.ts';
 import type { Study } from './study.ts';
 
 /** Which check found a break. */
-export type BreakCheck = 'file' | 'log' | 'stored-file' | 'analysis-run' | 'content' | 'digests' | 'head';
+export type BreakCheck =
+  | 'file'
+  | 'log'
+  | 'stored-file'
+  | 'analysis-run'
+  | 'content'
+  | 'digests'
+  | 'head'
+  // An analysis run that no longer reproduces from its stored inputs (checked in app/phases/history).
+  | 'rerun';
 
 /** One break: what was found, and where (log row, table and row, columns). */
 export interface IntegrityBreak {
@@ -98,7 +107,10 @@ export function verifyStudy(study: Study, options: { head?: string } = {}): Veri
 export function breakPlace(b: IntegrityBreak): string {
   const parts: string[] = [];
   if (b.table) parts.push(b.row ? `${b.table} (${b.row})` : b.table);
-  if (b.seq !== undefined && (b.check === 'log' || b.check === 'head' || b.check === 'analysis-run'))
+  if (
+    b.seq !== undefined &&
+    (b.check === 'log' || b.check === 'head' || b.check === 'analysis-run' || b.check === 'rerun')
+  )
     parts.push(`log row ${b.seq}`);
   if (b.check === 'file') parts.push('the SQLite file');
   return parts.join(', ');

@@ -2,6 +2,7 @@ import type { z } from 'zod';
 import { constructCommands } from './commands/construct.ts';
 import { coreCommands } from './commands/core.ts';
 import { exportCommands } from './commands/exports.ts';
+import { historyCommands } from './commands/history.ts';
 import { instrumentCommands } from './commands/instrument.ts';
 import { itemsCommands } from './commands/items.ts';
 import { pilotCommands } from './commands/pilot.ts';
@@ -24,6 +25,7 @@ export const commands = {
   ...purificationCommands,
   ...exportCommands,
   ...instrumentCommands,
+  ...historyCommands,
 };
 
 export type Commands = typeof commands;

@@ -1,9 +1,11 @@
 import { PHASE_IDS, type PhaseId } from '../../db/repos/phase-state.ts';
 import { Study } from '../../db/study.ts';
-import { type BreakCheck, breakPlace, parseHead, verifyStudy } from '../../db/verify.ts';
+import { type BreakCheck, breakPlace, parseHead } from '../../db/verify.ts';
 import { DEMO_TITLE, fillDemoStudy } from '../demo/index.ts';
 import { currentActor } from '../launch/user-data.ts';
 import { RuleError } from '../phases/errors.ts';
+import { describeCheck, shortValue } from '../phases/history/rerun.ts';
+import { verifyWithReruns } from '../phases/history/verify.ts';
 import {
   type PhaseOverview,
   phaseOverview,
@@ -310,7 +312,7 @@ const reopenCommand: CliCommand = {
 const verifyCommand: CliCommand = {
   name: 'project verify',
   summary:
-    "check the file's integrity, the decision log's hash chain, every stored data file and analysis run, and the content against the last log row; exit 1 on any break",
+    "check the file's integrity, the decision log's hash chain, every stored data file and analysis run, and the content against the last log row; re-run every stored analysis from its stored inputs; exit 1 on any break",
   args: [STUDY_FILE],
   options: {
     head: {
@@ -331,7 +333,7 @@ const verifyCommand: CliCommand = {
     }
     const study = Study.open(file, { actor: currentActor(), app: CLI_APP, mode: 'read' });
     try {
-      const report = verifyStudy(study, { head });
+      const report = verifyWithReruns(study, { head });
       const count = (check: BreakCheck) => report.breaks.filter((b) => b.check === check).length;
       const status = (check: BreakCheck, ok: string) => {
         const n = count(check);
@@ -347,7 +349,19 @@ const verifyCommand: CliCommand = {
         head: report.head,
         headChecked: report.headChecked,
         breaks: report.breaks,
+        rerun: report.rerun,
       };
+      const rerun = report.rerun;
+      const rerunOf = (status: string) => rerun.runs.filter((r) => r.status === status).length;
+      const rerunNotes = [
+        rerunOf('reproduced') > 0 ? `${rerunOf('reproduced')} reproduced` : '',
+        rerun.breaks.length > 0 ? `${rerun.breaks.length} no longer reproduce` : '',
+        rerun.engineDifferences.length > 0
+          ? `${rerun.engineDifferences.length} differ under engine ${rerun.engineVersion} (stored by another version)`
+          : '',
+        rerunOf('inputs-gone') > 0 ? `${rerunOf('inputs-gone')} with inputs no longer stored` : '',
+        rerunOf('not-rerun') > 0 ? `${rerunOf('not-rerun')} of a kind not re-run` : '',
+      ].filter(Boolean);
       const lines = [
         `${study.path}`,
         `file integrity: ${status('file', 'ok')}`,
@@ -355,6 +369,10 @@ const verifyCommand: CliCommand = {
         `stored files: ${status('stored-file', 'each matches its SHA-256')}`,
         `analysis runs: ${status('analysis-run', 'each matches the digest its log row holds')}`,
         `content: ${count('content') + count('digests') === 0 ? 'matches the state the last log row recorded' : `${count('content') + count('digests')} break(s)`}`,
+        `re-run of ${rerun.runs.length} stored analyses (engine ${rerun.engineVersion}): ${rerunNotes.join(', ') || 'none stored'}`,
+        ...rerun.runs
+          .filter((r) => r.status !== 'reproduced' && !rerun.breaks.includes(r))
+          .map((r) => wrapIndented(`note: ${describeCheck(r)}`, 4, 2)),
         ...(report.headChecked
           ? [
               `recorded head ${report.headChecked.head.slice(0, 20)}…: ${report.headChecked.held ? 'held by the log' : 'NOT held by the log'}`,
@@ -364,6 +382,16 @@ const verifyCommand: CliCommand = {
         ...report.breaks.map((b) =>
           wrapIndented(`${b.check}: ${[breakPlace(b), b.problem].filter(Boolean).join(': ')}`, 4, 2),
         ),
+        ...[...rerun.breaks, ...rerun.engineDifferences].flatMap((c) => [
+          `  run ${c.runId} (${c.kind}, engine ${c.engineVersion}${c.otherEngine ? ', another version' : ''}): ${c.differenceCount} field(s) differ`,
+          ...c.differences.map((d) =>
+            wrapIndented(
+              `${d.field}: stored ${shortValue(d.stored)}, recomputed ${shortValue(d.recomputed)}`,
+              6,
+              4,
+            ),
+          ),
+        ]),
       ];
       print(values.json === true, value, lines.join('\n'));
       if (!report.intact) {

@@ -308,7 +308,7 @@ function checkRequest(request: RoundRequest, number: number) {
   return { missing, ciLevel, bootstrap };
 }
 
-function distributionOf(values: (number | null)[], bounds: ScaleBounds): ItemDistribution {
+export function distributionOf(values: (number | null)[], bounds: ScaleBounds): ItemDistribution {
   const counts = new Array<number>(bounds.max - bounds.min + 1).fill(0);
   let missing = 0;
   let offCategory = 0;

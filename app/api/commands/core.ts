@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { PHASE_IDS } from '../../../db/repos/phase-state.ts';
-import { parseHead, verifyStudy } from '../../../db/verify.ts';
+import { parseHead } from '../../../db/verify.ts';
+import { verifyWithReruns } from '../../phases/history/verify.ts';
 import { reopenPhase, signOffPhase, studyOverview } from '../../phases/index.ts';
 import { exportLogCsv } from '../../phases/log.ts';
 import { lastChange, undoLastChange } from '../../phases/undo.ts';
@@ -64,7 +65,7 @@ export const coreCommands = {
         })
         .optional(),
     }),
-    (s, input) => verifyStudy(s.study, { head: input.head }),
+    (s, input) => verifyWithReruns(s.study, { head: input.head }),
   ),
 
   'task.status': command(z.object({ id: text(64) }), (s, input) => s.tasks.status(input.id)),

@@ -22,6 +22,7 @@ const CHECK_LABEL: Record<IntegrityBreak['check'], string> = {
   content: 'Content',
   digests: 'Content digests',
   head: 'Recorded head',
+  rerun: 'Re-run',
 };
 
 export function DecisionLogScreen() {

@@ -1,0 +1,11 @@
+/** What the history screens receive: an item's life story, a stored analysis run, a re-run. */
+export type {
+  FieldDifference,
+  ItemStory,
+  RerunStatus,
+  RunCheck,
+  RunView,
+  StoryFigure,
+  StoryStage,
+  StoryStep,
+} from '../../phases/history/index.ts';

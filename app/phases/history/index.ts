@@ -1,0 +1,25 @@
+export { InputsGone, type RerunKind } from './rerun-kind.ts';
+export { RERUN_KINDS } from './rerun-kinds.ts';
+export {
+  checkRun,
+  compareResults,
+  describeCheck,
+  type FieldDifference,
+  RERUN_TOLERANCE,
+  type RerunReport,
+  type RerunStatus,
+  type RunCheck,
+  rerunStoredRuns,
+} from './rerun.ts';
+export { type FullVerifyReport, verifyWithReruns } from './verify.ts';
+export {
+  type ItemStory,
+  itemStory,
+  type RunView,
+  rerunOne,
+  runView,
+  type StoryFigure,
+  type StoryStage,
+  type StoryStep,
+  storyItems,
+} from './views.ts';
