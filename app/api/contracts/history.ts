@@ -9,3 +9,4 @@ export type {
   StoryStage,
   StoryStep,
 } from '../../phases/history/index.ts';
+export type { LogEntry } from '../../../db/decision-log.ts';

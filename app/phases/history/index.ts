@@ -15,6 +15,7 @@ export { type FullVerifyReport, verifyWithReruns } from './verify.ts';
 export {
   type ItemStory,
   itemStory,
+  logRow,
   type RunView,
   rerunOne,
   runView,

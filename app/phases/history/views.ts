@@ -15,6 +15,8 @@ export type StoryStage = 'drafted' | 'revised' | 'edited' | 'rated' | 'decided' 
 export interface StoryFigure {
   label: string;
   value: number | null;
+  /** How it reads: a statistic bounded by ±1, another statistic, or a count. */
+  form: 'bounded' | 'plain' | 'count';
 }
 
 /** One step of an item's life, from its log row. */
@@ -98,11 +100,11 @@ function ratingFigures(run: RunRecord, codes: Set<string>): StoryFigure[] | null
   const row = items.find((it) => typeof it.item === 'string' && codes.has(it.item.toLowerCase()));
   if (!row) return null;
   return present([
-    { label: 'experts rating', value: num(row.rated) },
-    { label: 'I-CVI', value: num(row.iCvi) },
-    { label: 'modified kappa', value: num(row.modifiedKappa) },
-    { label: 'CVR', value: num(row.cvr) },
-    { label: "Aiken's V", value: num(row.aikenV) },
+    { label: 'experts rating', value: num(row.rated), form: 'count' },
+    { label: 'I-CVI', value: num(row.iCvi), form: 'bounded' },
+    { label: 'modified kappa', value: num(row.modifiedKappa), form: 'bounded' },
+    { label: 'CVR', value: num(row.cvr), form: 'bounded' },
+    { label: "Aiken's V", value: num(row.aikenV), form: 'bounded' },
   ]);
 }
 
@@ -119,11 +121,11 @@ function roundFigures(run: RunRecord, codes: Set<string>): StoryFigure[] | null 
   const row = scale?.items?.find((it) => typeof it.name === 'string' && codes.has(it.name.toLowerCase()));
   if (!row) return null;
   return present([
-    { label: 'mean', value: num(row.mean) },
-    { label: 'SD', value: num(row.sd) },
-    { label: 'corrected item-total r', value: num(row.correctedItemTotal) },
-    { label: 'alpha if deleted', value: num(row.alphaIfDeleted) },
-    { label: 'alpha of the round', value: num(scale?.alpha?.value) },
+    { label: 'mean', value: num(row.mean), form: 'plain' },
+    { label: 'SD', value: num(row.sd), form: 'plain' },
+    { label: 'corrected item-total r', value: num(row.correctedItemTotal), form: 'bounded' },
+    { label: 'alpha if deleted', value: num(row.alphaIfDeleted), form: 'bounded' },
+    { label: 'alpha of the round', value: num(scale?.alpha?.value), form: 'bounded' },
   ]);
 }
 
@@ -156,10 +158,13 @@ export function itemStory(study: Study, code: string): ItemStory {
   }
   const facets = new Map(listFacets(study, { includeRetired: true }).map((f) => [f.id, f.name]));
   const decided = steps.filter((s) => s.stage === 'decided').at(-1);
+  const analysed = steps.filter((s) => s.stage === 'analysed').at(-1);
   const phaseTitle = (p: string) => PHASE_TITLES[p as keyof typeof PHASE_TITLES] ?? p;
   const standing = decided
     ? `${decided.title.replace(/^item \S+ /, '')} (${phaseTitle(decided.phase)} phase, log row ${decided.seq})`
-    : `${item.state === 'kept' ? 'in the pool, kept for review' : `in the pool, ${item.state}`}; no keep or drop decision logged yet`;
+    : analysed
+      ? `still in: ${analysed.title} (log row ${analysed.seq}); no keep or drop decision logged yet`
+      : `in the item pool (${item.state}); no keep or drop decision logged yet`;
   return {
     item: {
       id: item.id,
@@ -235,11 +240,19 @@ function statsFigures(stats: unknown): StoryFigure[] {
   if (typeof stats !== 'object' || stats === null) return [];
   const s = stats as Record<string, unknown>;
   return present([
-    { label: 'I-CVI', value: num(s.iCvi) },
-    { label: 'modified kappa', value: num(s.modifiedKappa) },
-    { label: 'CVR', value: num(s.cvr) },
-    { label: "Aiken's V", value: num(s.aikenV) },
+    { label: 'I-CVI', value: num(s.iCvi), form: 'bounded' },
+    { label: 'modified kappa', value: num(s.modifiedKappa), form: 'bounded' },
+    { label: 'CVR', value: num(s.cvr), form: 'bounded' },
+    { label: "Aiken's V", value: num(s.aikenV), form: 'bounded' },
   ]);
+}
+
+/** One log row by its number. Throws RuleError when the log holds no such row. */
+export function logRow(study: Study, seq: number): LogEntry {
+  const row = study.log.row(seq);
+  if (!row)
+    throw new RuleError(`the decision log has no row ${seq} (it has ${study.log.count()})`, 'not-found');
+  return row;
 }
 
 /** Every item of the pool (retired ones too), for choosing whose story to read. */

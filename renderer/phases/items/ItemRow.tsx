@@ -6,6 +6,7 @@ import { ErrorNote, formatTime, ReasonAction } from '../../shared/components.tsx
 import { useMutation, useQuery } from '../../shared/use-command.ts';
 import { useLiveWording } from './use-wording.ts';
 import { type NearMatch, WordingNotes } from './WordingNotes.tsx';
+import { historyLink } from '../../shared/history-links.ts';
 
 export const SOURCE_OPTIONS: { value: ItemSource; label: string }[] = [
   { value: 'literature', label: 'Literature' },
@@ -202,6 +203,13 @@ export function ItemRow(props: {
           ) : (
             <span className="revision-toggle muted">Revision 1</span>
           )}
+          <a
+            className="life-story-link"
+            href={historyLink.item(item.code)}
+            aria-label={`Life story of item ${item.code}`}
+          >
+            Life story
+          </a>
         </div>
         {history && <RevisionHistory itemId={item.id} />}
         <ErrorNote message={error} />

@@ -6,7 +6,12 @@ import type { IntegrityBreak, VerifyReport } from '../../../db/verify.ts';
 import { call } from '../../api/client.ts';
 import { ErrorNote, formatTime } from '../../shared/components.tsx';
 import { downloadText } from '../../shared/files.ts';
+import { historyLink } from '../../shared/history-links.ts';
 import { useMutation, useQuery } from '../../shared/use-command.ts';
+import { useHistoryPath } from './history-path.ts';
+import { ItemStory } from './ItemStory.tsx';
+import { RunDetail } from './RunDetail.tsx';
+import './history.css';
 import './log.css';
 
 const PAGE_SIZE = 50;
@@ -25,7 +30,63 @@ const CHECK_LABEL: Record<IntegrityBreak['check'], string> = {
   rerun: 'Re-run',
 };
 
+/** The study's history: the log, one row of it, an item's life story, or a stored analysis run. */
 export function DecisionLogScreen() {
+  const path = useHistoryPath();
+  if (path.view === 'item') return <ItemStory code={path.code} />;
+  if (path.view === 'run') return <RunDetail id={path.id} />;
+  if (path.view === 'row') return <OneRow seq={path.seq} />;
+  return <LogList />;
+}
+
+/** One log row, opened, as the life story and the run pages link to it. */
+function OneRow({ seq }: { seq: number }) {
+  const row = useQuery('history.row', { seq });
+  return (
+    <div className="screen">
+      <header className="screen-head">
+        <div>
+          <p className="eyebrow">
+            <a href="#/log">Decision log</a> › Row {seq}
+          </p>
+          <h1>Log row {seq}</h1>
+        </div>
+      </header>
+      <ErrorNote message={row.error} />
+      {row.data && (
+        <table className="data-table log-table">
+          <LogHeader />
+          <tbody>
+            <LogRow entry={row.data} initiallyOpen />
+          </tbody>
+        </table>
+      )}
+    </div>
+  );
+}
+
+function LogHeader() {
+  return (
+    <thead>
+      <tr>
+        <th className="num">#</th>
+        <th>When</th>
+        <th>Who</th>
+        <th>Phase</th>
+        <th>What</th>
+        <th>Target</th>
+        <th>Rationale</th>
+      </tr>
+    </thead>
+  );
+}
+
+/** The item code a row's target names ("item TR05 …"), if any. */
+function itemOf(target: string): string | undefined {
+  return /^item (\S+)/.exec(target)?.[1];
+}
+
+function LogList() {
   const [phase, setPhase] = useState<PhaseFilter>('');
   const [kind, setKind] = useState('');
   const [item, setItem] = useState('');
@@ -126,21 +187,16 @@ export function DecisionLogScreen() {
           maxLength={20}
           onChange={(e) => narrow(setItem)(e.target.value)}
         />
+        {item.trim() !== '' && (
+          <a className="story-link" href={historyLink.item(item.trim())}>
+            Life story of item {item.trim()} →
+          </a>
+        )}
       </search>
       {log.data && (
         <>
           <table className="data-table log-table">
-            <thead>
-              <tr>
-                <th className="num">#</th>
-                <th>When</th>
-                <th>Who</th>
-                <th>Phase</th>
-                <th>What</th>
-                <th>Target</th>
-                <th>Rationale</th>
-              </tr>
-            </thead>
+            <LogHeader />
             <tbody>
               {log.data.entries.map((entry) => (
                 <LogRow key={entry.seq} entry={entry} />
@@ -283,8 +339,9 @@ function VerifyResult({ report }: { report: VerifyReport }) {
 }
 
 /** One row; a click shows what changed (before and after), the run it rests on, and its hash. */
-function LogRow({ entry }: { entry: LogEntry }) {
-  const [open, setOpen] = useState(false);
+function LogRow({ entry, initiallyOpen = false }: { entry: LogEntry; initiallyOpen?: boolean }) {
+  const [open, setOpen] = useState(initiallyOpen);
+  const code = itemOf(entry.target);
   return (
     <>
       <tr className={open ? 'log-row open' : 'log-row'} onClick={() => setOpen(!open)}>
@@ -298,7 +355,22 @@ function LogRow({ entry }: { entry: LogEntry }) {
             <span className="reverses-row"> · reverses row {entry.detail.reverses}</span>
           )}
         </td>
-        <td>{entry.target}</td>
+        <td>
+          {entry.target}
+          {code && (
+            <>
+              {' '}
+              <a
+                className="story-link"
+                href={historyLink.item(code)}
+                onClick={(e) => e.stopPropagation()}
+                aria-label={`Life story of item ${code}`}
+              >
+                life story
+              </a>
+            </>
+          )}
+        </td>
         <td className="rationale">{entry.rationale}</td>
       </tr>
       {open && (
@@ -309,7 +381,11 @@ function LogRow({ entry }: { entry: LogEntry }) {
               {entry.runId !== null && (
                 <>
                   <dt>Analysis run</dt>
-                  <dd>#{entry.runId}</dd>
+                  <dd>
+                    <a href={historyLink.run(entry.runId)}>
+                      Open stored run #{entry.runId} (inputs, options, seed, results)
+                    </a>
+                  </dd>
                 </>
               )}
               <dt>Details</dt>

@@ -3,6 +3,7 @@ import type { FacetResult, FlagRule, RoundItemRow, RuleOfThumb } from '../../../
 import { STAT_LABELS, bounded, percent, unbounded } from '../../../app/api/format.ts';
 import { sourceNotes } from '../../../app/api/source-notes.ts';
 import { SourceNotes } from '../../shared/source-notes.tsx';
+import { historyLink } from '../../shared/history-links.ts';
 
 type SortKey =
   | 'order'
@@ -289,6 +290,14 @@ function ItemRow(props: {
           )}
         </span>
         <span className="item-wording">{row.text}</span>
+        <a
+          className="life-story-link"
+          href={historyLink.item(row.code)}
+          onClick={(e) => e.stopPropagation()}
+          aria-label={`Life story of item ${row.code}`}
+        >
+          Life story
+        </a>
       </td>
       {props.showFacet && (
         <td className="facet-cell" title={row.facetDefinition}>
