@@ -163,7 +163,7 @@ export function itemStory(study: Study, code: string): ItemStory {
   const standing = decided
     ? `${decided.title.replace(/^item \S+ /, '')} (${phaseTitle(decided.phase)} phase, log row ${decided.seq})`
     : analysed
-      ? `still in: ${analysed.title} (log row ${analysed.seq}); no keep or drop decision logged yet`
+      ? `in the item set of ${analysed.title.replace(/^analysed in /, '')} (log row ${analysed.seq}); no keep or drop decision logged yet`
       : `in the item pool (${item.state}); no keep or drop decision logged yet`;
   return {
     item: {
@@ -224,7 +224,7 @@ function storyStep(
     const stored = run(e.runId);
     const figures = stored ? ratingFigures(stored, codes) : null;
     if (!figures) return undefined;
-    return { ...base, stage: 'rated', title: `rated: ${words(e.kind)}, ${e.target}`, figures };
+    return { ...base, stage: 'rated', title: ratedTitle(e), figures };
   }
   if (e.kind === 'analysis-run' && e.runId !== null && d.analysis === 'purification-round') {
     const stored = run(e.runId);
@@ -233,6 +233,16 @@ function storyStep(
     return { ...base, stage: 'analysed', title: `analysed in ${e.target}`, figures };
   }
   return undefined;
+}
+
+/** "rated in review round 1 (file "x.csv")", or "… (file "x.csv" withdrawn: figures without it)". */
+function ratedTitle(e: LogEntry): string {
+  const m = /^round (\d+): (.*)$/.exec(e.target);
+  const round = m ? `review round ${m[1]}` : e.target;
+  const file = m ? m[2] : '';
+  return e.kind === 'ratings-withdrawn'
+    ? `rated again in ${round}, ${file} withdrawn`
+    : `rated in ${round}${file ? `, ${file}` : ''}`;
 }
 
 /** The content-validity figures a review decision's log row holds. */
@@ -284,6 +294,34 @@ function summarize(value: unknown): string {
   return typeof value === 'string' ? value : JSON.stringify(value);
 }
 
+/** Keys of results that repeat the run's own inputs or engine version, left out of the headline. */
+const ECHOED = new Set(['inputs', 'engineVersion']);
+
+/**
+ * Single values of the results, shallowest first, by path, up to `max`: a list gives its length;
+ * the echo of the inputs and maps with one entry per item or respondent (over 20 keys) are left out.
+ */
+function headline(results: unknown, max = 16): RunView['resultsSummary'] {
+  const out: RunView['resultsSummary'] = [];
+  let level: [string, unknown][] = [['', results]];
+  for (let depth = 0; depth < 4 && level.length > 0 && out.length < max; depth++) {
+    const next: [string, unknown][] = [];
+    for (const [path, x] of level) {
+      if (out.length >= max) break;
+      if (Array.isArray(x)) {
+        if (path) out.push({ name: `${path} (entries)`, value: x.length });
+      } else if (x !== null && typeof x === 'object') {
+        const entries = Object.entries(x).filter(([k]) => !ECHOED.has(k));
+        if (entries.length <= 20) for (const [k, v] of entries) next.push([path ? `${path}.${k}` : k, v]);
+      } else if (path && !(typeof x === 'string' && x.length > 80)) {
+        out.push({ name: path, value: (x ?? null) as string | number | boolean | null });
+      }
+    }
+    level = next;
+  }
+  return out;
+}
+
 export interface RunView {
   id: number;
   phase: string;
@@ -297,6 +335,8 @@ export interface RunView {
   inputsSummary: { name: string; text: string }[];
   inputs: Record<string, unknown>;
   options: Record<string, unknown>;
+  /** The results' single values (not those inside lists), by path, up to a dozen, for reading. */
+  resultsSummary: { name: string; value: string | number | boolean | null }[];
   results: unknown;
   /** The digest of the run as stored now, and the one its log row holds. */
   digest: { now: string | null; logged: string | null; matches: boolean };
@@ -328,6 +368,7 @@ export function runView(study: Study, id: number): RunView {
     inputsSummary: Object.entries(run.inputs).map(([name, value]) => ({ name, text: summarize(value) })),
     inputs: run.inputs,
     options: run.options,
+    resultsSummary: headline(run.results),
     results: run.results,
     digest: { now, logged, matches: logged !== null && logged === now },
     recordedBy: citing[0]?.seq ?? null,

@@ -355,22 +355,7 @@ function LogRow({ entry, initiallyOpen = false }: { entry: LogEntry; initiallyOp
             <span className="reverses-row"> · reverses row {entry.detail.reverses}</span>
           )}
         </td>
-        <td>
-          {entry.target}
-          {code && (
-            <>
-              {' '}
-              <a
-                className="story-link"
-                href={historyLink.item(code)}
-                onClick={(e) => e.stopPropagation()}
-                aria-label={`Life story of item ${code}`}
-              >
-                life story
-              </a>
-            </>
-          )}
-        </td>
+        <td>{entry.target}</td>
         <td className="rationale">{entry.rationale}</td>
       </tr>
       {open && (
@@ -378,6 +363,14 @@ function LogRow({ entry, initiallyOpen = false }: { entry: LogEntry; initiallyOp
           <td />
           <td colSpan={6}>
             <dl>
+              {code && (
+                <>
+                  <dt>Item</dt>
+                  <dd>
+                    <a href={historyLink.item(code)}>Life story of item {code}</a>
+                  </dd>
+                </>
+              )}
               {entry.runId !== null && (
                 <>
                   <dt>Analysis run</dt>

@@ -130,7 +130,7 @@ export function RunDetail({ id }: { id: number }) {
                     <span key={c.seq}>
                       {i > 0 && ', '}
                       <a href={historyLink.row(c.seq)}>
-                        row {c.seq}: {c.kind.replaceAll('-', ' ')} {c.target}
+                        row {c.seq}: {c.kind.replaceAll('-', ' ')} ({c.target})
                       </a>
                     </span>
                   ))}
@@ -143,8 +143,8 @@ export function RunDetail({ id }: { id: number }) {
               </span>
             </dd>
           </dl>
-          <h2>Inputs</h2>
-          <table className="data-table run-inputs">
+          <h2 className="run-section">Inputs</h2>
+          <table className="data-table run-inputs" aria-label="Inputs">
             <tbody>
               {r.inputsSummary.map((line) => (
                 <tr key={line.name}>
@@ -154,7 +154,18 @@ export function RunDetail({ id }: { id: number }) {
               ))}
             </tbody>
           </table>
-          <h2>Options</h2>
+          <h2 className="run-section">Results</h2>
+          <table className="data-table run-inputs run-results-summary" aria-label="Results">
+            <tbody>
+              {r.resultsSummary.map((line) => (
+                <tr key={line.name}>
+                  <th scope="row">{line.name}</th>
+                  <td>{typeof line.value === 'number' ? String(line.value) : JSON.stringify(line.value)}</td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+          <h2 className="run-section">Options</h2>
           <pre className="run-json">{JSON.stringify(r.options, null, 2)}</pre>
           <details className="run-results">
             <summary>Results as stored (JSON)</summary>
