@@ -120,6 +120,41 @@ const screening: RerunKind = {
   },
 };
 
+/** The log row that recorded a run (the first citing it); the newest row when none does. */
+function recordedAt(study: Study, runId: number): number {
+  const row = study.db
+    .prepare(
+      'SELECT coalesce((SELECT min(seq) FROM decision_log WHERE run_id = ?), (SELECT max(seq) FROM decision_log)) AS seq',
+    )
+    .get(runId) as { seq: number | null };
+  return row.seq ?? 0;
+}
+
+/**
+ * Names by id as they stood at log row `seq`: the current ones, with every rename logged after
+ * that row undone (newest first), from the rename rows' `before` values.
+ */
+function namesAt(
+  study: Study,
+  seq: number,
+  kind: 'item-edited' | 'facet-renamed',
+  idKey: 'itemId' | 'facetId',
+  field: 'code' | 'name',
+  current: readonly { id: number; code: string }[],
+): Map<number, string> {
+  const names = new Map(current.map((c) => [c.id, c.code]));
+  const rows = study.db
+    .prepare('SELECT detail FROM decision_log WHERE kind = ? AND seq > ? ORDER BY seq DESC')
+    .all(kind, seq) as { detail: string }[];
+  for (const row of rows) {
+    const detail = JSON.parse(row.detail) as Record<string, unknown>;
+    const change = detail[field] as { before?: unknown } | undefined;
+    const id = detail[idKey];
+    if (typeof id === 'number' && typeof change?.before === 'string') names.set(id, change.before);
+  }
+  return names;
+}
+
 interface StoredReviewInputs {
   roundId: number;
   round: number;
@@ -160,8 +195,17 @@ const contentValidity: RerunKind = {
       importIds.add(found.id);
     }
     const experts = new Map(listExperts(study, inputs.roundId).map((e) => [e.id, e.code]));
-    const items = new Map(listItems(study).map((it) => [it.id, it.code]));
-    const facets = new Map(listFacets(study, { includeRetired: true }).map((f) => [f.id, f.name]));
+    // Item codes and facet names as they were when the run was stored: renames since then undone.
+    const seq = recordedAt(study, run.id);
+    const items = namesAt(study, seq, 'item-edited', 'itemId', 'code', listItems(study));
+    const facets = namesAt(
+      study,
+      seq,
+      'facet-renamed',
+      'facetId',
+      'name',
+      listFacets(study, { includeRetired: true }).map((f) => ({ id: f.id, code: f.name })),
+    );
     const ratings: ExpertRating[] = listRatings(study, inputs.roundId)
       .filter((r) => importIds.has(r.importId))
       .map((r) => ({

@@ -17,6 +17,11 @@ import {
   rerunStoredRuns,
   verifyWithReruns,
 } from '../../../../app/phases/history/index.ts';
+import { editFacet } from '../../../../app/phases/construct.ts';
+import { reopenPhase } from '../../../../app/phases/index.ts';
+import { editItem } from '../../../../app/phases/items.ts';
+import { listFacets } from '../../../../db/repos/construct.ts';
+import { listItems } from '../../../../db/repos/items.ts';
 import { Study } from '../../../../db/study.ts';
 import { verifyStudy } from '../../../../db/verify.ts';
 import { runCli } from '../../../helpers/cli.ts';
@@ -86,6 +91,29 @@ describe('re-running the demo study', () => {
     for (const run of report.rerun.runs) {
       expect(run.status, `run ${run.runId}`).toBe('reproduced');
       expect(run.seq).not.toBeNull();
+    }
+  }, 60_000);
+});
+
+describe('renames after a run', () => {
+  it('leave the run reproducible: codes and facet names are taken as they were when it was stored', () => {
+    const file = copyOfDemo();
+    const study = Study.open(file, { actor: TEST_ACTOR, app: 'test' });
+    try {
+      reopenPhase(study, 'construct', 'rename a facet');
+      const facet = listFacets(study).find((f) => f.name === 'Route planning');
+      if (!facet) throw new Error('the demo has no facet "Route planning"');
+      editFacet(study, facet.id, { name: 'Route choice' });
+      reopenPhase(study, 'items', 'rename an item');
+      const item = listItems(study).find((it) => it.code === 'RP01');
+      if (!item) throw new Error('the demo has no item RP01');
+      editItem(study, item.id, { code: 'RP01A' });
+      const report = rerunStoredRuns(study);
+      expect(report.runs.map((r) => [r.kind, r.status])).toEqual(
+        report.runs.map((r) => [r.kind, 'reproduced']),
+      );
+    } finally {
+      study.close();
     }
   }, 60_000);
 });
