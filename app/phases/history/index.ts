@@ -12,15 +12,13 @@ export {
   rerunStoredRuns,
 } from './rerun.ts';
 export { type FullVerifyReport, verifyWithReruns } from './verify.ts';
+export { type RunView, rerunOne, runView } from './run-view.ts';
 export {
   type ItemStory,
   itemStory,
   logRow,
-  type RunView,
-  rerunOne,
-  runView,
   type StoryFigure,
   type StoryStage,
   type StoryStep,
   storyItems,
-} from './views.ts';
+} from './story.ts';
