@@ -20,6 +20,14 @@ test('the history: filter the log by an item, read its life story, open the stor
     .poll(async () => new Set(await rows.locator('td:nth-child(6)').allTextContents()))
     .toEqual(new Set([`item ${DROPPED}`]));
   await page.screenshot({ path: path.join(SCREENSHOTS, 'history-log-filtered.png'), fullPage: true });
+  // Verify study re-runs every stored analysis from its stored inputs.
+  await page.getByRole('button', { name: 'Verify study' }).click();
+  await expect(page.locator('.verify-ok')).toContainText(
+    /(\d+) of \1 stored analyses re-run from their stored inputs reproduce/,
+    {
+      timeout: 30_000,
+    },
+  );
   await page.getByRole('link', { name: `Life story of item ${DROPPED} →` }).click();
 
   // The life story, in order: drafted, kept for review, rated, analysed, dropped with its reasons.
@@ -79,7 +87,10 @@ test('the history: filter the log by an item, read its life story, open the stor
   await page.screenshot({ path: path.join(SCREENSHOTS, 'history-item-revised.png'), fullPage: true });
 });
 
-test('each item of the items list and the purification table links to its life story', async ({ page, app }) => {
+test('each item of the items list and the purification table links to its life story', async ({
+  page,
+  app,
+}) => {
   await page.goto(app.url);
   await page.locator('.sidebar a[href="#/phase/items"]').click();
   await page.getByRole('link', { name: `Life story of item ${REVISED}` }).click();

@@ -1,6 +1,7 @@
 /** What the history screens receive: an item's life story, a stored analysis run, a re-run. */
 export type {
   FieldDifference,
+  FullVerifyReport,
   ItemStory,
   RerunStatus,
   RunCheck,

@@ -3,6 +3,7 @@ import { PHASE_TITLES } from '../../../app/phases/titles.ts';
 import type { LogEntry } from '../../../db/decision-log.ts';
 import type { PhaseId } from '../../../db/repos/phase-state.ts';
 import type { IntegrityBreak, VerifyReport } from '../../../db/verify.ts';
+import type { FullVerifyReport } from '../../../app/api/contracts/history.ts';
 import { call } from '../../api/client.ts';
 import { ErrorNote, formatTime } from '../../shared/components.tsx';
 import { downloadText } from '../../shared/files.ts';
@@ -100,7 +101,7 @@ function LogList() {
   };
   const log = useQuery('log.list', { ...filter, limit: PAGE_SIZE, offset: page * PAGE_SIZE });
   const verify = useMutation('log.verify');
-  const [result, setResult] = useState<VerifyReport | undefined>();
+  const [result, setResult] = useState<FullVerifyReport | undefined>();
   const [exportError, setExportError] = useState<string | undefined>();
 
   /** Every filter change starts again at the first page. */
@@ -310,13 +311,33 @@ function LogHead({ head }: { head: string | null }) {
   );
 }
 
-function VerifyResult({ report }: { report: VerifyReport }) {
+function VerifyResult({ report }: { report: FullVerifyReport }) {
+  const runs = report.rerun.runs;
+  const reproduced = runs.filter((r) => r.status === 'reproduced').length;
+  const notes = runs.filter((r) => r.status !== 'reproduced' && !report.rerun.breaks.includes(r));
+  const rerun = (
+    <>
+      {runs.length === 0
+        ? ' No analysis is stored yet.'
+        : ` ${reproduced} of ${runs.length} stored analyses re-run from their stored inputs reproduce.`}
+      {notes.length > 0 && (
+        <ul className="verify-breaks">
+          {notes.map((r) => (
+            <li key={r.runId}>
+              Run #{r.runId}: {r.note ?? `${r.differenceCount} field(s) differ under another engine version`}
+            </li>
+          ))}
+        </ul>
+      )}
+    </>
+  );
   if (report.intact) {
     return (
-      <p className="verify-ok" role="status">
+      <div className="verify-ok" role="status">
         Study intact: {report.logRows} log rows chained; every stored file, analysis run and content row
         matches what the log recorded.
-      </p>
+        {rerun}
+      </div>
     );
   }
   return (
