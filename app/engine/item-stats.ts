@@ -100,6 +100,13 @@ function presentValues(column: Float64Array): Float64Array {
   return values;
 }
 
+/** One column's answered values (in row order) with their mean and variance, as meanAndVariance gives them. */
+export interface ColumnSummary {
+  values: Float64Array;
+  mean: number;
+  variance: number;
+}
+
 /**
  * The second, third and fourth central moments (divisor n) about m, each a compensated sum as
  * kahanSum gives it, the three summed together in one pass.
@@ -140,9 +147,11 @@ export function descriptivesOfColumns(
   names: readonly string[],
   columns: readonly Float64Array[],
   bounds?: ScaleBounds,
+  summaries?: readonly ColumnSummary[],
 ): ItemDescriptives[] {
   return names.map((name, c) => {
-    const values = presentValues(columns[c]);
+    const given = summaries?.[c];
+    const values = given?.values ?? presentValues(columns[c]);
     const n = values.length;
     const missing = columns[c].length - n;
     if (n < 2) {
@@ -150,7 +159,7 @@ export function descriptivesOfColumns(
         `item "${name}" has ${n} answered value(s); item statistics require at least two`,
       );
     }
-    const { mean: m, variance: v } = meanAndVariance(values);
+    const { mean: m, variance: v } = given ?? meanAndVariance(values);
     const sd = Math.sqrt(v);
     const { m2, m3, m4 } = centralMoments(values, m);
     const varies = sd > ZERO_VARIANCE;
@@ -196,6 +205,8 @@ export interface ItemMoments {
   rows: ResponseMatrix;
   /** The analysed rows as one column per item, NaN for a missing answer. */
   columns: Float64Array[];
+  /** Pairwise: each column's answered values with the mean and variance its SD came from. */
+  summaries?: ColumnSummary[];
   means: number[];
   sds: number[];
   /** Whether each item's SD exceeds ZERO_VARIANCE. */
@@ -285,9 +296,9 @@ export function itemMoments(names: string[], data: ResponseMatrix, method: Missi
       );
     }
   });
-  const moments1 = answered.map((values) => meanAndVariance(values));
-  const means = moments1.map((m) => m.mean);
-  const sds = moments1.map((m) => Math.sqrt(m.variance));
+  const summaries = answered.map((values): ColumnSummary => ({ values, ...meanAndVariance(values) }));
+  const means = summaries.map((s) => s.mean);
+  const sds = summaries.map((s) => Math.sqrt(s.variance));
   const varies = sds.map((s) => s > ZERO_VARIANCE);
   const varying = names.map((_, c) => c).filter((c) => varies[c]);
   const moments = pairwiseMoments(columns);
@@ -334,6 +345,7 @@ export function itemMoments(names: string[], data: ResponseMatrix, method: Missi
     dropped: data.length - n,
     rows,
     columns,
+    summaries,
     means,
     sds,
     varies,

@@ -208,7 +208,7 @@ export function analyseItems(input: ItemAnalysisInput): ItemAnalysis {
     );
   }
 
-  const descriptives = descriptivesOfColumns(names, moments.columns, input.bounds);
+  const descriptives = descriptivesOfColumns(names, moments.columns, input.bounds, moments.summaries);
   const corrected = correctedItemTotal(moments.covariance);
   const ifDeleted = alphaIfDeleted(moments.covariance);
   const items: ItemResult[] = descriptives.map((d, i) => ({
