@@ -71,32 +71,16 @@ function main(): void {
       csv,
       `id,${names.join(',')}\n${data.map((row, i) => `r${i + 1},${row.map((x) => x ?? '').join(',')}`).join('\n')}\n`,
     );
-    const cli = () =>
-      timed(
-        'npm',
-        [
-          '--prefix',
-          ROOT,
-          'run',
-          '-s',
-          'cli',
-          '--',
-          'stats',
-          'reliability',
-          '--data',
-          csv,
-          '--items',
-          names.join(','),
-          '--missing',
-          'pairwise',
-          '--json',
-        ],
-        dir,
-      );
+    const args = ['stats', 'reliability', '--data', csv, '--items', names.join(','), '--missing', 'pairwise'];
+    args.push('--json');
+    const cli = () => timed('npm', ['--prefix', ROOT, 'run', '-s', 'cli', '--', ...args], dir);
+    // The same command through the launcher alone: what npm adds is the difference.
+    const launcher = () => timed(process.execPath, [join(ROOT, 'app', 'cli', 'bin.mjs'), ...args], dir);
     const numpy = hasNumpy(PYTHON);
     const py = () => timed(PYTHON, [join(ROOT, 'test', 'bench', 'pairwise_numpy.py'), csv], dir);
     const ours: Timed[] = [];
     const theirs: Timed[] = [];
+    const bare: Timed[] = [];
     ours.push(cli());
     if (numpy) theirs.push(py());
     const first = { ours: ours[0].stdout, theirs: theirs[0]?.stdout };
@@ -104,10 +88,12 @@ function main(): void {
     theirs.length = 0;
     for (let r = 0; r < REPEATS; r++) {
       ours.push(cli());
+      bare.push(launcher());
       if (numpy) theirs.push(py());
     }
     const label = `${RESPONDENTS.toLocaleString('en')} × ${ITEMS}, ${MISSING_SHARE * 100}% missing`;
     line(`stats reliability --missing pairwise, ${label}`, medians(ours));
+    line('  the same through the launcher alone (node bin.mjs)', medians(bare));
     if (!numpy) {
       console.log(`  numpy not available at ${PYTHON}: comparison skipped`);
     } else {
@@ -117,7 +103,7 @@ function main(): void {
       const ratio = a.wall / b.wall;
       console.log(
         `  ratio, wall: ${ratio.toFixed(2)}× (target ≤ ${TARGET}×: ${ratio <= TARGET ? 'within' : 'OVER'}), ` +
-          `CPU: ${(a.cpu / b.cpu).toFixed(2)}×`,
+          `CPU: ${(a.cpu / b.cpu).toFixed(2)}×; launcher alone: ${(medians(bare).wall / b.wall).toFixed(2)}× wall`,
       );
       console.log(
         `  largest difference between the two results: ${agreement(first.ours, first.theirs ?? '')}`,
