@@ -280,16 +280,20 @@ export async function loadItemData(
   // What a cell reads as depends on its text alone, so each distinct text is read once (a Likert file
   // holds a handful); its first occurrence, in row order, is the one a message or warning names.
   const known = new Map<string | undefined, { value: number | null; rounded: boolean }>();
+  // One-character cells (a Likert answer) are looked up by their character code, without hashing.
+  const byCode: ({ value: number | null; rounded: boolean } | undefined)[] = new Array(128);
   const raw: ResponseMatrix = new Array(table.rows.length);
   for (let r = 0; r < table.rows.length; r++) {
     const row = table.rows[r];
     const values: (number | null)[] = new Array(columns.length);
     for (let j = 0; j < columns.length; j++) {
       const cellText = row[columns[j]];
-      let got = known.get(cellText);
+      const code = cellText !== undefined && cellText.length === 1 ? cellText.charCodeAt(0) : 128;
+      let got = code < 128 ? byCode[code] : known.get(cellText);
       if (got === undefined) {
         got = read(cellText, r, columns[j]);
-        if (known.size < DISTINCT_CELLS_KEPT) known.set(cellText, got);
+        if (code < 128) byCode[code] = got;
+        else if (known.size < DISTINCT_CELLS_KEPT) known.set(cellText, got);
       }
       if (got.rounded) roundedCount++;
       values[j] = got.value;
