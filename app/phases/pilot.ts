@@ -51,7 +51,7 @@ import {
   type ReadJobInput,
   type ReadRequest,
   type ReadSettings,
-} from './pilot-read.ts';
+} from '../import/read-data-file.ts';
 import { PHASE_TITLES } from './titles.ts';
 import type { ChecklistItem, PhaseRules } from './types.ts';
 

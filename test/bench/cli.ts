@@ -17,7 +17,7 @@ import { join } from 'node:path';
 import { performance } from 'node:perf_hooks';
 import { fileURLToPath } from 'node:url';
 import { DEMO_ITEMS } from '../../app/demo/items.ts';
-import { READ_CHUNK_BYTES } from '../../app/phases/pilot-read.ts';
+import { READ_CHUNK_BYTES } from '../../app/import/read-data-file.ts';
 import { median, writeBenchCsv } from './import-baseline.ts';
 
 const ROOT = fileURLToPath(new URL('../../', import.meta.url));

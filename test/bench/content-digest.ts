@@ -19,7 +19,7 @@ import { median, writeBenchCsv } from './import-baseline.ts';
 import { addFacet, updateConstructText } from '../../app/phases/construct.ts';
 import { addItem } from '../../app/phases/items.ts';
 import { automaticMapping, planImport, storeImport } from '../../app/phases/pilot.ts';
-import { readDataFile } from '../../app/phases/pilot-read.ts';
+import { readDataFile } from '../../app/import/read-data-file.ts';
 import { rootDigest, syncAllDigests } from '../../db/content-digest.ts';
 import { Study } from '../../db/study.ts';
 import { verifyStudy } from '../../db/verify.ts';

@@ -20,7 +20,7 @@ import { median, papaStream, papaString, writeBenchCsv } from './import-baseline
 import { addFacet } from '../../app/phases/construct.ts';
 import { addItem } from '../../app/phases/items.ts';
 import { automaticMapping, planImport, storeImport } from '../../app/phases/pilot.ts';
-import { readDataFile } from '../../app/phases/pilot-read.ts';
+import { readDataFile } from '../../app/import/read-data-file.ts';
 import { Study } from '../../db/study.ts';
 
 const RESPONDENTS = Number(process.argv[2] ?? 100_000);

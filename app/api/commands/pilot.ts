@@ -25,7 +25,7 @@ import {
   makeDatasetCurrent,
   withdrawDataset,
 } from '../../phases/pilot.ts';
-import type { ImportRead, ReadSettings } from '../../phases/pilot-read.ts';
+import type { ImportRead, ReadSettings } from '../../import/read-data-file.ts';
 import { RuleError } from '../../phases/errors.ts';
 import { command } from '../define.ts';
 import type { Session } from '../session.ts';

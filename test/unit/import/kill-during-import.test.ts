@@ -52,7 +52,7 @@ function writeChild(file: string): void {
     `import fs from 'node:fs';
 import { Study } from ${at('db/study.ts')};
 import { automaticMapping, planImport, storeImport } from ${at('app/phases/pilot.ts')};
-import { readDataFile } from ${at('app/phases/pilot-read.ts')};
+import { readDataFile } from ${at('app/import/read-data-file.ts')};
 const [studyPath, dataPath] = process.argv.slice(2);
 const study = Study.open(studyPath, { actor: { user: 'kill', name: 'Kill test' }, app: 'the kill test' });
 const bytes = fs.readFileSync(dataPath);

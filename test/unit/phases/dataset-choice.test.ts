@@ -15,7 +15,7 @@ import {
   storeImport,
   withdrawDataset,
 } from '../../../app/phases/pilot.ts';
-import { readDataFile } from '../../../app/phases/pilot-read.ts';
+import { readDataFile } from '../../../app/import/read-data-file.ts';
 import { purificationView, roundSummaries, runRound } from '../../../app/phases/purification.ts';
 import { listDatasetChoices, listDatasets } from '../../../db/repos/datasets.ts';
 import { Study } from '../../../db/study.ts';

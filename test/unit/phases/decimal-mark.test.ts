@@ -5,7 +5,7 @@ import { NO_MISSING_CODES } from '../../../app/import/numbers.ts';
 import { addFacet } from '../../../app/phases/construct.ts';
 import { addItem } from '../../../app/phases/items.ts';
 import { automaticMapping, planImport, previewDataFile, storeImport } from '../../../app/phases/pilot.ts';
-import { type ReadSettings, readDataFile } from '../../../app/phases/pilot-read.ts';
+import { type ReadSettings, readDataFile } from '../../../app/import/read-data-file.ts';
 import { listDatasets } from '../../../db/repos/datasets.ts';
 import { Study } from '../../../db/study.ts';
 import { runCli } from '../../helpers/cli.ts';

@@ -40,7 +40,7 @@ import {
   screeningView,
   storeImport,
 } from '../../../app/phases/pilot.ts';
-import { readDataFile } from '../../../app/phases/pilot-read.ts';
+import { readDataFile } from '../../../app/import/read-data-file.ts';
 import { getRun, listRuns } from '../../../db/repos/analysis-runs.ts';
 import {
   currentExclusions,

@@ -17,12 +17,12 @@ import {
   readDataFileJob,
   readDelimitedFileNow,
   type ReadRequest,
-} from '../../../app/phases/pilot-read.ts';
+} from '../../../app/import/read-data-file.ts';
 import { listDatasets, loadDatasetFile } from '../../../db/repos/datasets.ts';
 import { Study } from '../../../db/study.ts';
 import { TEST_ACTOR, tempDir } from '../../helpers/tmp.ts';
-import { CORPUS } from '../import/broken-corpus.ts';
-import { makeWorkbook } from '../import/xlsx-writer.ts';
+import { CORPUS } from './broken-corpus.ts';
+import { makeWorkbook } from './xlsx-writer.ts';
 
 const utf8 = (s: string) => new TextEncoder().encode(s);
 const POOL = ['tc1', 'tc2', 'q1', 'q2'];
