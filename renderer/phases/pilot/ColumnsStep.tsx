@@ -1,5 +1,5 @@
-import type { ColumnMapping, ColumnRole, RoleName } from '../../../app/import/mapping.ts';
-import type { DataFilePreview } from '../../../app/phases/pilot.ts';
+import type { ColumnMapping, ColumnRole, RoleName } from '../../../app/api/contracts/pilot.ts';
+import type { DataFilePreview } from '../../../app/api/contracts/pilot.ts';
 import { plural } from '../../../app/api/format.ts';
 
 const ROLE_OPTIONS: { value: RoleName; label: string }[] = [

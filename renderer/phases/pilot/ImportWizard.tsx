@@ -1,10 +1,10 @@
 import { useCallback, useRef, useState } from 'react';
-import type { ReadCheck } from '../../../app/api/commands/pilot.ts';
-import type { ColumnMapping } from '../../../app/import/mapping.ts';
-import type { DataFilePreview } from '../../../app/phases/pilot.ts';
-import type { ReadSettings } from '../../../app/import/read-data-file.ts';
-import type { TaskStatus } from '../../../app/workers/tasks.ts';
-import type { DatasetRole } from '../../../db/repos/datasets.ts';
+import type { ReadCheck } from '../../../app/api/contracts/pilot.ts';
+import type { ColumnMapping } from '../../../app/api/contracts/pilot.ts';
+import type { DataFilePreview } from '../../../app/api/contracts/pilot.ts';
+import type { ReadSettings } from '../../../app/api/contracts/pilot.ts';
+import type { TaskStatus } from '../../../app/api/contracts/tasks.ts';
+import type { DatasetRole } from '../../../app/api/contracts/pilot.ts';
 import { call } from '../../api/client.ts';
 import { ErrorNote, Panel } from '../../shared/components.tsx';
 import { TaskProgress } from '../../shared/task-progress.tsx';
