@@ -6,8 +6,8 @@ import {
   type PhaseStatus,
 } from '../../db/repos/phase-state.ts';
 import type { Study } from '../../db/study.ts';
-import { constructRules } from './construct.ts';
-import { itemsRules } from './items.ts';
+import { constructRules } from './construct/index.ts';
+import { itemsRules } from './items/index.ts';
 import { pilotRules } from './pilot.ts';
 import { purificationRules } from './purification.ts';
 import { reviewRules } from './review.ts';

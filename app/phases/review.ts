@@ -64,7 +64,7 @@ import { TableError } from '../import/parse-table.ts';
 import { describeProblem, readRatings } from '../import/ratings.ts';
 import { changeInPhase } from './change.ts';
 import { RuleError } from './errors.ts';
-import { type FileProblem, MAX_ITEM_TEXT, sha256Hex, tableProblem } from './items.ts';
+import { type FileProblem, MAX_ITEM_TEXT, sha256Hex, tableProblem } from './items/index.ts';
 import type { ChecklistItem, PhaseRules } from './types.ts';
 
 /** Largest ratings file read in one import (a 40-expert, 200-item long file is well under 1 MiB). */

@@ -15,7 +15,7 @@ import {
   updateForm,
   withdrawRatings,
 } from '../../phases/review.ts';
-import { MAX_ITEM_TEXT } from '../../phases/items.ts';
+import { MAX_ITEM_TEXT } from '../../phases/items/index.ts';
 import { command } from '../define.ts';
 import { fileBytes, uploadedFile } from './items.ts';
 import { id, rationale, text } from './schemas.ts';

@@ -6,9 +6,9 @@ import { buildDataset } from '../../../app/import/dataset.ts';
 import { proposeMapping } from '../../../app/import/mapping.ts';
 import { NO_MISSING_CODES } from '../../../app/import/numbers.ts';
 import { parseTable, TableError } from '../../../app/import/parse-table.ts';
-import { addFacet } from '../../../app/phases/construct.ts';
+import { addFacet } from '../../../app/phases/construct/index.ts';
 import { RuleError } from '../../../app/phases/errors.ts';
-import { addItem } from '../../../app/phases/items.ts';
+import { addItem } from '../../../app/phases/items/index.ts';
 import { automaticMapping, planImport, storeImport } from '../../../app/phases/pilot.ts';
 import {
   dataFileKind,

@@ -2,9 +2,9 @@ import path from 'node:path';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { NO_MISSING_CODES } from '../../../app/import/numbers.ts';
 import { currentPilotDataset } from '../../../app/phases/analysis-data.ts';
-import { addFacet } from '../../../app/phases/construct.ts';
+import { addFacet } from '../../../app/phases/construct/index.ts';
 import { RuleError } from '../../../app/phases/errors.ts';
-import { addItem } from '../../../app/phases/items.ts';
+import { addItem } from '../../../app/phases/items/index.ts';
 import {
   automaticMapping,
   type CurrentOnImport,

@@ -22,10 +22,10 @@ import type { ScreeningResult } from '../../../app/engine/screening.ts';
 import type { ColumnMapping } from '../../../app/import/mapping.ts';
 import { NO_MISSING_CODES, type MissingCodes } from '../../../app/import/numbers.ts';
 import { analysisData, currentPilotDataset } from '../../../app/phases/analysis-data.ts';
-import { addFacet } from '../../../app/phases/construct.ts';
+import { addFacet } from '../../../app/phases/construct/index.ts';
 import { RuleError } from '../../../app/phases/errors.ts';
 import { phaseOverview, reopenPhase, signOffPhase } from '../../../app/phases/index.ts';
-import { addItem } from '../../../app/phases/items.ts';
+import { addItem } from '../../../app/phases/items/index.ts';
 import {
   automaticMapping,
   type CurrentOnImport,
