@@ -12,7 +12,7 @@ import {
 import { delimiterName } from './detect-format.ts';
 import { type FileProblem, tableProblem } from './file-problem.ts';
 import { parseTable, TableError } from './parse-table.ts';
-import { describeProblem } from './ratings.ts';
+import { describeProblem } from './ratings/index.ts';
 import { sha256Hex } from './sha256.ts';
 
 /** A facet an item-pool file may name. */

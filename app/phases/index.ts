@@ -10,7 +10,7 @@ import { constructRules } from './construct/index.ts';
 import { itemsRules } from './items/index.ts';
 import { pilotRules } from './pilot.ts';
 import { purificationRules } from './purification.ts';
-import { reviewRules } from './review.ts';
+import { reviewRules } from './review/index.ts';
 import { RuleError } from './errors.ts';
 import { phaseNotYetAvailable } from './later.ts';
 import { REOPENED, SIGNED_OFF, type SignOffReview, signOffReview } from './stale.ts';

@@ -14,7 +14,7 @@ import {
   syncRoundItems,
   updateForm,
   withdrawRatings,
-} from '../../phases/review.ts';
+} from '../../phases/review/index.ts';
 import { MAX_ITEM_TEXT } from '../../phases/items/index.ts';
 import { command } from '../define.ts';
 import { fileBytes, uploadedFile } from './items.ts';

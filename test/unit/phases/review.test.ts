@@ -20,7 +20,7 @@ import {
   reviewView,
   updateForm,
   withdrawRatings,
-} from '../../../app/phases/review.ts';
+} from '../../../app/phases/review/index.ts';
 import { TEST_ACTOR, tempDir } from '../../helpers/tmp.ts';
 
 let tmp: ReturnType<typeof tempDir>;
