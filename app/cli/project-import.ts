@@ -19,7 +19,7 @@ import {
   previewDataFile,
   respondentCount,
   storeImport,
-} from '../phases/pilot.ts';
+} from '../phases/pilot/index.ts';
 import { type ImportRead, readDataFile } from '../import/read-data-file.ts';
 import { currentDataset } from '../phases/analysis-data.ts';
 import { RuleError } from '../phases/errors.ts';

@@ -18,7 +18,7 @@ import type { JobContext } from '../workers/job-context.ts';
 /**
  * Reading a data file for import, without touching any study: the part of an import that runs in a
  * worker thread (or directly in the command line). The result is stored only after the researcher
- * (or the command line) confirms it; see storeImport in app/phases/pilot.ts.
+ * (or the command line) confirms it; see storeImport in app/phases/pilot/import-actions.ts.
  */
 
 /**

@@ -8,7 +8,7 @@ import {
 import type { Study } from '../../db/study.ts';
 import { constructRules } from './construct/index.ts';
 import { itemsRules } from './items/index.ts';
-import { pilotRules } from './pilot.ts';
+import { pilotRules } from './pilot/index.ts';
 import { purificationRules } from './purification.ts';
 import { reviewRules } from './review/index.ts';
 import { RuleError } from './errors.ts';

@@ -18,7 +18,7 @@ import { performance } from 'node:perf_hooks';
 import { median, writeBenchCsv } from './import-baseline.ts';
 import { addFacet, updateConstructText } from '../../app/phases/construct/index.ts';
 import { addItem } from '../../app/phases/items/index.ts';
-import { automaticMapping, planImport, storeImport } from '../../app/phases/pilot.ts';
+import { automaticMapping, planImport, storeImport } from '../../app/phases/pilot/index.ts';
 import { readDataFile } from '../../app/import/read-data-file.ts';
 import { rootDigest, syncAllDigests } from '../../db/content-digest.ts';
 import { Study } from '../../db/study.ts';

@@ -19,7 +19,7 @@ import { performance } from 'node:perf_hooks';
 import { median, papaStream, papaString, writeBenchCsv } from './import-baseline.ts';
 import { addFacet } from '../../app/phases/construct/index.ts';
 import { addItem } from '../../app/phases/items/index.ts';
-import { automaticMapping, planImport, storeImport } from '../../app/phases/pilot.ts';
+import { automaticMapping, planImport, storeImport } from '../../app/phases/pilot/index.ts';
 import { readDataFile } from '../../app/import/read-data-file.ts';
 import { Study } from '../../db/study.ts';
 

@@ -24,7 +24,7 @@ import {
   storeImport,
   makeDatasetCurrent,
   withdrawDataset,
-} from '../../phases/pilot.ts';
+} from '../../phases/pilot/index.ts';
 import type { ImportRead, ReadSettings } from '../../import/read-data-file.ts';
 import { RuleError } from '../../phases/errors.ts';
 import { command } from '../define.ts';

@@ -11,5 +11,5 @@ export type {
   DatasetListEntry,
   MissingData,
   ScreenedRespondent,
-} from '../../phases/pilot.ts';
+} from '../../phases/pilot/index.ts';
 export type { DatasetRole } from '../../../db/repos/datasets.ts';

@@ -6,7 +6,7 @@ import { dispatch } from '../../../app/api/dispatch.ts';
 import { Session } from '../../../app/api/session.ts';
 import { addFacet } from '../../../app/phases/construct/index.ts';
 import { addItem } from '../../../app/phases/items/index.ts';
-import type { DataFilePreview } from '../../../app/phases/pilot.ts';
+import type { DataFilePreview } from '../../../app/phases/pilot/index.ts';
 import type { TaskStatus } from '../../../app/workers/tasks.ts';
 import { listDatasets, loadDatasetFile } from '../../../db/repos/datasets.ts';
 import { TEST_ACTOR, tempDir } from '../../helpers/tmp.ts';

@@ -51,7 +51,7 @@ function writeChild(file: string): void {
     file,
     `import fs from 'node:fs';
 import { Study } from ${at('db/study.ts')};
-import { automaticMapping, planImport, storeImport } from ${at('app/phases/pilot.ts')};
+import { automaticMapping, planImport, storeImport } from ${at('app/phases/pilot/index.ts')};
 import { readDataFile } from ${at('app/import/read-data-file.ts')};
 const [studyPath, dataPath] = process.argv.slice(2);
 const study = Study.open(studyPath, { actor: { user: 'kill', name: 'Kill test' }, app: 'the kill test' });

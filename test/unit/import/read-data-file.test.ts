@@ -9,7 +9,7 @@ import { parseTable, TableError } from '../../../app/import/parse-table.ts';
 import { addFacet } from '../../../app/phases/construct/index.ts';
 import { RuleError } from '../../../app/phases/errors.ts';
 import { addItem } from '../../../app/phases/items/index.ts';
-import { automaticMapping, planImport, storeImport } from '../../../app/phases/pilot.ts';
+import { automaticMapping, planImport, storeImport } from '../../../app/phases/pilot/index.ts';
 import {
   dataFileKind,
   READ_CHUNK_BYTES,

@@ -14,7 +14,7 @@ import {
   planImport,
   storeImport,
   withdrawDataset,
-} from '../../../app/phases/pilot.ts';
+} from '../../../app/phases/pilot/index.ts';
 import { readDataFile } from '../../../app/import/read-data-file.ts';
 import { purificationView, roundSummaries, runRound } from '../../../app/phases/purification.ts';
 import { listDatasetChoices, listDatasets } from '../../../db/repos/datasets.ts';

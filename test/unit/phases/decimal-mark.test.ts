@@ -4,7 +4,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { NO_MISSING_CODES } from '../../../app/import/numbers.ts';
 import { addFacet } from '../../../app/phases/construct/index.ts';
 import { addItem } from '../../../app/phases/items/index.ts';
-import { automaticMapping, planImport, previewDataFile, storeImport } from '../../../app/phases/pilot.ts';
+import { automaticMapping, planImport, previewDataFile, storeImport } from '../../../app/phases/pilot/index.ts';
 import { type ReadSettings, readDataFile } from '../../../app/import/read-data-file.ts';
 import { listDatasets } from '../../../db/repos/datasets.ts';
 import { Study } from '../../../db/study.ts';

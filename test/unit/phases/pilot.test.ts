@@ -39,7 +39,7 @@ import {
   screenDataset,
   screeningView,
   storeImport,
-} from '../../../app/phases/pilot.ts';
+} from '../../../app/phases/pilot/index.ts';
 import { readDataFile } from '../../../app/import/read-data-file.ts';
 import { getRun, listRuns } from '../../../db/repos/analysis-runs.ts';
 import {

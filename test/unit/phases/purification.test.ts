@@ -8,7 +8,7 @@ import { analysisData, currentPilotDataset } from '../../../app/phases/analysis-
 import { addFacet } from '../../../app/phases/construct/index.ts';
 import { RuleError } from '../../../app/phases/errors.ts';
 import { phaseOverview, reopenPhase, signOffPhase } from '../../../app/phases/index.ts';
-import { includeRespondents } from '../../../app/phases/pilot.ts';
+import { includeRespondents } from '../../../app/phases/pilot/index.ts';
 import {
   decideItem,
   decisionViews,
