@@ -86,6 +86,16 @@ describe('every command output is plain JSON data', () => {
     await call('log.verify', {});
   });
 
+  it('the final instrument: its form, a logged order, its files', async () => {
+    const view = await call<{ available: boolean; items: { code: string }[] }>('instrument.view');
+    expect(view.available).toBe(true);
+    await call('instrument.setForm', {
+      order: view.items.map((it) => it.code).reverse(),
+      reason: 'Easier items last.',
+    });
+    await call('instrument.files');
+  });
+
   it('long jobs: a purification round started, followed and collected; one cancelled', async () => {
     const cancelled = await call<{ taskId: string }>('purification.startRound', {});
     await call('task.cancel', { id: cancelled.taskId });
