@@ -84,6 +84,13 @@ describe('every command output is plain JSON data', () => {
     await call('log.exportCsv', {});
     await call('log.lastChange');
     await call('log.verify', {});
+    const log = await call<{ entries: { seq: number; runId: number | null }[] }>('log.list', { limit: 200 });
+    const runId = log.entries.find((e) => e.runId !== null)!.runId;
+    await call('history.items');
+    await call('history.itemStory', { code: 'TR01' });
+    await call('history.row', { seq: log.entries[0].seq });
+    await call('history.run', { id: runId });
+    await call('history.rerun', { id: runId });
   });
 
   it('the final instrument: its form, a logged order, its files', async () => {
