@@ -5,7 +5,7 @@ import {
   updateConstructText,
   updateResponseFormat,
   updateScoreUse,
-} from '../phases/construct.ts';
+} from '../phases/construct/index.ts';
 
 /**
  * The demo's construct phase: an invented city mobility research unit defining "Everyday

@@ -9,8 +9,8 @@ import {
   planImport,
   screenDataset,
   storeImport,
-} from '../phases/pilot.ts';
-import { readDelimitedFileNow } from '../phases/pilot-read.ts';
+} from '../phases/pilot/index.ts';
+import { readDelimitedFileNow } from '../import/read-data-file.ts';
 import { DEMO_FACETS } from './construct.ts';
 import { DEMO_ITEMS, DEMO_OFF_DOMAIN_ITEM, DEMO_RETIRED_ITEM } from './items.ts';
 

@@ -6,11 +6,11 @@ import {
   type PhaseStatus,
 } from '../../db/repos/phase-state.ts';
 import type { Study } from '../../db/study.ts';
-import { constructRules } from './construct.ts';
-import { itemsRules } from './items.ts';
-import { pilotRules } from './pilot.ts';
+import { constructRules } from './construct/index.ts';
+import { itemsRules } from './items/index.ts';
+import { pilotRules } from './pilot/index.ts';
 import { purificationRules } from './purification.ts';
-import { reviewRules } from './review.ts';
+import { reviewRules } from './review/index.ts';
 import { RuleError } from './errors.ts';
 import { phaseNotYetAvailable } from './later.ts';
 import { REOPENED, SIGNED_OFF, type SignOffReview, signOffReview } from './stale.ts';

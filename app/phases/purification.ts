@@ -37,7 +37,7 @@ import { analysisData } from './analysis-data.ts';
 import { changeInPhase, recordRun, requireOpen } from './change.ts';
 import { currentPilotDataset, declaredBounds } from './analysis-data.ts';
 import { RuleError } from './errors.ts';
-import { MIN_ITEMS_PER_FACET } from './items.ts';
+import { MIN_ITEMS_PER_FACET } from './items/index.ts';
 import type { ChecklistItem, PhaseRules } from './types.ts';
 
 /**

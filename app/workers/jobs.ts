@@ -7,7 +7,8 @@ import {
   type ItemAnalysis,
   type ItemAnalysisInput,
 } from '../engine/reliability.ts';
-import { readDataFileJob } from '../phases/pilot-read.ts';
+import { readDataFileJob } from '../import/read-data-file.ts';
+import type { JobContext } from './job-context.ts';
 
 type AnalysisJobInput = Omit<ItemAnalysisInput, 'bootstrap'> & {
   bootstrap?: { resamples: number; seed: number };
@@ -23,12 +24,7 @@ export interface RoundJobOutput {
   facets: { facetId: number; analysis: ItemAnalysis }[];
 }
 
-/** What a job may do while it runs: report progress, and ask whether it should stop. */
-export interface JobContext {
-  /** `note` says in words what is being counted, for the progress bar. */
-  progress(done: number, total: number, note?: string): void;
-  shouldStop(): boolean;
-}
+export type { JobContext } from './job-context.ts';
 
 /**
  * Every long computation that runs off the main thread, by name. A job is a pure engine call on

@@ -67,7 +67,8 @@ export class TaskRunner {
           if (message.type === 'progress') {
             status.done = message.done ?? 0;
             status.total = message.total ?? 0;
-            status.note = message.note;
+            if (message.note === undefined) delete status.note;
+            else status.note = message.note;
           } else if (message.type === 'done') {
             status.state = 'done';
             status.done = status.total;
@@ -75,7 +76,7 @@ export class TaskRunner {
           } else if (message.type === 'failed') {
             const cancelled = message.error?.code === 'cancelled';
             status.state = cancelled ? 'cancelled' : 'failed';
-            status.error = message.error?.message;
+            status.error = message.error?.message ?? 'the job failed';
             reject(new EngineError(message.error?.message ?? 'the job failed', message.error?.code));
           }
         },

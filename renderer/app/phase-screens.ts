@@ -1,5 +1,5 @@
 import type { ReactElement } from 'react';
-import type { PhaseId } from '../../db/repos/phase-state.ts';
+import type { PhaseId } from '../../app/api/contracts/phases.ts';
 import { ConstructScreen } from '../phases/construct/ConstructScreen.tsx';
 import { itemsScreen } from '../phases/items/screen.ts';
 import { pilotScreen } from '../phases/pilot/screen.ts';

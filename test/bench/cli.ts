@@ -15,7 +15,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { DEMO_ITEMS } from '../../app/demo/items.ts';
-import { READ_CHUNK_BYTES } from '../../app/phases/pilot-read.ts';
+import { READ_CHUNK_BYTES } from '../../app/import/read-data-file.ts';
 import { median, writeBenchCsv } from './import-baseline.ts';
 import { machineLine, type Timed, timed } from './process-time.ts';
 

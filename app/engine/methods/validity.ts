@@ -1,4 +1,5 @@
 import type { Reference, RegistryEntry } from './types.ts';
+import { LORD_NOVICK_1968, PEARSON_1896, SPEARMAN_1904, recalled } from './references.ts';
 
 const JORESKOG_1969: Reference = {
   authors: ['Jöreskog, K. G.'],
@@ -304,18 +305,7 @@ export const VALIDITY_METHODS: RegistryEntry[] = [
     kind: 'method',
     id: 'correlation.pearson',
     name: 'Pearson correlation',
-    references: [
-      {
-        authors: ['Pearson, K.'],
-        year: 1896,
-        title:
-          'Mathematical contributions to the theory of evolution. III. Regression, heredity, and panmixia',
-        container: 'Philosophical Transactions of the Royal Society of London, Series A',
-        volume: '187',
-        pages: '253–318',
-        doi: '10.1098/rsta.1896.0007',
-      },
-    ],
+    references: [PEARSON_1896],
   },
   {
     kind: 'method',
@@ -337,18 +327,7 @@ export const VALIDITY_METHODS: RegistryEntry[] = [
     kind: 'method',
     id: 'validity.disattenuation',
     name: 'Correction for attenuation',
-    references: [
-      {
-        authors: ['Spearman, C.'],
-        year: 1904,
-        title: 'The proof and measurement of association between two things',
-        container: 'American Journal of Psychology',
-        volume: '15',
-        issue: '1',
-        pages: '72–101',
-        doi: '10.2307/1412159',
-      },
-    ],
+    references: [SPEARMAN_1904],
   },
   {
     kind: 'method',
@@ -475,15 +454,7 @@ export const VALIDITY_METHODS: RegistryEntry[] = [
     kind: 'method',
     id: 'icc.sem',
     name: 'Standard error of measurement from test–retest reliability',
-    references: [
-      {
-        authors: ['Lord, F. M.', 'Novick, M. R.'],
-        year: 1968,
-        title: 'Statistical theories of mental test scores',
-        publisher: 'Addison-Wesley',
-        fromMemory: true,
-      },
-    ],
+    references: [recalled(LORD_NOVICK_1968)],
   },
   {
     kind: 'rule',

@@ -3,7 +3,7 @@ import path from 'node:path';
 import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest';
 import { getPhaseStatus } from '../../../db/repos/phase-state.ts';
 import { Study } from '../../../db/study.ts';
-import { addFacet } from '../../../app/phases/construct.ts';
+import { addFacet } from '../../../app/phases/construct/index.ts';
 import { runCli, runCliHere } from '../../helpers/cli.ts';
 import { TEST_ACTOR, tempDir } from '../../helpers/tmp.ts';
 

@@ -5,10 +5,10 @@ import { fillDemoStudy } from '../../../app/demo/index.ts';
 import { DEMO_OFF_DOMAIN_ITEM } from '../../../app/demo/items.ts';
 import { DEMO_STRAIGHT_LINERS } from '../../../app/demo/pilot.ts';
 import { analysisData, currentPilotDataset } from '../../../app/phases/analysis-data.ts';
-import { addFacet } from '../../../app/phases/construct.ts';
+import { addFacet } from '../../../app/phases/construct/index.ts';
 import { RuleError } from '../../../app/phases/errors.ts';
 import { phaseOverview, reopenPhase, signOffPhase } from '../../../app/phases/index.ts';
-import { includeRespondents } from '../../../app/phases/pilot.ts';
+import { includeRespondents } from '../../../app/phases/pilot/index.ts';
 import {
   decideItem,
   decisionViews,

@@ -3,10 +3,10 @@ import path from 'node:path';
 import { afterAll, afterEach, beforeAll, beforeEach, describe, expect, it } from 'vitest';
 import { Study } from '../../../db/study.ts';
 import { fillDemoStudy } from '../../../app/demo/index.ts';
-import { addFacet } from '../../../app/phases/construct.ts';
+import { addFacet } from '../../../app/phases/construct/index.ts';
 import { RuleError } from '../../../app/phases/errors.ts';
 import { phaseOverview, reopenPhase, signOffPhase, studyOverview } from '../../../app/phases/index.ts';
-import { addItem } from '../../../app/phases/items.ts';
+import { addItem } from '../../../app/phases/items/index.ts';
 import { TEST_ACTOR, tempDir } from '../../helpers/tmp.ts';
 
 let tmp: ReturnType<typeof tempDir>;

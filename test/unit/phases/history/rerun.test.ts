@@ -17,9 +17,9 @@ import {
   rerunStoredRuns,
   verifyWithReruns,
 } from '../../../../app/phases/history/index.ts';
-import { editFacet } from '../../../../app/phases/construct.ts';
+import { editFacet } from '../../../../app/phases/construct/index.ts';
 import { reopenPhase } from '../../../../app/phases/index.ts';
-import { editItem } from '../../../../app/phases/items.ts';
+import { editItem } from '../../../../app/phases/items/index.ts';
 import { listFacets } from '../../../../db/repos/construct.ts';
 import { listItems } from '../../../../db/repos/items.ts';
 import { Study } from '../../../../db/study.ts';

@@ -1,4 +1,4 @@
-import { sha256Hex } from '../import/sha256.ts';
+import { sha256Hex } from './sha256.ts';
 import { EngineError } from '../engine/errors.ts';
 import {
   chooseDecimalMark,
@@ -6,19 +6,19 @@ import {
   type DatasetOptions,
   type EncodedDataset,
   numericColumns,
-} from '../import/dataset.ts';
-import type { ColumnMapping } from '../import/mapping.ts';
-import type { DecimalMark, MissingCodes } from '../import/numbers.ts';
-import { type ParsedTable, parseTable } from '../import/parse-table.ts';
-import { isPlainText, streamDataset } from '../import/stream-dataset.ts';
-import { TableError } from '../import/table-error.ts';
-import { readWorkbook } from '../import/workbook.ts';
-import type { JobContext } from '../workers/jobs.ts';
+} from './dataset.ts';
+import type { ColumnMapping } from './mapping.ts';
+import type { DecimalMark, MissingCodes } from './numbers.ts';
+import { type ParsedTable, parseTable } from './parse-table.ts';
+import { isPlainText, streamDataset } from './stream-dataset.ts';
+import { TableError } from './table-error.ts';
+import { readWorkbook } from './workbook.ts';
+import type { JobContext } from '../workers/job-context.ts';
 
 /**
  * Reading a data file for import, without touching any study: the part of an import that runs in a
  * worker thread (or directly in the command line). The result is stored only after the researcher
- * (or the command line) confirms it; see storeImport in app/phases/pilot.ts.
+ * (or the command line) confirms it; see storeImport in app/phases/pilot/import-actions.ts.
  */
 
 /**

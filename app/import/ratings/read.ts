@@ -1,4 +1,4 @@
-import { columnLabel, parseTable } from './parse-table.ts';
+import { columnLabel, parseTable } from '../parse-table.ts';
 
 /**
  * Reader for an expert-review ratings file. Two layouts are accepted, told apart by the header

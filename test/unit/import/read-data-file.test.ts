@@ -6,10 +6,8 @@ import { buildDataset } from '../../../app/import/dataset.ts';
 import { proposeMapping } from '../../../app/import/mapping.ts';
 import { NO_MISSING_CODES } from '../../../app/import/numbers.ts';
 import { parseTable, TableError } from '../../../app/import/parse-table.ts';
-import { addFacet } from '../../../app/phases/construct.ts';
 import { RuleError } from '../../../app/phases/errors.ts';
-import { addItem } from '../../../app/phases/items.ts';
-import { automaticMapping, planImport, storeImport } from '../../../app/phases/pilot.ts';
+import { automaticMapping, planImport, storeImport } from '../../../app/phases/pilot/index.ts';
 import {
   dataFileKind,
   READ_CHUNK_BYTES,
@@ -17,12 +15,13 @@ import {
   readDataFileJob,
   readDelimitedFileNow,
   type ReadRequest,
-} from '../../../app/phases/pilot-read.ts';
+} from '../../../app/import/read-data-file.ts';
 import { listDatasets, loadDatasetFile } from '../../../db/repos/datasets.ts';
-import { Study } from '../../../db/study.ts';
-import { TEST_ACTOR, tempDir } from '../../helpers/tmp.ts';
-import { CORPUS } from '../import/broken-corpus.ts';
-import { makeWorkbook } from '../import/xlsx-writer.ts';
+import type { Study } from '../../../db/study.ts';
+import { createStudyWithPool } from '../../helpers/study-data.ts';
+import { tempDir } from '../../helpers/tmp.ts';
+import { CORPUS } from './broken-corpus.ts';
+import { makeWorkbook } from './xlsx-writer.ts';
 
 const utf8 = (s: string) => new TextEncoder().encode(s);
 const POOL = ['tc1', 'tc2', 'q1', 'q2'];
@@ -32,18 +31,7 @@ let tmp: ReturnType<typeof tempDir>;
 let study: Study;
 beforeAll(() => {
   tmp = tempDir();
-  study = Study.create(path.join(tmp.dir, 's.scalewright'), { actor: TEST_ACTOR, app: 'test' });
-  const facet = addFacet(study, 'Test facet', '');
-  for (const code of POOL) {
-    addItem(study, {
-      code,
-      text: `Test wording of item ${code}`,
-      facetId: facet,
-      keying: 'forward',
-      sourceType: 'own-drafting',
-      sourceNote: '',
-    });
-  }
+  study = createStudyWithPool(path.join(tmp.dir, 's.scalewright'), POOL);
 });
 afterAll(() => {
   study.close();
