@@ -36,19 +36,20 @@ export async function exportAppendix(
   options: AppendixOptions = {},
 ): Promise<RenderedAppendix> {
   const doc = buildAppendix(study, options);
+  const head = study.log.head() ?? null;
+  const stem = path.basename(study.path, path.extname(study.path));
   let bytes: Uint8Array;
   if (format === 'md') bytes = new TextEncoder().encode(renderMarkdown(doc));
   else if (format === 'html') bytes = new TextEncoder().encode(renderHtml(doc));
   else if (format === 'docx') bytes = await renderDocx(doc);
   else bytes = await renderPdf(doc);
-  const stem = path.basename(study.path, path.extname(study.path));
   const verification = doc.blocks.some((b) => b.kind === 'notice' && b.tone === 'break');
   return {
     format,
     fileName: `${stem}-methods-appendix.${format}`,
     mediaType: MEDIA_TYPES[format],
     bytes,
-    head: study.log.head() ?? null,
+    head,
     intact: !verification,
   };
 }
