@@ -104,7 +104,7 @@ function dimensionality(w: Writer, run: RunRecord, o: Obj): void {
   ];
   const shown = eigen.slice(0, Math.min(eigen.length, 12));
   w.table(
-    `Eigenvalues${random ? ' and parallel analysis' : ''} (${provenance(run, o)})`,
+    `Eigenvalues${random ? ' and parallel analysis' : ''} (analysis run ${run.id})`,
     [
       ['Component', 'right'],
       ['Eigenvalue', 'right'],
@@ -168,7 +168,7 @@ function efa(w: Writer, run: RunRecord, o: Obj): void {
     '.',
   );
   w.table(
-    `Factor loadings (${provenance(run, o)})`,
+    `Factor loadings (analysis run ${run.id})`,
     [
       ['Item', 'left'],
       ...factors.map((f) => [f, 'right'] as [string, 'right']),
@@ -201,7 +201,7 @@ function cfa(w: Writer, run: RunRecord, o: Obj): void {
     ', read as guides rather than verdicts.',
   );
   w.table(
-    `Model fit (${provenance(run, o)})`,
+    `Model fit of the confirmatory model (analysis run ${run.id})`,
     [
       ['χ²', 'right'],
       ['df', 'right'],
@@ -253,7 +253,7 @@ function cfa(w: Writer, run: RunRecord, o: Obj): void {
     ? (o.factors as unknown[]).map(String)
     : [...new Set(list.map((l) => String(l.factor)))];
   w.table(
-    'Standardized loadings',
+    `Standardized loadings (analysis run ${run.id})`,
     [
       ['Item', 'left'],
       ['Factor', 'left'],
@@ -271,12 +271,8 @@ function cfa(w: Writer, run: RunRecord, o: Obj): void {
   const groups = Array.isArray(o.groups) && isObj(o.groups[0]) ? (o.groups[0] as Obj) : o;
   const phi = matrix(groups.factorCorrelations) ? groups.factorCorrelations : null;
   if (list.length > 0 && factorNames.length > 0) {
-    const correlations: { a: number; b: number; value: number }[] = [];
-    if (phi)
-      for (let a = 0; a < phi.length; a++)
-        for (let b = a + 1; b < phi.length; b++) correlations.push({ a, b, value: phi[a][b] });
     w.figure(
-      'The confirmatory model with standardized loadings and factor correlations',
+      'The confirmatory model with its standardized loadings',
       cfaDiagram(
         factorNames.map((f) => ({
           name: f,
@@ -284,9 +280,22 @@ function cfa(w: Writer, run: RunRecord, o: Obj): void {
             .filter((l) => String(l.factor) === f)
             .map((l) => ({ name: String(l.item), loading: num(l.standardized) })),
         })),
-        correlations,
       ),
-      `Factors ${factorNames.join(', ')} with their items; loadings on the paths, correlations on the curved lines.`,
+      `Factors ${factorNames.join(', ')}, each with its items and their standardized loadings.`,
+    );
+  }
+  if (phi && phi.length > 1 && phi.length === factorNames.length) {
+    w.table(
+      'Factor correlations',
+      [
+        ['Factor', 'left'],
+        ...factorNames.slice(0, -1).map((_, j) => [String(j + 1), 'right'] as [string, 'right']),
+      ],
+      factorNames.map((f, i) => [
+        `${i + 1}. ${f}`,
+        ...factorNames.slice(0, -1).map((_, j) => (j < i ? bounded(phi[i][j], 2) : '')),
+      ]),
+      { empty: 'None.' },
     );
   }
   const reliability = objectsIn(o)
@@ -360,7 +369,7 @@ function icc(w: Writer, run: RunRecord, o: Obj): void {
     `, ${provenance(run, o)}.`,
   );
   w.table(
-    `Intraclass correlations (${provenance(run, o)})`,
+    `Intraclass correlations (analysis run ${run.id})`,
     [
       ['Form', 'left'],
       ['Model', 'left'],

@@ -31,13 +31,23 @@ export class Citations {
     return [...this.used].sort();
   }
 
-  /** Every reference behind the cited ids, deduplicated, sorted by first author and year. */
+  /**
+   * Every reference behind the cited ids, once, sorted by first author and year. The same publication
+   * under two entries counts once, in its checked form when one copy was not recalled from memory.
+   */
   references(): Reference[] {
-    const byText = new Map<string, Reference>();
+    const byWork = new Map<string, Reference>();
     for (const id of this.used) {
-      for (const ref of methodEntry(id).references) byText.set(formatReference(ref), ref);
+      for (const ref of methodEntry(id).references) {
+        const key = `${ref.authors.join(';')}|${ref.year}|${ref.title.toLowerCase()}`;
+        const seen = byWork.get(key);
+        if (!seen || (seen.fromMemory && !ref.fromMemory)) byWork.set(key, ref);
+      }
     }
-    return [...byText.entries()].sort(([a], [b]) => a.localeCompare(b, 'en')).map(([, ref]) => ref);
+    return [...byWork.values()]
+      .map((ref) => [formatReference(ref), ref] as const)
+      .sort(([a], [b]) => a.localeCompare(b, 'en'))
+      .map(([, ref]) => ref);
   }
 }
 

@@ -293,17 +293,15 @@ export function loadingsHeatmap(items: string[], factors: string[], loadings: nu
   };
 }
 
-/** A path diagram: factors as ellipse-like boxes on the left, items on the right, loadings on the arrows. */
-export function cfaDiagram(
-  factors: { name: string; items: { name: string; loading: number | null }[] }[],
-  correlations: { a: number; b: number; value: number }[],
-) {
+/** A path diagram: each factor as a box on the left, its items on the right, the standardized loading beside each item. */
+export function cfaDiagram(factors: { name: string; items: { name: string; loading: number | null }[] }[]) {
   const rowH = 15;
-  const itemX = 300;
-  const factorX = 190;
+  const itemX = 250;
+  const longest = Math.max(...factors.map((f) => f.name.length));
+  const factorW = Math.min(200, Math.max(90, longest * 5.1 + 16));
+  const factorX = 40;
   const shapes: Shape[] = [];
-  let y = 14;
-  const centres: number[] = [];
+  let y = 8;
   for (const f of factors) {
     const start = y;
     for (const item of f.items) {
@@ -311,63 +309,42 @@ export function cfaDiagram(
         type: 'rect',
         x: itemX,
         y,
-        w: 60,
+        w: 56,
         h: rowH - 3,
         stroke: INK,
         fill: '#ffffff',
         width: 0.7,
       });
-      shapes.push(text(itemX + 30, y + rowH / 2 + 1.5, item.name));
+      shapes.push(text(itemX + 28, y + rowH / 2 + 1.5, item.name));
+      if (item.loading !== null)
+        shapes.push(text(itemX + 64, y + rowH / 2 + 1.5, bounded(item.loading, 2), 'start'));
       y += rowH;
     }
     const centre = (start + y - 3) / 2;
-    centres.push(centre);
-    f.items.forEach((item, i) => {
+    for (const [i] of f.items.entries()) {
       const iy = start + i * rowH + (rowH - 3) / 2;
       shapes.push({
         type: 'line',
-        x1: factorX + 45,
+        x1: factorX + factorW,
         y1: centre,
         x2: itemX,
         y2: iy,
         stroke: GREY,
         width: 0.6,
       });
-      if (item.loading !== null)
-        shapes.push(text(itemX - 4, iy + 3, bounded(item.loading, 2), 'end', { size: 7 }));
-    });
+    }
     shapes.push({
       type: 'rect',
-      x: factorX - 45,
+      x: factorX,
       y: centre - 10,
-      w: 90,
+      w: factorW,
       h: 20,
       stroke: INK,
       fill: '#eef3f8',
       width: 1,
     });
-    shapes.push(text(factorX, centre + 3, f.name, 'middle', { bold: true }));
-    y += 8;
+    shapes.push(text(factorX + factorW / 2, centre + 3, f.name, 'middle', { bold: true }));
+    y += 10;
   }
-  for (const c of correlations) {
-    const ya = centres[c.a];
-    const yb = centres[c.b];
-    if (ya === undefined || yb === undefined) continue;
-    const bend = 40 + 12 * Math.abs(c.b - c.a);
-    const x0 = factorX - 45;
-    shapes.push({
-      type: 'polyline',
-      points: [
-        [x0, ya],
-        [x0 - bend, (ya + yb) / 2],
-        [x0, yb],
-      ],
-      stroke: ACCENT,
-      width: 0.6,
-    });
-    shapes.push(
-      text(x0 - bend - 2, (ya + yb) / 2 + 3, bounded(c.value, 2), 'end', { size: 7, fill: ACCENT }),
-    );
-  }
-  return { width: FIGURE_WIDTH, height: y + 4, shapes };
+  return { width: 340, height: y, shapes };
 }

@@ -55,13 +55,14 @@ function runs(
   x: number,
   width: number,
   color = INK,
+  indent = 0,
 ): void {
   const parts = inlines.filter((i) => i.text !== '');
   if (parts.length === 0) return;
   doc.fillColor(color);
   parts.forEach((part, index) => {
     doc.font(fontOf(part)).fontSize(size);
-    const options = { width, lineGap: 1.5, continued: index < parts.length - 1 };
+    const options = { width, lineGap: 1.5, continued: index < parts.length - 1, indent };
     if (index === 0) doc.text(part.text, x, doc.y, options);
     else doc.text(part.text, options);
   });
@@ -69,7 +70,7 @@ function runs(
 
 function heading(doc: Doc, level: number, text: string): void {
   const size = level === 2 ? 13 : 11;
-  ensure(doc, size * 5);
+  ensure(doc, 120);
   doc.moveDown(level === 2 ? 1.1 : 0.7);
   doc
     .font(level === 2 ? FONT.bold : FONT.boldItalic)
@@ -144,10 +145,10 @@ function drawRow(doc: Doc, cells: string[], table: Table, widths: number[], font
   });
 }
 
-function rule(doc: Doc, y: number, width: number): void {
+function rule(doc: Doc, y: number, width: number, length = WIDTH): void {
   doc
     .moveTo(MARGIN.left, y)
-    .lineTo(MARGIN.left + WIDTH, y)
+    .lineTo(MARGIN.left + length, y)
     .lineWidth(width)
     .strokeColor(INK)
     .stroke();
@@ -155,6 +156,7 @@ function rule(doc: Doc, y: number, width: number): void {
 
 function tableBlock(doc: Doc, table: Table): void {
   const widths = columnWidths(doc, table);
+  const span = widths.reduce((a, b) => a + b, 0);
   const headers = table.columns.map((c) => c.header);
   const headH = rowHeight(doc, headers, widths, FONT.regular);
   const firstH = table.rows.length > 0 ? rowHeight(doc, table.rows[0], widths, FONT.regular) : 0;
@@ -165,16 +167,16 @@ function tableBlock(doc: Doc, table: Table): void {
   doc.moveDown(0.25);
   const header = () => {
     const top = doc.y;
-    rule(doc, top, 1);
+    rule(doc, top, 1, span);
     drawRow(doc, headers, table, widths, FONT.regular, top);
-    rule(doc, top + headH, 0.5);
+    rule(doc, top + headH, 0.5, span);
     doc.y = top + headH;
   };
   header();
   for (const row of table.rows) {
     const h = rowHeight(doc, row, widths, FONT.regular);
     if (doc.y + h > BOTTOM) {
-      rule(doc, doc.y, 0.5);
+      rule(doc, doc.y, 0.5, span);
       doc.addPage();
       doc
         .font(FONT.italic)
@@ -188,7 +190,7 @@ function tableBlock(doc: Doc, table: Table): void {
     drawRow(doc, row, table, widths, FONT.regular, top);
     doc.y = top + h;
   }
-  rule(doc, doc.y, 1);
+  rule(doc, doc.y, 1, span);
   doc.y += 3;
   if (table.note) {
     runs(doc, [{ text: 'Note. ', em: true }, ...table.note], SMALL, MARGIN.left, WIDTH);
@@ -293,7 +295,7 @@ function block(doc: Doc, b: Block): void {
     case 'references':
       for (const entry of b.entries) {
         ensure(doc, 30);
-        runs(doc, entry, SMALL + 0.7, MARGIN.left + 18, WIDTH - 18);
+        runs(doc, entry, SMALL + 0.7, MARGIN.left + 18, WIDTH - 18, INK, -18);
         doc.moveDown(0.35);
       }
       doc.x = MARGIN.left;
