@@ -272,10 +272,10 @@ function decisionsPart(w: Writer, study: Study): void {
 }
 
 /** The note under an item table: abbreviations, and the rules of thumb behind the flags it shows. */
-function flagNote(w: Writer, used: string[]): (Inline | string)[] {
+function flagNote(w: Writer, used: string[], reversed: boolean): (Inline | string)[] {
   const rules = RULES_OF_THUMB.filter((t) => used.includes(t.rule));
   const parts: (Inline | string)[] = [
-    '(R) = reverse-keyed, rescored; M and SD of the scored answers; r(it) = corrected item–total correlation.',
+    `${reversed ? '(R) = reverse-keyed, rescored; M and SD of the scored answers; ' : ''}r(it) = corrected item–total correlation.`,
   ];
   if (rules.length === 0) return [...parts, ' No item was flagged.'];
   parts.push(' Flags are rules of thumb asking for a look, not verdicts: ');
