@@ -216,6 +216,7 @@ export function purificationSection(w: Writer, study: Study): void {
         note: flagNote(
           w,
           detail.rows.flatMap((r) => r.flags.map((f) => f.rule)),
+          detail.rows.some((r) => r.keying === 'reverse'),
         ),
       },
     );
