@@ -5,6 +5,7 @@ import { ErrorNote, Panel } from '../../shared/components.tsx';
 import { downloadBase64, formatBytes } from '../../shared/files.ts';
 import { PhaseControls } from '../../shared/phase-controls.tsx';
 import { useQuery } from '../../shared/use-command.ts';
+import './appendix.css';
 
 type Format = CommandInput<'export.appendix'>['format'];
 
