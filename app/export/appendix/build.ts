@@ -30,13 +30,26 @@ export function buildAppendix(study: Study, options: AppendixOptions = {}): Appe
       { text: 'This study file failed verification at export. ', strong: true },
       'See Reproducibility for the breaks found.',
     );
-  constructSection(w, study);
-  itemsSection(w, study);
-  reviewSection(w, study);
-  pilotSection(w, study);
-  purificationSection(w, study);
-  validitySection(w, study);
-  instrumentSection(w, study);
+  for (const section of [
+    constructSection,
+    itemsSection,
+    reviewSection,
+    pilotSection,
+    purificationSection,
+    validitySection,
+    instrumentSection,
+  ]) {
+    // A section the file can no longer give (a damaged or edited file) says so; the rest still renders.
+    try {
+      section(w, study);
+    } catch (error) {
+      w.notice(
+        'break',
+        { text: 'This section could not be read from the study file: ', strong: true },
+        error instanceof Error ? error.message : String(error),
+      );
+    }
+  }
   cautionsSection(w);
   reproducibilitySection(w, study, { appVersion: packageJson.version, report, exportedAt });
   referencesSection(w);
