@@ -1,11 +1,12 @@
-import { bounded, count, unbounded } from '../../api/format.ts';
+import { bounded, count, percent, plural, unbounded } from '../../api/format.ts';
 import { listRuns, type RunRecord } from '../../../db/repos/analysis-runs.ts';
-import { getConstruct, listFacets, listRelations, type RelationKind } from '../../../db/repos/construct.ts';
+import { getConstruct, listRelations, type RelationKind } from '../../../db/repos/construct.ts';
 import { listDatasets } from '../../../db/repos/datasets.ts';
-import { listItems } from '../../../db/repos/items.ts';
-import { listDecisions } from '../../../db/repos/purification.ts';
 import type { Study } from '../../../db/study.ts';
+import { type InstrumentForm, instrumentForm } from '../../phases/appendix/instrument-form.ts';
+import { RuleError } from '../../phases/errors.ts';
 import { roundDetail, roundSummaries } from '../../phases/purification.ts';
+import { em } from './model.ts';
 import { recognised, renderAnalyses } from './analyses.ts';
 import type { Writer } from './writer.ts';
 
@@ -130,27 +131,21 @@ function scalars(results: unknown): string {
 /** Section: the final instrument: items in order, response format, scoring key, measurement error. */
 export function instrumentSection(w: Writer, study: Study): void {
   w.section('The final instrument');
-  const c = getConstruct(study);
-  const dropped = new Set<number>();
-  for (const d of listDecisions(study)) {
-    if (d.action === 'drop') dropped.add(d.itemId);
-    if (d.action === 'restore') dropped.delete(d.itemId);
-  }
-  const items = listItems(study).filter((it) => it.state !== 'retired' && !dropped.has(it.id));
-  const rounds = roundSummaries(study);
-  if (items.length === 0 || rounds.length === 0) {
-    w.notYet(
-      'the final instrument',
-      'The scale is final once purification has run and decided which items stay.',
-    );
+  let form: InstrumentForm;
+  try {
+    form = instrumentForm(study);
+  } catch (error) {
+    if (!(error instanceof RuleError)) throw error;
+    w.notYet('the final instrument', `The retained item set is not settled: ${error.message}.`);
     return;
   }
-  const facets = new Map(listFacets(study, { includeRetired: true }).map((f) => [f.id, f.name]));
+  const c = getConstruct(study);
   const max = c.responseMin + c.responsePoints - 1;
   w.para(
-    `Respondents answer each item on a ${c.responsePoints}-point scale from ${c.responseMin} to ${max}`,
+    `“${form.title}” asks ${plural(form.items.length, 'item')}, answered on a ${c.responsePoints}-point scale from ${c.responseMin} to ${max}`,
     c.anchors.length > 0 ? ` (${c.anchors.map((a, i) => `${c.responseMin + i} = ${a}`).join(', ')})` : '',
-    '. Items are presented in the order below.',
+    `, in the order below (${form.chosen ? 'as set by a logged decision' : 'the default order: no order has been set yet'}). Instructions to respondents: `,
+    em(form.instructions),
   );
   w.table(
     'Items of the final scale, in order, with the scoring key',
@@ -161,34 +156,27 @@ export function instrumentSection(w: Writer, study: Study): void {
       ['Facet', 'left'],
       ['Scoring', 'left'],
     ],
-    items.map((it, i) => [
+    form.items.map((it, i) => [
       String(i + 1),
       it.code,
       it.text,
-      it.facetId === null ? '–' : (facets.get(it.facetId) ?? '–'),
+      it.facetName ?? '–',
       it.keying === 'reverse' ? `reverse: ${c.responseMin + max} − answer` : 'as answered',
     ]),
     {
-      empty: 'No items.',
+      empty: 'No items are retained.',
       note: [
-        'Scale score: the sum (or mean) of the scored items ',
+        `Scale score: the ${form.rule} of the scored items `,
         w.cite('scoring.sum-and-mean'),
-        '; reverse-keyed items are rescored as minimum + maximum − answer ',
+        `, computed when at least ${percent(form.minAnsweredShare, 0)} of the items are answered; reverse-keyed items are rescored as minimum + maximum − answer `,
         w.cite('scoring.reverse-keying'),
         '.',
+        ...form.warnings.map((warning) => ` ${warning}.`),
       ],
     },
   );
-  const last = rounds.at(-1);
-  const codes = items.map((it) => it.code).sort();
-  const matches = last !== undefined && [...last.items].sort().join('\u0000') === codes.join('\u0000');
-  if (!last || !matches) {
-    w.notYet(
-      'reliability of the final item set',
-      'No purification round has analysed exactly these items; run one to report their α, SEM and MDC95.',
-    );
-    return;
-  }
+  const last = roundSummaries(study).find((r) => r.id === form.round.id);
+  if (!last) return;
   const error = roundDetail(study, last.id).scale.measurementError;
   const sem = error?.sem ?? null;
   w.para(
