@@ -52,8 +52,9 @@ export function staleReason() {
 
 /**
  * Bundles app/cli/main.ts, and the worker thread its long jobs run in (app/workers/worker.ts), with
- * esbuild. better-sqlite3 (a native addon) and pdfkit (which reads its font metrics and colour
- * profile from files beside its own modules) stay external.
+ * esbuild. External, loaded from node_modules at run time: better-sqlite3 (a native addon), pdfkit
+ * (it reads its font metrics and colour profile from files beside its own modules) and docx (large,
+ * and loaded only by an export).
  */
 export async function buildCli() {
   const { build } = await import('esbuild');
@@ -72,7 +73,7 @@ export async function buildCli() {
     metafile: true,
     write: false,
     logLevel: 'warning',
-    external: ['better-sqlite3', 'pdfkit'],
+    external: ['better-sqlite3', 'pdfkit', 'docx'],
     // Bundled CommonJS dependencies call require(); give the ES module one.
     banner: {
       js: "import { createRequire as scalewrightRequire } from 'node:module'; const require = scalewrightRequire(import.meta.url);",

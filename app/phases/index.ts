@@ -6,6 +6,7 @@ import {
   type PhaseStatus,
 } from '../../db/repos/phase-state.ts';
 import type { Study } from '../../db/study.ts';
+import { appendixRules } from './appendix/rules.ts';
 import { constructRules } from './construct/index.ts';
 import { itemsRules } from './items/index.ts';
 import { pilotRules } from './pilot/index.ts';
@@ -27,7 +28,7 @@ export const PHASE_RULES: Record<PhaseId, PhaseRules> = {
   pilot: pilotRules,
   purification: purificationRules,
   validity: phaseNotYetAvailable('validity', 'Gather validity evidence on the retained items.'),
-  appendix: phaseNotYetAvailable('appendix', 'Render the methods appendix from the study file.'),
+  appendix: appendixRules,
 };
 
 export interface PhaseOverview {

@@ -1,5 +1,6 @@
 import type { ReactElement } from 'react';
 import type { PhaseId } from '../../app/api/contracts/phases.ts';
+import { appendixScreen } from '../phases/appendix/screen.ts';
 import { ConstructScreen } from '../phases/construct/ConstructScreen.tsx';
 import { itemsScreen } from '../phases/items/screen.ts';
 import { pilotScreen } from '../phases/pilot/screen.ts';
@@ -13,4 +14,5 @@ export const PHASE_SCREENS: Partial<Record<PhaseId, () => ReactElement>> = {
   review: reviewScreen,
   pilot: pilotScreen,
   purification: purificationScreen,
+  appendix: appendixScreen,
 };

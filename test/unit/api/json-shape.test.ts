@@ -103,6 +103,10 @@ describe('every command output is plain JSON data', () => {
     await call('instrument.files');
   });
 
+  it('the methods appendix, in a text and a binary format', async () => {
+    for (const format of ['md', 'docx'] as const) await call('export.appendix', { format });
+  });
+
   it('long jobs: a purification round started, followed and collected; one cancelled', async () => {
     const cancelled = await call<{ taskId: string }>('purification.startRound', {});
     await call('task.cancel', { id: cancelled.taskId });
