@@ -11,6 +11,7 @@ import { itemsRules } from './items.ts';
 import { pilotRules } from './pilot.ts';
 import { purificationRules } from './purification.ts';
 import { reviewRules } from './review.ts';
+import { validityRules } from './validity/index.ts';
 import { RuleError } from './errors.ts';
 import { phaseNotYetAvailable } from './later.ts';
 import { REOPENED, SIGNED_OFF, type SignOffReview, signOffReview } from './stale.ts';
@@ -26,7 +27,7 @@ export const PHASE_RULES: Record<PhaseId, PhaseRules> = {
   review: reviewRules,
   pilot: pilotRules,
   purification: purificationRules,
-  validity: phaseNotYetAvailable('validity', 'Gather validity evidence on the retained items.'),
+  validity: validityRules,
   appendix: phaseNotYetAvailable('appendix', 'Render the methods appendix from the study file.'),
 };
 

@@ -8,6 +8,7 @@ import {
   type ItemAnalysisInput,
 } from '../engine/reliability.ts';
 import { readDataFileJob } from '../phases/pilot-read.ts';
+import { cfaJob, invarianceJob } from './validity.ts';
 
 type AnalysisJobInput = Omit<ItemAnalysisInput, 'bootstrap'> & {
   bootstrap?: { resamples: number; seed: number };
@@ -82,6 +83,10 @@ export const JOBS = {
       onProgress: (done, total) => ctx.progress(done, total),
       shouldStop: () => ctx.shouldStop(),
     }),
+  /** A confirmatory factor analysis with composite reliability, AVE and HTMT (validity phase). */
+  'validity.cfa': cfaJob,
+  /** Configural, metric and scalar models across groups (validity phase). */
+  'validity.invariance': invarianceJob,
   /** Reads and checks a data file for import (parse, validate, compact columns); nothing is stored. */
   'import.read': readDataFileJob,
 } satisfies Record<string, (input: never, ctx: JobContext) => unknown>;
