@@ -2,6 +2,8 @@ export { validityRules, acknowledgeSource, acknowledgements } from './rules.ts';
 export { setMeasurementModel, modelInForce, type MeasurementModel } from './model.ts';
 export { describeMeasure, describeGroups } from './settings.ts';
 export {
+  type PreparedCfa,
+  type PreparedInvariance,
   runCfa,
   prepareCfa,
   storeCfa,
