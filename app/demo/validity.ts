@@ -9,7 +9,6 @@ import {
   describeMeasure,
   modelInForce,
   runCfa,
-  runInvariance,
   runRelations,
   runRetest,
   setMeasurementModel,
@@ -134,8 +133,7 @@ const ACKNOWLEDGEMENTS: Record<string, string> = {
 /**
  * The demo's validity phase, worked to sign-off: the validation wave imported; its columns read as
  * the construct phase planned; a CFA whose modification hints find the planted residual covariance;
- * the model changed to free it, with the reason; the CFA again; invariance across rider types; the
- * planned relations tested; the retest analysed; each source acknowledged; the phase signed off.
+ * the model changed to free it, with the reason; the CFA again; the planned relations tested; the retest analysed; each source acknowledged; the phase signed off.
  */
 export function fillDemoValidity(study: Study): void {
   importDemoValidation(study);
@@ -160,7 +158,6 @@ export function fillDemoValidity(study: Study): void {
     `The largest modification index (${hint.mi.toFixed(1)}) is the residual covariance of ${hint.a} and ${hint.b}; both items are about tyres, a reason outside the data, so it is freed (demo).`,
   );
   runCfa(study);
-  runInvariance(study, DEMO_COLUMNS.group);
   runRelations(study);
   runRetest(study);
   for (const [source, note] of Object.entries(ACKNOWLEDGEMENTS))
@@ -168,6 +165,6 @@ export function fillDemoValidity(study: Study): void {
   signOffPhase(
     study,
     'validity',
-    'CFA, invariance, relations to other variables and retest evidence gathered on the validation wave; missing sources are named for the appendix (demo).',
+    'CFA, relations to other variables and retest evidence gathered on the validation wave; missing sources are named for the appendix (demo).',
   );
 }

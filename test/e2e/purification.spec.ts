@@ -2,6 +2,9 @@ import path from 'node:path';
 import type { Page } from '@playwright/test';
 import { expect, SCREENSHOTS, test } from './fixtures.ts';
 
+// The demo up to purification, which it leaves open.
+test.use({ demoThrough: 'purification' });
+
 /** The demo's planted off-domain item (app/demo/items.ts). */
 const OFF_DOMAIN = 'TR09';
 

@@ -54,11 +54,9 @@ export function HypothesesTab({ view, locked }: { view: View; locked: boolean })
                   {h?.outcome?.verdict ?? ''}
                 </td>
                 <td className="timing" title={r.timing?.recorded?.head ?? ''}>
-                  {r.timing?.before === true ? 'yes' : r.timing?.before === false ? 'no' : '—'}
-                  <span className="muted"> {r.timing?.statement}</span>
-                  {r.timing?.recorded && (
-                    <span className="log-head"> Row {r.timing.recorded.head.slice(0, 22)}…</span>
-                  )}
+                  <strong>{r.timing?.before === true ? 'yes' : r.timing?.before === false ? 'no' : '—'}</strong>
+                  <div className="muted">{r.timing?.statement}</div>
+                  {r.timing?.recorded && <code className="row-head">{r.timing.recorded.head.slice(0, 20)}…</code>}
                 </td>
               </tr>
             );

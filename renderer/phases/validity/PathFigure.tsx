@@ -4,10 +4,12 @@ import type { CfaJobOutput, MeasurementModel } from '../../../app/api/contracts/
 const ROW = 24;
 const FACTOR_GAP = 14;
 const TOP = 20;
-const FACTOR_X = 190;
+const FACTOR_X = 270;
+/** Horizontal room each further level of nesting takes for a factor-correlation arc. */
+const ARC_STEP = 34;
 const RX = 78;
 const RY = 22;
-const ITEM_X = 420;
+const ITEM_X = 500;
 const ITEM_W = 64;
 const ITEM_H = 18;
 const INK = '#33404f';
@@ -62,7 +64,7 @@ export function PathFigure({ output, model }: { output: CfaJobOutput; model: Mea
         right (as correlations), and each item’s unexplained share beside it.
       </figcaption>
       <svg
-        viewBox={`0 0 640 ${height}`}
+        viewBox={`0 0 720 ${height}`}
         width="100%"
         role="img"
         aria-label={`Path figure of ${fit.factors.length} factors and ${order.length} items`}
@@ -75,19 +77,21 @@ export function PathFigure({ output, model }: { output: CfaJobOutput; model: Mea
         {arcs.map(({ a, b, value }) => {
           const ya = factorY[a];
           const yb = factorY[b];
-          const bend = FACTOR_X - RX - 20 - Math.abs(yb - ya) * 0.18;
+          const edge = FACTOR_X - RX;
+          // Arcs between factors further apart bend further out, so that they nest without crossing labels.
+          const bend = edge - 2 * ARC_STEP * (b - a);
           const mid = (ya + yb) / 2;
           return (
             <g key={`${a}-${b}`}>
               <path
-                d={`M ${FACTOR_X - RX} ${ya} Q ${bend} ${mid} ${FACTOR_X - RX} ${yb}`}
+                d={`M ${edge} ${ya} Q ${bend} ${mid} ${edge} ${yb}`}
                 fill="none"
                 stroke={ACCENT}
                 strokeWidth={1}
                 markerStart="url(#arrow)"
                 markerEnd="url(#arrow)"
               />
-              <text x={(bend + FACTOR_X - RX) / 2 - 4} y={mid + 4} fontSize={10} fill={ACCENT} textAnchor="end">
+              <text x={(bend + edge) / 2 - 3} y={mid + 4 + (b - a) * 2} fontSize={10} fill={ACCENT} textAnchor="end">
                 {bounded(value, 2)}
               </text>
             </g>
