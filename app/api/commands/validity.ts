@@ -81,7 +81,8 @@ export const validityCommands = {
       source: z.enum(EVIDENCE_SOURCES.map((x) => x.id) as [string, ...string[]]),
       note: rationale,
     }),
-    (s, input) => acknowledgeSource(s.study, input.source as (typeof EVIDENCE_SOURCES)[number]['id'], input.note),
+    (s, input) =>
+      acknowledgeSource(s.study, input.source as (typeof EVIDENCE_SOURCES)[number]['id'], input.note),
   ),
 
   /** Starts a CFA of the model in force in a worker thread; follow it with task.status, then collect it. */

@@ -5,7 +5,12 @@
 export type { ValidityView } from '../../phases/validity/views.ts';
 export type { MeasurementModel } from '../../phases/validity/model.ts';
 export type { EvidenceSourceId } from '../../phases/validity/evidence.ts';
-export type { RelationsResults, HypothesisResult, MeasureResult, GroupResult } from '../../phases/validity/relations.ts';
+export type {
+  RelationsResults,
+  HypothesisResult,
+  MeasureResult,
+  GroupResult,
+} from '../../phases/validity/relations.ts';
 export type { RetestResults } from '../../phases/validity/retest.ts';
 export type { CfaJobOutput, InvarianceJobOutput, ReleaseCandidate } from '../../workers/validity.ts';
 export type { CfaResult, ModificationHint } from '../../engine/cfa/fit.ts';

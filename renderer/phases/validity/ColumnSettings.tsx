@@ -32,7 +32,11 @@ export function MeasureForm({ row, view }: { row: MeasureRow; view: View }) {
       }}
     >
       <strong className="item-code">{row.column}</strong>
-      <select aria-label="Relation it answers" value={relationId ?? ''} onChange={(e) => setRelationId(e.target.value === '' ? null : Number(e.target.value))}>
+      <select
+        aria-label="Relation it answers"
+        value={relationId ?? ''}
+        onChange={(e) => setRelationId(e.target.value === '' ? null : Number(e.target.value))}
+      >
         <option value="">no planned relation</option>
         {options.map((r) => (
           <option key={r.id} value={r.id}>
@@ -40,12 +44,27 @@ export function MeasureForm({ row, view }: { row: MeasureRow; view: View }) {
           </option>
         ))}
       </select>
-      <select aria-label="When it was measured" value={timing} onChange={(e) => setTiming(e.target.value as 'concurrent' | 'predictive')}>
+      <select
+        aria-label="When it was measured"
+        value={timing}
+        onChange={(e) => setTiming(e.target.value as 'concurrent' | 'predictive')}
+      >
         <option value="concurrent">same time (concurrent)</option>
         <option value="predictive">later (predictive)</option>
       </select>
-      <input aria-label="Its reliability" placeholder="reliability" size={8} value={reliability} onChange={(e) => setReliability(e.target.value)} />
-      <input aria-label="Why" placeholder="Why it is read this way" value={rationale} onChange={(e) => setRationale(e.target.value)} />
+      <input
+        aria-label="Its reliability"
+        placeholder="reliability"
+        size={8}
+        value={reliability}
+        onChange={(e) => setReliability(e.target.value)}
+      />
+      <input
+        aria-label="Why"
+        placeholder="Why it is read this way"
+        value={rationale}
+        onChange={(e) => setRationale(e.target.value)}
+      />
       <button type="submit" className="secondary" disabled={save.busy || rationale.trim() === ''}>
         Save
       </button>
@@ -75,7 +94,11 @@ export function GroupForm({ row, view }: { row: GroupRow; view: View }) {
       }}
     >
       <strong className="item-code">{row.column}</strong>
-      <select aria-label="Relation it answers" value={relationId ?? ''} onChange={(e) => setRelationId(e.target.value === '' ? null : Number(e.target.value))}>
+      <select
+        aria-label="Relation it answers"
+        value={relationId ?? ''}
+        onChange={(e) => setRelationId(e.target.value === '' ? null : Number(e.target.value))}
+      >
         <option value="">no planned relation</option>
         {view.relations
           .filter((r) => r.kind === 'known-groups')
@@ -96,7 +119,12 @@ export function GroupForm({ row, view }: { row: GroupRow; view: View }) {
           <option key={l}>{l}</option>
         ))}
       </select>
-      <input aria-label="Why" placeholder="Why these groups" value={rationale} onChange={(e) => setRationale(e.target.value)} />
+      <input
+        aria-label="Why"
+        placeholder="Why these groups"
+        value={rationale}
+        onChange={(e) => setRationale(e.target.value)}
+      />
       <button type="submit" className="secondary" disabled={save.busy || rationale.trim() === ''}>
         Save
       </button>

@@ -32,7 +32,14 @@ function MeasureChart({ m, scoreName }: { m: MeasureResult; scoreName: string })
       <ResponsiveContainer width="100%" height={220}>
         <ScatterChart margin={{ top: 6, right: 16, bottom: 20, left: 4 }}>
           <CartesianGrid stroke="#dde2ea" />
-          <XAxis type="number" dataKey="x" name="score" tick={TICK} domain={['dataMin', 'dataMax']} label={{ value: 'total score', position: 'insideBottom', offset: -10, fontSize: 11, fill: INK }} />
+          <XAxis
+            type="number"
+            dataKey="x"
+            name="score"
+            tick={TICK}
+            domain={['dataMin', 'dataMax']}
+            label={{ value: 'total score', position: 'insideBottom', offset: -10, fontSize: 11, fill: INK }}
+          />
           <YAxis type="number" dataKey="y" name={m.column} tick={TICK} width={44} />
           <Tooltip />
           <Scatter data={data} fill={ACCENT} fillOpacity={0.35} isAnimationActive={false} />
@@ -73,25 +80,31 @@ export function CriteriaTab({ view, locked }: { view: View; locked: boolean }) {
         {view.columns.measures.length + view.columns.groups.length === 0 && (
           <p className="muted">The validation data has no criterion or group columns.</p>
         )}
-        {!locked && view.columns.measures.map((row) => <MeasureForm key={row.column} row={row} view={view} />)}
+        {!locked &&
+          view.columns.measures.map((row) => <MeasureForm key={row.column} row={row} view={view} />)}
         {!locked && view.columns.groups.map((row) => <GroupForm key={row.column} row={row} view={view} />)}
         {locked && (
           <ul>
             {view.columns.measures.map((m) => (
               <li key={m.column}>
-                {m.column}: {m.setting ? `${m.setting.timing}, reliability ${bounded(m.setting.reliability, 2)}` : 'not described'}
+                {m.column}:{' '}
+                {m.setting
+                  ? `${m.setting.timing}, reliability ${bounded(m.setting.reliability, 2)}`
+                  : 'not described'}
               </li>
             ))}
           </ul>
         )}
-        {!locked && <QuickRun name="validity.runRelations" label="Analyse the relations" disabled={!view.validation} />}
+        {!locked && (
+          <QuickRun name="validity.runRelations" label="Analyse the relations" disabled={!view.validation} />
+        )}
       </Panel>
       {run && r && (
         <Panel title="Criteria and other measures">
           <RunNote runId={run.runId} createdAt={run.createdAt} outOfDate={run.outOfDate} />
           <p className="muted">
-            Score: sum of {r.score.items.length} items (reverse keys applied), α = {bounded(r.score.alpha)} on n = {r.score.n}; the
-            correction for attenuation uses this α and each measure’s stated reliability.
+            Score: sum of {r.score.items.length} items (reverse keys applied), α = {bounded(r.score.alpha)} on
+            n = {r.score.n}; the correction for attenuation uses this α and each measure’s stated reliability.
           </p>
           <table className="data-table">
             <thead>
@@ -112,7 +125,8 @@ export function CriteriaTab({ view, locked }: { view: View; locked: boolean }) {
                   <td>{m.timing === 'predictive' ? 'later (predictive)' : 'same time (concurrent)'}</td>
                   <td className="num">{m.correlation.n}</td>
                   <td className="num">
-                    {bounded(m.correlation.r)} [{bounded(m.correlation.lower)}, {bounded(m.correlation.upper)}]
+                    {bounded(m.correlation.r)} [{bounded(m.correlation.lower)}, {bounded(m.correlation.upper)}
+                    ]
                   </td>
                   <td className="num">{bounded(m.correlation.disattenuated)}</td>
                   <td className="num">
@@ -153,8 +167,8 @@ export function CriteriaTab({ view, locked }: { view: View; locked: boolean }) {
                       {g.comparison.a.name} vs {g.comparison.b.name}
                     </td>
                     <td className="num">
-                      {unbounded(g.comparison.a.mean)} ({unbounded(g.comparison.a.sd)}) vs {unbounded(g.comparison.b.mean)} (
-                      {unbounded(g.comparison.b.sd)})
+                      {unbounded(g.comparison.a.mean)} ({unbounded(g.comparison.a.sd)}) vs{' '}
+                      {unbounded(g.comparison.b.mean)} ({unbounded(g.comparison.b.sd)})
                     </td>
                     <td className="num">
                       {unbounded(g.comparison.t)} ({unbounded(g.comparison.df, 1)})
@@ -165,7 +179,9 @@ export function CriteriaTab({ view, locked }: { view: View; locked: boolean }) {
                     </td>
                     <td className="num">{unbounded(g.comparison.hedgesG)}</td>
                     <td className="num">
-                      {g.anova ? `${unbounded(g.anova.F)} (${g.anova.df1}, ${g.anova.df2}), ${bounded(g.anova.etaSquared)}` : ''}
+                      {g.anova
+                        ? `${unbounded(g.anova.F)} (${g.anova.df1}, ${g.anova.df2}), ${bounded(g.anova.etaSquared)}`
+                        : ''}
                     </td>
                   </tr>
                 </tbody>
@@ -173,7 +189,9 @@ export function CriteriaTab({ view, locked }: { view: View; locked: boolean }) {
               <GroupChart g={g} />
             </div>
           ))}
-          <p className="muted">The interval of d is the Welch interval of the mean difference over the pooled SD.</p>
+          <p className="muted">
+            The interval of d is the Welch interval of the mean difference over the pooled SD.
+          </p>
           <SourceNotes ids={['t.welch', 'd.cohen', 'g.hedges', 'anova.one-way', 'effect.bands']} />
         </Panel>
       )}

@@ -10,9 +10,9 @@ export function EvidenceOverview({ view, locked }: { view: View; locked: boolean
   return (
     <Panel title="Sources of validity evidence">
       <p className="muted">
-        The five sources of the Standards for Educational and Psychological Testing. Acknowledge each as it stands
-        — what it shows, or why what is missing is acceptable for the intended use. An acknowledgement lapses when
-        a new run changes what a source shows.
+        The five sources of the Standards for Educational and Psychological Testing. Acknowledge each as it
+        stands — what it shows, or why what is missing is acceptable for the intended use. An acknowledgement
+        lapses when a new run changes what a source shows.
       </p>
       <ul className="evidence-list">
         {view.sources.map((s) => (
@@ -44,7 +44,8 @@ export function EvidenceOverview({ view, locked }: { view: View; locked: boolean
                 <>
                   {s.acknowledgement?.stale && (
                     <p className="stale">
-                      Acknowledged earlier (“{s.acknowledgement.note}”), but what the source shows has changed since.
+                      Acknowledged earlier (“{s.acknowledgement.note}”), but what the source shows has changed
+                      since.
                     </p>
                   )}
                   {!locked && (
@@ -67,8 +68,8 @@ export function EvidenceOverview({ view, locked }: { view: View; locked: boolean
         </p>
       )}
       <p className="muted caution">
-        Human-subject data needs ethics approval and protection; follow local regulations and licensed professional
-        practice wherever scores could affect a person.
+        Human-subject data needs ethics approval and protection; follow local regulations and licensed
+        professional practice wherever scores could affect a person.
       </p>
     </Panel>
   );

@@ -16,11 +16,17 @@ export function HypothesesTab({ view, locked }: { view: View; locked: boolean })
   return (
     <Panel title="Planned relations tested">
       <p className="muted">
-        Each relation planned in the Construct phase is tested by the column described as answering it (see Criteria
-        and groups): correlations for convergent, discriminant and criterion relations, a standardized mean
-        difference for known groups.
+        Each relation planned in the Construct phase is tested by the column described as answering it (see
+        Criteria and groups): correlations for convergent, discriminant and criterion relations, a
+        standardized mean difference for known groups.
       </p>
-      {!locked && <QuickRun name="validity.runRelations" label={run ? 'Test them again' : 'Test the planned relations'} disabled={!view.validation} />}
+      {!locked && (
+        <QuickRun
+          name="validity.runRelations"
+          label={run ? 'Test them again' : 'Test the planned relations'}
+          disabled={!view.validation}
+        />
+      )}
       {run && <RunNote runId={run.runId} createdAt={run.createdAt} outOfDate={run.outOfDate} />}
       <table className="data-table hypotheses-table">
         <thead>
@@ -54,9 +60,13 @@ export function HypothesesTab({ view, locked }: { view: View; locked: boolean })
                   {h?.outcome?.verdict ?? ''}
                 </td>
                 <td className="timing" title={r.timing?.recorded?.head ?? ''}>
-                  <strong>{r.timing?.before === true ? 'yes' : r.timing?.before === false ? 'no' : '—'}</strong>
+                  <strong>
+                    {r.timing?.before === true ? 'yes' : r.timing?.before === false ? 'no' : '—'}
+                  </strong>
                   <div className="muted">{r.timing?.statement}</div>
-                  {r.timing?.recorded && <code className="row-head">{r.timing.recorded.head.slice(0, 20)}…</code>}
+                  {r.timing?.recorded && (
+                    <code className="row-head">{r.timing.recorded.head.slice(0, 20)}…</code>
+                  )}
                 </td>
               </tr>
             );

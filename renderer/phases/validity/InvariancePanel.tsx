@@ -68,7 +68,9 @@ export function InvariancePanel({ view, locked }: { view: View; locked: boolean 
                   </td>
                   <td className="num">{bounded(s.fit.cfi)}</td>
                   <td className="num">{bounded(s.fit.rmsea)}</td>
-                  <td className="num">{s.deltaChiSquare === null ? '' : `${unbounded(s.deltaChiSquare)} (${s.deltaDf})`}</td>
+                  <td className="num">
+                    {s.deltaChiSquare === null ? '' : `${unbounded(s.deltaChiSquare)} (${s.deltaDf})`}
+                  </td>
                   <td className="num">{s.deltaP === null ? '' : pCell(s.deltaP)}</td>
                   <td className="num">{bounded(s.deltaCfi)}</td>
                   <td>{s.holds ? 'yes' : 'no'}</td>
@@ -84,15 +86,18 @@ export function InvariancePanel({ view, locked }: { view: View; locked: boolean 
               <ul>
                 {c.items.map((it) => (
                   <li key={it.item}>
-                    {it.item} on {it.factor}: {it.byGroup.map((g) => `${g.group} ${show(c.step, g.value)}`).join(', ')}{' '}
-                    (spread {show(c.step, it.spread)})
+                    {it.item} on {it.factor}:{' '}
+                    {it.byGroup.map((g) => `${g.group} ${show(c.step, g.value)}`).join(', ')} (spread{' '}
+                    {show(c.step, it.spread)})
                   </li>
                 ))}
               </ul>
             </div>
           ))}
           <SourceNotes ids={['invariance.delta-cfi', 'invariance.partial']} />
-          <p className="muted">With several groups, RMSEA follows the √G convention of the methods registry (rmsea.multigroup).</p>
+          <p className="muted">
+            With several groups, RMSEA follows the √G convention of the methods registry (rmsea.multigroup).
+          </p>
         </div>
       )}
     </Panel>

@@ -29,7 +29,8 @@ export function ModelEditor({ view, locked }: { view: View; locked: boolean }) {
       ...d,
       factors: d.factors.map((f) => ({
         ...f,
-        items: f.name === to ? [...f.items.filter((i) => i !== code), code] : f.items.filter((i) => i !== code),
+        items:
+          f.name === to ? [...f.items.filter((i) => i !== code), code] : f.items.filter((i) => i !== code),
       })),
     }));
   return (
@@ -44,7 +45,9 @@ export function ModelEditor({ view, locked }: { view: View; locked: boolean }) {
       }
     >
       {view.model.withoutFacet.length > 0 && (
-        <p className="stale">Retained items without a facet, left out: {view.model.withoutFacet.join(', ')}</p>
+        <p className="stale">
+          Retained items without a facet, left out: {view.model.withoutFacet.join(', ')}
+        </p>
       )}
       <div className="model-factors">
         {draft.factors.map((f) => (
@@ -111,7 +114,9 @@ export function ModelEditor({ view, locked }: { view: View; locked: boolean }) {
           ))}
         </ul>
       )}
-      <p className="muted">Residual covariances are added from the modification hints, each with its reason.</p>
+      <p className="muted">
+        Residual covariances are added from the modification hints, each with its reason.
+      </p>
       {!locked && changed && (
         <div className="model-save">
           <ReasonAction

@@ -51,7 +51,9 @@ export function PathFigure({ output, model }: { output: CfaJobOutput; model: Mea
   for (let j = 0; j < fit.factors.length; j++)
     for (let k = 0; k < j; k++) arcs.push({ a: k, b: j, value: sol.factorCorrelations[j][k] });
   const residualCorr = (a: string, b: string) => {
-    const p = fit.parameters.find((x) => x.label === `cov(e.${a}, e.${b})` || x.label === `cov(e.${b}, e.${a})`);
+    const p = fit.parameters.find(
+      (x) => x.label === `cov(e.${a}, e.${b})` || x.label === `cov(e.${b}, e.${a})`,
+    );
     const ia = itemIndex(a);
     const ib = itemIndex(b);
     if (!p || ia < 0 || ib < 0) return null;
@@ -60,8 +62,8 @@ export function PathFigure({ output, model }: { output: CfaJobOutput; model: Mea
   return (
     <figure className="path-figure">
       <figcaption>
-        Standardized solution: loadings on the arrows, factor correlations on the left, residual covariances on the
-        right (as correlations), and each item’s unexplained share beside it.
+        Standardized solution: loadings on the arrows, factor correlations on the left, residual covariances
+        on the right (as correlations), and each item’s unexplained share beside it.
       </figcaption>
       <svg
         viewBox={`0 0 720 ${height}`}
@@ -70,7 +72,15 @@ export function PathFigure({ output, model }: { output: CfaJobOutput; model: Mea
         aria-label={`Path figure of ${fit.factors.length} factors and ${order.length} items`}
       >
         <defs>
-          <marker id="arrow" viewBox="0 0 10 10" refX="9" refY="5" markerWidth="7" markerHeight="7" orient="auto-start-reverse">
+          <marker
+            id="arrow"
+            viewBox="0 0 10 10"
+            refX="9"
+            refY="5"
+            markerWidth="7"
+            markerHeight="7"
+            orient="auto-start-reverse"
+          >
             <path d="M 0 0 L 10 5 L 0 10 z" fill={INK} />
           </marker>
         </defs>
@@ -91,7 +101,13 @@ export function PathFigure({ output, model }: { output: CfaJobOutput; model: Mea
                 markerStart="url(#arrow)"
                 markerEnd="url(#arrow)"
               />
-              <text x={(bend + edge) / 2 - 3} y={mid + 4 + (b - a) * 2} fontSize={10} fill={ACCENT} textAnchor="end">
+              <text
+                x={(bend + edge) / 2 - 3}
+                y={mid + 4 + (b - a) * 2}
+                fontSize={10}
+                fill={ACCENT}
+                textAnchor="end"
+              >
                 {bounded(value, 2)}
               </text>
             </g>
@@ -107,7 +123,9 @@ export function PathFigure({ output, model }: { output: CfaJobOutput; model: Mea
         ))}
         {order.map((item) => {
           const i = itemIndex(item);
-          const j = fit.factors.findIndex((f) => model.factors.find((x) => x.name === f)?.items.includes(item));
+          const j = fit.factors.findIndex((f) =>
+            model.factors.find((x) => x.name === f)?.items.includes(item),
+          );
           const iy = (y.get(item) ?? 0) + ITEM_H / 2;
           const loading = j >= 0 ? sol.standardizedLoadings[i][j] : 0;
           return (

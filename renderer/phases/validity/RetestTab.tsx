@@ -13,16 +13,24 @@ export function RetestTab({ view, locked }: { view: View; locked: boolean }) {
   return (
     <Panel title="Test–retest reliability">
       <p className="muted">
-        The current retest data{view.retest ? ` (“${view.retest.name}”, ${view.retest.respondents} rows)` : ' (none yet)'}{' '}
-        linked to the first occasion by respondent id or retest link; total score of the model’s items.
+        The current retest data
+        {view.retest ? ` (“${view.retest.name}”, ${view.retest.respondents} rows)` : ' (none yet)'} linked to
+        the first occasion by respondent id or retest link; total score of the model’s items.
       </p>
-      {!locked && <QuickRun name="validity.runRetest" label={run ? 'Analyse the retest again' : 'Analyse the retest'} disabled={!view.retest} />}
+      {!locked && (
+        <QuickRun
+          name="validity.runRetest"
+          label={run ? 'Analyse the retest again' : 'Analyse the retest'}
+          disabled={!view.retest}
+        />
+      )}
       {run && r && (
         <div data-testid="retest-results">
           <RunNote runId={run.runId} createdAt={run.createdAt} outOfDate={run.outOfDate} />
           <p>
-            {r.pairs} respondents linked by {r.linkedBy}; {r.unmatched} retest rows without a first occasion, {r.incomplete}{' '}
-            with a missing answer. SEM = {unbounded(r.sem)} and MDC95 = {unbounded(r.mdc95)} score points, from {r.form}.
+            {r.pairs} respondents linked by {r.linkedBy}; {r.unmatched} retest rows without a first occasion,{' '}
+            {r.incomplete} with a missing answer. SEM = {unbounded(r.sem)} and MDC95 = {unbounded(r.mdc95)}{' '}
+            score points, from {r.form}.
           </p>
           <table className="data-table">
             <thead>
@@ -60,9 +68,21 @@ export function RetestTab({ view, locked }: { view: View; locked: boolean }) {
               <ScatterChart margin={{ top: 6, right: 16, bottom: 20, left: 4 }}>
                 <CartesianGrid stroke="#dde2ea" />
                 <XAxis type="number" dataKey="x" name="first" tick={TICK} domain={['dataMin', 'dataMax']} />
-                <YAxis type="number" dataKey="y" name="retest" tick={TICK} width={44} domain={['dataMin', 'dataMax']} />
+                <YAxis
+                  type="number"
+                  dataKey="y"
+                  name="retest"
+                  tick={TICK}
+                  width={44}
+                  domain={['dataMin', 'dataMax']}
+                />
                 <Tooltip />
-                <Scatter data={r.points.map(([x, y]) => ({ x, y }))} fill="#2f5d8a" fillOpacity={0.5} isAnimationActive={false} />
+                <Scatter
+                  data={r.points.map(([x, y]) => ({ x, y }))}
+                  fill="#2f5d8a"
+                  fillOpacity={0.5}
+                  isAnimationActive={false}
+                />
               </ScatterChart>
             </ResponsiveContainer>
           </figure>

@@ -50,10 +50,19 @@ function FitTable({ output, cutoffs }: { output: CfaJobOutput; cutoffs: Record<s
   );
 }
 
-function Hints({ output, model, locked }: { output: CfaJobOutput; model: MeasurementModel; locked: boolean }) {
+function Hints({
+  output,
+  model,
+  locked,
+}: {
+  output: CfaJobOutput;
+  model: MeasurementModel;
+  locked: boolean;
+}) {
   const save = useMutation('validity.setModel');
   const hints = output.fit.hints;
-  if (hints.length === 0) return <p className="muted">No fixed parameter would lower χ² by more than 3.84 if freed.</p>;
+  if (hints.length === 0)
+    return <p className="muted">No fixed parameter would lower χ² by more than 3.84 if freed.</p>;
   return (
     <>
       <table className="data-table hint-table">
@@ -69,7 +78,9 @@ function Hints({ output, model, locked }: { output: CfaJobOutput; model: Measure
           {hints.map((h) => (
             <tr key={`${h.kind}-${h.a}-${h.b}`}>
               <td>
-                {h.kind === 'cross-loading' ? `${h.b} also on ${h.a}` : `residual covariance ${h.a} with ${h.b}`}
+                {h.kind === 'cross-loading'
+                  ? `${h.b} also on ${h.a}`
+                  : `residual covariance ${h.a} with ${h.b}`}
               </td>
               <td className="num">{unbounded(h.mi)}</td>
               <td className="num">{bounded(h.standardizedEpc)}</td>
@@ -81,7 +92,13 @@ function Hints({ output, model, locked }: { output: CfaJobOutput; model: Measure
                     placeholder={`Why ${h.a} and ${h.b} share more than the factor (not the index)`}
                     onConfirm={(reason) =>
                       save.run({
-                        model: { ...model, residualCovariances: [...model.residualCovariances, { a: h.a, b: h.b, rationale: reason }] },
+                        model: {
+                          ...model,
+                          residualCovariances: [
+                            ...model.residualCovariances,
+                            { a: h.a, b: h.b, rationale: reason },
+                          ],
+                        },
                         rationale: `Residual covariance ${h.a} with ${h.b} freed (modification index ${unbounded(h.mi)}): ${reason}`,
                       })
                     }
@@ -101,7 +118,8 @@ function Residuals({ output }: { output: CfaJobOutput }) {
   const r = output.fit.groups[0].residualCorrelations;
   const items = output.fit.items;
   const pairs: { a: string; b: string; v: number }[] = [];
-  for (let i = 0; i < items.length; i++) for (let j = 0; j < i; j++) pairs.push({ a: items[j], b: items[i], v: r[i][j] });
+  for (let i = 0; i < items.length; i++)
+    for (let j = 0; j < i; j++) pairs.push({ a: items[j], b: items[i], v: r[i][j] });
   pairs.sort((x, y) => Math.abs(y.v) - Math.abs(x.v));
   return (
     <table className="data-table residual-table">
@@ -186,7 +204,8 @@ export function StructureTab({ view, locked }: { view: View; locked: boolean }) 
       <ModelEditor view={view} locked={locked} />
       <Panel title="Confirmatory factor analysis">
         <p className="muted">
-          Maximum likelihood on the respondents of the current validation data who answered every item of the model.
+          Maximum likelihood on the respondents of the current validation data who answered every item of the
+          model.
         </p>
         {!locked && (
           <WorkerRun
@@ -201,8 +220,8 @@ export function StructureTab({ view, locked }: { view: View; locked: boolean }) 
           <div data-testid="cfa-results">
             <RunNote runId={cfa.runId} createdAt={cfa.createdAt} outOfDate={cfa.outOfDate} />
             <p>
-              n = {cfa.inputs.n} ({cfa.inputs.incomplete} left out with a missing answer), {cfa.inputs.items.length}{' '}
-              items, {cfa.results.fit.factors.length} factors
+              n = {cfa.inputs.n} ({cfa.inputs.incomplete} left out with a missing answer),{' '}
+              {cfa.inputs.items.length} items, {cfa.results.fit.factors.length} factors
               {cfa.results.fit.converged ? '' : '; the estimate did not converge'}.
             </p>
             {cfa.results.fit.warnings.map((w) => (
@@ -218,7 +237,16 @@ export function StructureTab({ view, locked }: { view: View; locked: boolean }) 
             <Hints output={cfa.results} model={cfa.inputs.model} locked={locked || cfa.outOfDate !== null} />
             <h3 className="sub-head">Composite reliability, AVE and discriminant validity</h3>
             <Reliability output={cfa.results} />
-            <SourceNotes ids={['cfa.cutoffs', 'rmsea.bands', 'cr.criterion', 'fornell-larcker', 'htmt', 'cfa.residual-hint']} />
+            <SourceNotes
+              ids={[
+                'cfa.cutoffs',
+                'rmsea.bands',
+                'cr.criterion',
+                'fornell-larcker',
+                'htmt',
+                'cfa.residual-hint',
+              ]}
+            />
           </div>
         )}
       </Panel>

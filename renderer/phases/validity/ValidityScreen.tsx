@@ -39,23 +39,25 @@ export function ValidityScreen() {
           <p className="eyebrow">Phase 6</p>
           <h1>Validity evidence</h1>
           <p className="muted">
-            Evidence for the intended interpretation of the scores, gathered on new data: the current validation
-            dataset
+            Evidence for the intended interpretation of the scores, gathered on new data: the current
+            validation dataset
             {data.validation ? (
               <>
                 {' '}
-                “{data.validation.name}” ({data.validation.fileName}, {data.validation.respondents} rows, SHA-256{' '}
-                {data.validation.fileSha256.slice(0, 12)}…)
+                “{data.validation.name}” ({data.validation.fileName}, {data.validation.respondents} rows,
+                SHA-256 {data.validation.fileSha256.slice(0, 12)}…)
               </>
             ) : (
               ' (none imported yet)'
             )}
-            , never the pilot. A new scale is not validated for diagnosis, hiring, admission or other high-stakes
-            decisions.
+            , never the pilot. A new scale is not validated for diagnosis, hiring, admission or other
+            high-stakes decisions.
           </p>
         </div>
       </header>
-      {locked && <p className="locked-note">This phase is signed off. Reopen it (with a reason) to change it.</p>}
+      {locked && (
+        <p className="locked-note">This phase is signed off. Reopen it (with a reason) to change it.</p>
+      )}
       <nav className="validity-tabs" aria-label="Validity evidence">
         {TABS.map((t) => (
           <button

@@ -65,7 +65,11 @@ export function WorkerRun(props: {
 }
 
 /** A button for an analysis that runs at once (relations, retest), with its error. */
-export function QuickRun(props: { label: string; disabled?: boolean; name: 'validity.runRelations' | 'validity.runRetest' }) {
+export function QuickRun(props: {
+  label: string;
+  disabled?: boolean;
+  name: 'validity.runRelations' | 'validity.runRetest';
+}) {
   const run = useMutation(props.name);
   return (
     <div className="worker-run">

@@ -1,10 +1,15 @@
+import { createHash } from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
 import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest';
 import { fillDemoStudy } from '../../../app/demo/index.ts';
 import { DEMO_GROUP_MODEL, DEMO_ITEM_TRUTH } from '../../../app/demo/pilot.ts';
 import { finishDemoPurification } from '../../../app/demo/purification-signoff.ts';
-import { DEMO_PLANTED_RESIDUAL, DEMO_TRIPS_LATER } from '../../../app/demo/validation-data.ts';
+import {
+  DEMO_PLANTED_RESIDUAL,
+  DEMO_TRIPS_LATER,
+  generateDemoValidation,
+} from '../../../app/demo/validation-data.ts';
 import { importDemoValidation } from '../../../app/demo/validity.ts';
 import { editRelation } from '../../../app/phases/construct.ts';
 import { phaseOverview, reopenPhase } from '../../../app/phases/index.ts';
@@ -21,6 +26,7 @@ import { listRuns } from '../../../db/repos/analysis-runs.ts';
 import { listRelations } from '../../../db/repos/construct.ts';
 import { Study } from '../../../db/study.ts';
 import { TEST_ACTOR, tempDir } from '../../helpers/tmp.ts';
+import REFERENCE from '../../reference/fixtures/demo-validity.json' with { type: 'json' };
 
 let tmp: ReturnType<typeof tempDir>;
 let full: Study;
@@ -93,6 +99,30 @@ describe('the demo worked to sign-off', () => {
     expect(verdicts['Social desirability']).toBe('supported');
     expect(verdicts['Riding frequency (regular versus rare riders)']).toBe('supported');
     for (const r of view.relations) expect(r.timing?.before).toBe(true);
+  });
+
+  it('the relations run agrees with scipy on the same file (test/reference/demo_validity.py)', () => {
+    const ref = REFERENCE;
+    expect(createHash('sha256').update(generateDemoValidation().csv).digest('hex')).toBe(ref.sha256);
+    const r = validityView(full).relationsRun?.results;
+    if (!r) throw new Error('no relations run');
+    expect(r.score.items).toEqual(ref.items);
+    expect(r.score.reverse).toEqual(ref.reverse);
+    expect(r.score.n).toBe(ref.scored);
+    expect(r.score.alpha).toBeCloseTo(ref.alpha, 9);
+    for (const m of r.measures) {
+      const e = ref.measures[m.column as keyof typeof ref.measures];
+      expect(m.correlation.n, m.column).toBe(e.n);
+      expect(m.correlation.r, m.column).toBeCloseTo(e.r, 9);
+      expect(m.correlation.lower, m.column).toBeCloseTo(e.lower, 9);
+      expect(m.correlation.upper, m.column).toBeCloseTo(e.upper, 9);
+    }
+    const g = r.groups[0];
+    expect(g.comparison.t).toBeCloseTo(ref.groups.t, 8);
+    expect(g.comparison.df).toBeCloseTo(ref.groups.df, 8);
+    expect(g.comparison.cohensD).toBeCloseTo(ref.groups.d, 9);
+    expect(g.comparison.hedgesG).toBeCloseTo(ref.groups.g, 9);
+    expect(g.anova?.F).toBeCloseTo(ref.groups.anovaF, 8);
   });
 
   it('retest: ICC near the generated stability, with SEM and MDC', () => {
