@@ -20,6 +20,8 @@ export interface RetestResults {
   /** Retest respondents with no first occasion, or a missing answer on either occasion. */
   unmatched: number;
   incomplete: number;
+  /** The dataset of the first occasion (the current validation data, else the current pilot data). */
+  first: { datasetId: number; name: string; role: string };
   /** How the occasions were linked: by respondent id, or by the first dataset's retest-link column. */
   linkedBy: 'respondent id' | 'retest link';
   points: [number, number][];
@@ -99,6 +101,7 @@ export function runRetest(study: Study): number {
     pairs: complete.length,
     unmatched: second.answers.respondentIds.length - best.pairs.length,
     incomplete: best.pairs.length - complete.length,
+    first: { datasetId: best.first.id, name: best.first.name, role: best.first.role },
     linkedBy: best.linkedBy,
     points: complete.slice(0, 2_000),
   };

@@ -28,9 +28,9 @@ export function RetestTab({ view, locked }: { view: View; locked: boolean }) {
         <div data-testid="retest-results">
           <RunNote runId={run.runId} createdAt={run.createdAt} outOfDate={run.outOfDate} />
           <p>
-            {r.pairs} respondents linked by {r.linkedBy}; {r.unmatched} retest rows without a first occasion,{' '}
-            {r.incomplete} with a missing answer. SEM = {unbounded(r.sem)} and MDC95 = {unbounded(r.mdc95)}{' '}
-            score points, from {r.form}.
+            {r.pairs} respondents of “{r.first.name}” ({r.first.role} data) linked by {r.linkedBy};{' '}
+            {r.unmatched} retest rows without a first occasion, {r.incomplete} with a missing answer. SEM ={' '}
+            {unbounded(r.sem)} and MDC95 = {unbounded(r.mdc95)} score points, from {r.form}.
           </p>
           <table className="data-table">
             <thead>
