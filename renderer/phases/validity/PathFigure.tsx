@@ -123,9 +123,8 @@ export function PathFigure({ output, model }: { output: CfaJobOutput; model: Mea
         ))}
         {order.map((item) => {
           const i = itemIndex(item);
-          const j = fit.factors.findIndex((f) =>
-            model.factors.find((x) => x.name === f)?.items.includes(item),
-          );
+          const owner = model.factors.find((x) => x.items.includes(item))?.name;
+          const j = owner === undefined ? -1 : fit.factors.indexOf(owner);
           const iy = (y.get(item) ?? 0) + ITEM_H / 2;
           const loading = j >= 0 ? sol.standardizedLoadings[i][j] : 0;
           return (
