@@ -15,9 +15,8 @@ async function headlineAlpha(page: Page): Promise<number> {
 
 async function runNextRound(page: Page, number: number): Promise<void> {
   await page.getByRole('button', { name: `Run round ${number}` }).click();
-  await expect(page.getByRole('button', { name: `Round ${number}`, exact: false }).first()).toBeVisible({
-    timeout: 30_000,
-  });
+  // The round's own tab (the "Run round N" button also matches "Round N", so wait for the tab).
+  await expect(page.locator('.round-tab', { hasText: `Round ${number}` })).toBeVisible({ timeout: 120_000 });
   await expect(page.locator('.round-tab.active')).toContainText(`Round ${number}`);
   await expect(page.locator('.panel-head h2', { hasText: `Reliability, round ${number}` })).toBeVisible();
 }
