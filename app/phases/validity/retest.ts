@@ -1,6 +1,7 @@
 import type { DatasetSummary } from '../../../db/repos/datasets.ts';
 import type { Study } from '../../../db/study.ts';
 import { type IccResult, iccMeasurementError, intraclassCorrelations } from '../../engine/icc.ts';
+import type { MeasurementError } from '../../engine/reliability/sem.ts';
 import { scaleScores } from '../../engine/validity/scores.ts';
 import { currentDataset } from '../analysis-data.ts';
 import { recordRun, requireOpen } from '../change.ts';
@@ -16,6 +17,8 @@ export interface RetestResults {
   form: string;
   sem: number;
   mdc95: number;
+  /** The measurement error as the engine gives it (basis, reliability, SD, SEM, MDC95). */
+  measurementError: MeasurementError;
   pairs: number;
   /** Retest respondents with no first occasion, or a missing answer on either occasion. */
   unmatched: number;
@@ -98,6 +101,7 @@ export function runRetest(study: Study): number {
     form: RETEST_FORM,
     sem: error.sem,
     mdc95: error.mdc95,
+    measurementError: error,
     pairs: complete.length,
     unmatched: second.answers.respondentIds.length - best.pairs.length,
     incomplete: best.pairs.length - complete.length,
