@@ -12,8 +12,8 @@ import { itemsRules } from './items/index.ts';
 import { pilotRules } from './pilot/index.ts';
 import { purificationRules } from './purification.ts';
 import { reviewRules } from './review/index.ts';
+import { validityRules } from './validity/index.ts';
 import { RuleError } from './errors.ts';
-import { phaseNotYetAvailable } from './later.ts';
 import { REOPENED, SIGNED_OFF, type SignOffReview, signOffReview } from './stale.ts';
 import { PHASE_TITLES } from './titles.ts';
 import type { ChecklistItem, PhaseRules } from './types.ts';
@@ -27,7 +27,7 @@ export const PHASE_RULES: Record<PhaseId, PhaseRules> = {
   review: reviewRules,
   pilot: pilotRules,
   purification: purificationRules,
-  validity: phaseNotYetAvailable('validity', 'Gather validity evidence on the retained items.'),
+  validity: validityRules,
   appendix: appendixRules,
 };
 

@@ -9,6 +9,7 @@ import {
 } from '../engine/reliability.ts';
 import { readDataFileJob } from '../import/read-data-file.ts';
 import type { JobContext } from './job-context.ts';
+import { cfaJob, invarianceJob } from './validity.ts';
 
 type AnalysisJobInput = Omit<ItemAnalysisInput, 'bootstrap'> & {
   bootstrap?: { resamples: number; seed: number };
@@ -78,6 +79,10 @@ export const JOBS = {
       onProgress: (done, total) => ctx.progress(done, total),
       shouldStop: () => ctx.shouldStop(),
     }),
+  /** A confirmatory factor analysis with composite reliability, AVE and HTMT (validity phase). */
+  'validity.cfa': cfaJob,
+  /** Configural, metric and scalar models across groups (validity phase). */
+  'validity.invariance': invarianceJob,
   /** Reads and checks a data file for import (parse, validate, compact columns); nothing is stored. */
   'import.read': readDataFileJob,
 } satisfies Record<string, (input: never, ctx: JobContext) => unknown>;

@@ -6,6 +6,7 @@ import { itemsScreen } from '../phases/items/screen.ts';
 import { pilotScreen } from '../phases/pilot/screen.ts';
 import { purificationScreen } from '../phases/purification/screen.ts';
 import { reviewScreen } from '../phases/review/screen.ts';
+import { validityScreen } from '../phases/validity/screen.ts';
 
 /** The screen of each phase; a phase without one shows what it will need. */
 export const PHASE_SCREENS: Partial<Record<PhaseId, () => ReactElement>> = {
@@ -15,4 +16,5 @@ export const PHASE_SCREENS: Partial<Record<PhaseId, () => ReactElement>> = {
   pilot: pilotScreen,
   purification: purificationScreen,
   appendix: appendixScreen,
+  validity: validityScreen,
 };

@@ -466,4 +466,54 @@ export const VALIDITY_METHODS: RegistryEntry[] = [
     commonPractice: true,
     references: [],
   },
+  {
+    kind: 'method',
+    id: 'rmsea.multigroup',
+    name: 'RMSEA of a multi-group model (√G convention: √(G·max(χ² − df, 0)/(df·(N − G))))',
+    references: [
+      {
+        authors: ['Steiger, J. H.'],
+        year: 1998,
+        title: 'A note on multiple sample extensions of the RMSEA fit index',
+        container: 'Structural Equation Modeling',
+        volume: '5',
+        issue: '4',
+        pages: '411–419',
+        doi: '10.1080/10705519809540115',
+        fromMemory: true,
+      },
+    ],
+  },
+  {
+    kind: 'rule',
+    id: 'invariance.partial',
+    name: 'Constraints to consider freeing for partial invariance',
+    wording:
+      'When a step of the invariance sequence fails, the loadings (metric step) or intercepts (scalar step) whose estimates differ most between the groups in the configural model are the first candidates to free (the 5 largest are listed), one at a time, keeping at least 2 invariant items per factor.',
+    thresholds: { candidates: 5, invariantItemsPerFactor: 2 },
+    references: [
+      {
+        authors: ['Byrne, B. M.', 'Shavelson, R. J.', 'Muthén, B.'],
+        year: 1989,
+        title:
+          'Testing for the equivalence of factor covariance and mean structures: The issue of partial measurement invariance',
+        container: 'Psychological Bulletin',
+        volume: '105',
+        issue: '3',
+        pages: '456–466',
+        doi: '10.1037/0033-2909.105.3.456',
+        fromMemory: true,
+      },
+    ],
+  },
+  {
+    kind: 'rule',
+    id: 'cfa.residual-hint',
+    name: 'Freeing a residual covariance',
+    wording:
+      'A residual covariance suggested by a modification index is freed only when a reason outside the data explains it (shared wording, a shared situation, adjacent position); the reason is recorded with the model.',
+    thresholds: {},
+    commonPractice: true,
+    references: [],
+  },
 ];

@@ -22,7 +22,12 @@ let demoPath: string;
 beforeAll(() => {
   tmp = tempDir('scalewright-instrument-');
   demoPath = path.join(tmp.dir, 'demo.scalewright');
-  Study.create(demoPath, { actor: TEST_ACTOR, app: 'test' }, { title: 'Demo', init: fillDemoStudy }).close();
+  // The demo up to purification (left open), which these tests change round by round.
+  Study.create(
+    demoPath,
+    { actor: TEST_ACTOR, app: 'test' },
+    { title: 'Demo', init: (study) => fillDemoStudy(study, 'purification') },
+  ).close();
 });
 afterAll(() => tmp.cleanup());
 
