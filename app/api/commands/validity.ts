@@ -1,6 +1,4 @@
 import { z } from 'zod';
-import { EngineError } from '../../engine/errors.ts';
-import { RuleError } from '../../phases/errors.ts';
 import {
   acknowledgeSource,
   describeGroups,
@@ -18,24 +16,22 @@ import {
   validityView,
 } from '../../phases/validity/index.ts';
 import { EVIDENCE_SOURCES } from '../../phases/validity/evidence.ts';
-import type { CfaJobOutput, InvarianceJobOutput } from '../../workers/validity.ts';
 import { command } from '../define.ts';
-import type { Session } from '../session.ts';
+import { LongJob } from '../long-job.ts';
 import { id, rationale, text } from './schemas.ts';
 
-type Prepared = { kind: 'cfa'; prepared: PreparedCfa } | { kind: 'invariance'; prepared: PreparedInvariance };
+const NOT_FOUND = (taskId: string) => `no validity analysis is running as task ${taskId}`;
+const CANCELLED = () => 'the analysis was cancelled; nothing was stored';
 
-/** CFA and invariance runs started in a worker and not yet collected, per session, by task id. */
-const running = new WeakMap<Session, Map<string, Prepared>>();
-
-function runningOf(session: Session): Map<string, Prepared> {
-  let map = running.get(session);
-  if (!map) {
-    map = new Map();
-    running.set(session, map);
-  }
-  return map;
-}
+/** CFA and invariance runs started in a worker and not yet collected, through the one long-job helper. */
+const cfaJobs = new LongJob<'validity.cfa', PreparedCfa>('validity.cfa', {
+  notFound: NOT_FOUND,
+  cancelled: CANCELLED,
+});
+const invarianceJobs = new LongJob<'validity.invariance', PreparedInvariance>('validity.invariance', {
+  notFound: NOT_FOUND,
+  cancelled: CANCELLED,
+});
 
 const name = text(200).trim().min(1, 'name the column');
 const itemCode = text(40).trim().min(1, 'name the item');
@@ -53,9 +49,16 @@ const model = z.object({
 export const validityCommands = {
   'validity.view': command(z.object({}), (s) => ({
     ...validityView(s.study),
-    running: [...runningOf(s).entries()]
-      .filter(([, p]) => p.prepared.studyPath === s.study.path)
-      .map(([taskId, p]) => ({ taskId, kind: p.kind })),
+    running: [
+      ...cfaJobs
+        .running(s)
+        .filter(([, p]) => p.studyPath === s.study.path)
+        .map(([taskId]) => ({ taskId, kind: 'cfa' as const })),
+      ...invarianceJobs
+        .running(s)
+        .filter(([, p]) => p.studyPath === s.study.path)
+        .map(([taskId]) => ({ taskId, kind: 'invariance' as const })),
+    ],
   })),
   'validity.run': command(z.object({ id }), (s, input) => validityRunDetail(s.study, input.id)),
 
@@ -88,35 +91,25 @@ export const validityCommands = {
   /** Starts a CFA of the model in force in a worker thread; follow it with task.status, then collect it. */
   'validity.startCfa': command(z.object({}), (s) => {
     const prepared = prepareCfa(s.study);
-    const task = s.tasks.start('validity.cfa', prepared.job);
-    runningOf(s).set(task.id, { kind: 'cfa', prepared });
-    return { taskId: task.id, respondents: prepared.inputs.n, items: prepared.inputs.items.length };
+    const taskId = cfaJobs.start(s, prepared.job, prepared);
+    return { taskId, respondents: prepared.inputs.n, items: prepared.inputs.items.length };
   }),
   /** Starts an invariance test across the levels of a group column in a worker thread. */
   'validity.startInvariance': command(z.object({ groupColumn: name }), (s, input) => {
     const prepared = prepareInvariance(s.study, input.groupColumn);
-    const task = s.tasks.start('validity.invariance', prepared.job);
-    runningOf(s).set(task.id, { kind: 'invariance', prepared });
-    return { taskId: task.id, groups: prepared.job.groups.map((g) => g.name) };
+    const taskId = invarianceJobs.start(s, prepared.job, prepared);
+    return { taskId, groups: prepared.job.groups.map((g) => g.name) };
   }),
   /** Waits for a started analysis, stores it with its run and log row, and returns the run id. */
-  'validity.collect': command(z.object({ taskId: text(64) }), async (s, input) => {
-    const map = runningOf(s);
-    const entry = map.get(input.taskId);
-    if (!entry) throw new RuleError(`no validity analysis is running as task ${input.taskId}`, 'not-found');
-    try {
-      const result = await s.tasks.result(input.taskId);
-      return entry.kind === 'cfa'
-        ? { runId: storeCfa(s.study, entry.prepared, result as CfaJobOutput) }
-        : { runId: storeInvariance(s.study, entry.prepared, result as InvarianceJobOutput) };
-    } catch (error) {
-      if (error instanceof EngineError && error.code === 'cancelled')
-        throw new RuleError('the analysis was cancelled; nothing was stored', 'cancelled');
-      throw error;
-    } finally {
-      map.delete(input.taskId);
-    }
-  }),
+  'validity.collect': command(z.object({ taskId: text(64) }), async (s, input) =>
+    cfaJobs.running(s).some(([taskId]) => taskId === input.taskId)
+      ? cfaJobs.collect(s, input.taskId, (output, prepared) => ({
+          runId: storeCfa(s.study, prepared, output),
+        }))
+      : invarianceJobs.collect(s, input.taskId, (output, prepared) => ({
+          runId: storeInvariance(s.study, prepared, output),
+        })),
+  ),
   'validity.runRelations': command(z.object({}), (s) => ({ runId: runRelations(s.study) })),
   'validity.runRetest': command(z.object({}), (s) => ({ runId: runRetest(s.study) })),
 };

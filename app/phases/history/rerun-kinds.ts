@@ -11,6 +11,7 @@ import { reverseScore, type ScaleBounds } from '../../engine/scoring.ts';
 import { JOBS } from '../../workers/jobs.ts';
 import { RuleError } from '../errors.ts';
 import { distributionOf, flagItem } from '../purification.ts';
+import { VALIDITY_RERUNS } from '../validity/rerun.ts';
 import { InputsGone, type RerunKind } from './rerun-kind.ts';
 
 /** The stored dataset a run read, by id; a break when the study no longer holds it. */
@@ -238,4 +239,5 @@ export const RERUN_KINDS: Readonly<Record<string, RerunKind>> = {
   'purification-round': purificationRound,
   screening,
   'content-validity': contentValidity,
+  ...VALIDITY_RERUNS,
 };

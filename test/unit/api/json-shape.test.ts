@@ -45,6 +45,30 @@ beforeAll(() => {
   session.create(path.join(tmp.dir, 'demo.scalewright'), 'Demo');
   fillDemoStudy(session.study);
 });
+
+interface ValidityViewShape {
+  model: {
+    factors: { name: string; items: string[] }[];
+    orthogonal: boolean;
+    residualCovariances: { a: string; b: string; rationale: string }[];
+  };
+  columns: {
+    measures: {
+      column: string;
+      setting: {
+        relationId: number | null;
+        timing: 'concurrent' | 'predictive';
+        reliability: number | null;
+      } | null;
+    }[];
+    groups: {
+      column: string;
+      setting: { relationId: number | null; higher: string; lower: string } | null;
+    }[];
+  };
+  sourceIds: string[];
+  cfa: { runId: number } | null;
+}
 afterAll(async () => {
   await session.shutdown();
   tmp.cleanup();
@@ -103,11 +127,61 @@ describe('every command output is plain JSON data', () => {
     await call('instrument.files');
   });
 
+  it('validity: the model, a CFA and an invariance test in a worker, relations, retest, acknowledgements', async () => {
+    await call('phase.reopen', { phase: 'validity', rationale: 'Check the command outputs.' });
+    const view = await call<ValidityViewShape>('validity.view');
+    if (view.cfa) await call('validity.run', { id: view.cfa.runId });
+    const { model } = view;
+    await call('validity.setModel', {
+      model: {
+        factors: model.factors,
+        orthogonal: !model.orthogonal,
+        residualCovariances: model.residualCovariances,
+      },
+      rationale: 'Try the other choice of factor correlations.',
+    });
+    const measure = view.columns.measures.find((m) => m.setting !== null);
+    if (measure?.setting) {
+      const { relationId, timing, reliability } = measure.setting;
+      await call('validity.describeMeasure', {
+        column: measure.column,
+        relationId,
+        timing,
+        reliability,
+        rationale: 'Unchanged.',
+      });
+    }
+    const group = view.columns.groups.find((g) => g.setting !== null);
+    if (group?.setting) {
+      const { relationId, higher, lower } = group.setting;
+      await call('validity.describeGroups', {
+        column: group.column,
+        relationId,
+        higher,
+        lower,
+        rationale: 'Unchanged.',
+      });
+      const invariance = await call<{ taskId: string }>('validity.startInvariance', {
+        groupColumn: group.column,
+      });
+      await finished(invariance.taskId);
+      await call('validity.collect', { taskId: invariance.taskId });
+    }
+    const cfa = await call<{ taskId: string }>('validity.startCfa');
+    await finished(cfa.taskId);
+    await call('validity.collect', { taskId: cfa.taskId });
+    await call('validity.runRelations');
+    await call('validity.runRetest');
+    expect(view.sourceIds).toContain('internal-structure');
+    await call('validity.acknowledge', { source: 'internal-structure', note: 'The orthogonal model, seen.' });
+  }, 120_000);
+
   it('the methods appendix, in a text and a binary format', async () => {
     for (const format of ['md', 'docx'] as const) await call('export.appendix', { format });
   });
 
   it('long jobs: a purification round started, followed and collected; one cancelled', async () => {
+    await call('phase.reopen', { phase: 'purification', rationale: 'Check the command outputs.' });
     const cancelled = await call<{ taskId: string }>('purification.startRound', {});
     await call('task.cancel', { id: cancelled.taskId });
     await finished(cancelled.taskId);
@@ -250,6 +324,7 @@ describe('every command output is plain JSON data', () => {
     const stored = await call<{ datasetId: number }>('pilot.confirmImport', {
       readId: check.readId,
       acceptProblems: true,
+      current: { makeCurrent: true, reason: 'The second validation wave replaces the first.' },
     });
     await call('pilot.discard');
     const pilot = await call<{ datasets: { id: number; role: string }[] }>('pilot.view');
