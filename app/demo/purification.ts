@@ -1,5 +1,5 @@
 import type { Study } from '../../db/study.ts';
-import { decideItem, roundDetail, runRound } from '../phases/purification.ts';
+import { decideItem, roundDetail, runRound } from '../phases/purification/index.ts';
 import { DEMO_OFF_DOMAIN_ITEM } from './items.ts';
 
 /** Bootstrap of the demo's rounds: resamples, and a seed per round so the demo always repeats. */

@@ -9,7 +9,7 @@ import type { Study } from '../../db/study.ts';
 import { constructRules } from './construct.ts';
 import { itemsRules } from './items.ts';
 import { pilotRules } from './pilot.ts';
-import { purificationRules } from './purification.ts';
+import { purificationRules } from './purification/index.ts';
 import { reviewRules } from './review.ts';
 import { RuleError } from './errors.ts';
 import { phaseNotYetAvailable } from './later.ts';

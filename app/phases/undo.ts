@@ -5,7 +5,7 @@ import type { Study } from '../../db/study.ts';
 import { requireOpen } from './change.ts';
 import { RuleError } from './errors.ts';
 import { includeRespondents } from './pilot.ts';
-import { reverseDecision } from './purification.ts';
+import { reverseDecision } from './purification/index.ts';
 
 /**
  * "Undo the last change": never a deletion. The most recent change in the decision log is reversed

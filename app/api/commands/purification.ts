@@ -12,7 +12,7 @@ import {
   reverseDecision,
   roundDetail,
   storeRound,
-} from '../../phases/purification.ts';
+} from '../../phases/purification/index.ts';
 import type { RoundJobOutput } from '../../workers/jobs.ts';
 import { command } from '../define.ts';
 import type { Session } from '../session.ts';

@@ -1,5 +1,5 @@
 import { useState } from 'react';
-import type { DecisionView, RoundDetail } from '../../../app/phases/purification.ts';
+import type { DecisionView, RoundDetail } from '../../../app/api/contracts/purification.ts';
 import { plural } from '../../../app/api/format.ts';
 import { ErrorNote, Panel } from '../../shared/components.tsx';
 import { useMutation } from '../../shared/use-command.ts';

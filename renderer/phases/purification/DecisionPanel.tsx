@@ -1,5 +1,5 @@
 import { useEffect, useState } from 'react';
-import type { DecisionView, RoundDetail, RoundItemRow } from '../../../app/phases/purification.ts';
+import type { DecisionView, RoundDetail, RoundItemRow } from '../../../app/api/contracts/purification.ts';
 import { ErrorNote, formatTime } from '../../shared/components.tsx';
 import { useMutation } from '../../shared/use-command.ts';
 import { bounded } from '../../../app/api/format.ts';

@@ -1,5 +1,10 @@
 import { Fragment } from 'react';
-import type { FacetResult, FlagRule, RoundItemRow, RuleOfThumb } from '../../../app/phases/purification.ts';
+import type {
+  FacetResult,
+  FlagRule,
+  RoundItemRow,
+  RuleOfThumb,
+} from '../../../app/api/contracts/purification.ts';
 import { STAT_LABELS, bounded, percent, unbounded } from '../../../app/api/format.ts';
 import { sourceNotes } from '../../../app/api/source-notes.ts';
 import { SourceNotes } from '../../shared/source-notes.tsx';

@@ -1,6 +1,6 @@
 import { useCallback, useState } from 'react';
 import { ExportButton } from '../../shared/export-button.tsx';
-import type { DecisionView, RoundSummary } from '../../../app/phases/purification.ts';
+import type { DecisionView, RoundSummary } from '../../../app/api/contracts/purification.ts';
 import { ErrorNote, Panel } from '../../shared/components.tsx';
 import { PhaseControls, SignOffAside } from '../../shared/phase-controls.tsx';
 import { useQuery } from '../../shared/use-command.ts';

@@ -1,4 +1,4 @@
-import type { RoundDetail } from '../../../app/phases/purification.ts';
+import type { RoundDetail } from '../../../app/api/contracts/purification.ts';
 import { Panel } from '../../shared/components.tsx';
 import { STAT_LABELS, bounded, plural, unbounded } from '../../../app/api/format.ts';
 import { CriterionFootnote, CriterionMark } from '../../shared/criterion.tsx';

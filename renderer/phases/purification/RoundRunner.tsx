@@ -1,5 +1,5 @@
 import { useCallback, useRef, useState } from 'react';
-import type { RoundSummary } from '../../../app/phases/purification.ts';
+import type { RoundSummary } from '../../../app/api/contracts/purification.ts';
 import type { TaskStatus } from '../../../app/workers/tasks.ts';
 import { call } from '../../api/client.ts';
 import { ErrorNote } from '../../shared/components.tsx';

@@ -14,7 +14,7 @@ import {
   XAxis,
   YAxis,
 } from 'recharts';
-import type { RoundItemRow, RoundSummary } from '../../../app/phases/purification.ts';
+import type { RoundItemRow, RoundSummary } from '../../../app/api/contracts/purification.ts';
 import { bounded, unbounded } from '../../../app/api/format.ts';
 import type { ReliabilityCriterion } from '../../../app/engine/reliability/criterion.ts';
 import { criterionName } from '../../shared/criterion.tsx';

@@ -4,7 +4,7 @@ import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { dispatch } from '../../../app/api/dispatch.ts';
 import { Session } from '../../../app/api/session.ts';
 import { addFacet } from '../../../app/phases/construct.ts';
-import type { RoundDetail, RoundSummary } from '../../../app/phases/purification.ts';
+import type { RoundDetail, RoundSummary } from '../../../app/phases/purification/index.ts';
 import type { TaskStatus } from '../../../app/workers/tasks.ts';
 import { listRounds } from '../../../db/repos/purification.ts';
 import { insertFixturePool, responsesCsv, storeCsv } from '../../helpers/study-data.ts';

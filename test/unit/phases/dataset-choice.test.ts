@@ -16,7 +16,7 @@ import {
   withdrawDataset,
 } from '../../../app/phases/pilot.ts';
 import { readDataFile } from '../../../app/phases/pilot-read.ts';
-import { purificationView, roundSummaries, runRound } from '../../../app/phases/purification.ts';
+import { purificationView, roundSummaries, runRound } from '../../../app/phases/purification/index.ts';
 import { listDatasetChoices, listDatasets } from '../../../db/repos/datasets.ts';
 import { Study } from '../../../db/study.ts';
 import { TEST_ACTOR, tempDir } from '../../helpers/tmp.ts';

@@ -20,7 +20,7 @@ import {
   roundSummaries,
   runRound,
   storeRound,
-} from '../../../app/phases/purification.ts';
+} from '../../../app/phases/purification/index.ts';
 import { JOBS } from '../../../app/workers/jobs.ts';
 import { getRun } from '../../../db/repos/analysis-runs.ts';
 import { currentExclusions, insertExclusions } from '../../../db/repos/datasets.ts';

@@ -1,0 +1,10 @@
+/** The purification workbench's read models, as the renderer sees them (types only). */
+export type {
+  DecisionView,
+  FacetResult,
+  FlagRule,
+  RoundDetail,
+  RoundItemRow,
+  RoundSummary,
+  RuleOfThumb,
+} from '../../phases/purification/index.ts';
