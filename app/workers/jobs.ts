@@ -1,5 +1,11 @@
 import { resampleProgress } from '../api/format.ts';
 import { simulateEigenvalues } from '../engine/factor/factor-count.ts';
+import { EngineError } from '../engine/errors.ts';
+import {
+  analyseItemFactors,
+  type ItemFactorAnalysis,
+  type ItemFactorRequest,
+} from '../engine/factor/item-factors.ts';
 import { polychoricMatrix } from '../engine/factor/polychoric.ts';
 import {
   analyseItems,
@@ -16,11 +22,17 @@ type AnalysisJobInput = Omit<ItemAnalysisInput, 'bootstrap'> & {
 /** A purification round: the whole item set, then each facet's items, with the same options. */
 export interface RoundJobInput extends AnalysisJobInput {
   facets: { facetId: number; items: string[] }[];
+  /** The factor analysis of the round's items; absent: none. */
+  factor?: ItemFactorRequest;
 }
 
 export interface RoundJobOutput {
   scale: ItemAnalysis;
   facets: { facetId: number; analysis: ItemAnalysis }[];
+  /** Absent in rounds stored before rounds ran a factor analysis; null when none was asked or possible. */
+  factor?: ItemFactorAnalysis | null;
+  /** Why the factor analysis could not run (e.g. an item without variance), in words. */
+  factorRefused?: string | null;
 }
 
 /** What a job may do while it runs: report progress, and ask whether it should stop. */
@@ -58,9 +70,24 @@ export const JOBS = {
         shouldStop: () => ctx.shouldStop(),
       },
     });
+    let factor: ItemFactorAnalysis | null = null;
+    let factorRefused: string | null = null;
+    if (input.factor) {
+      try {
+        factor = analyseItemFactors(input.names, input.data, input.factor, {
+          onProgress: (done, total, stage) => ctx.progress(done, total, `${stage}: ${done} of ${total}`),
+          shouldStop: () => ctx.shouldStop(),
+        });
+      } catch (error) {
+        if (!(error instanceof EngineError) || error.code === 'cancelled') throw error;
+        factorRefused = error.message;
+      }
+    }
     return {
       scale: result.scale,
       facets: result.facets.map(({ facet, analysis }) => ({ facetId: facet, analysis })),
+      factor,
+      factorRefused,
     };
   },
   /**

@@ -4,7 +4,12 @@ import { RuleError } from '../../phases/errors.ts';
 import {
   decideItem,
   decideItems,
+  CORRELATIONS,
+  EXTRACTIONS,
   MAX_BOOTSTRAP_RESAMPLES,
+  MAX_PA_ITERATIONS,
+  MIN_PA_ITERATIONS,
+  ROTATIONS,
   MIN_BOOTSTRAP_RESAMPLES,
   type PreparedRound,
   prepareRound,
@@ -36,6 +41,17 @@ const roundOptions = z.object({
   bootstrap: z
     .object({
       resamples: z.number().int().min(MIN_BOOTSTRAP_RESAMPLES).max(MAX_BOOTSTRAP_RESAMPLES).optional(),
+      seed: z.number().int().min(0).max(0xffff_ffff).optional(),
+    })
+    .nullable()
+    .optional(),
+  factor: z
+    .object({
+      factors: z.number().int().min(1).max(500).optional(),
+      extraction: z.enum(EXTRACTIONS).optional(),
+      rotation: z.enum(ROTATIONS).optional(),
+      correlation: z.enum(CORRELATIONS).optional(),
+      iterations: z.number().int().min(MIN_PA_ITERATIONS).max(MAX_PA_ITERATIONS).optional(),
       seed: z.number().int().min(0).max(0xffff_ffff).optional(),
     })
     .nullable()

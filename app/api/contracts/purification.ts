@@ -2,7 +2,10 @@
 export type {
   DecisionView,
   FacetResult,
+  FactorRequest,
   FlagRule,
+  LoadingRow,
+  RoundFactorView,
   RoundDetail,
   RoundItemRow,
   RoundSummary,

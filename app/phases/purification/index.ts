@@ -6,7 +6,9 @@
 export * from './actions/decisions.ts';
 export * from './actions/rounds.ts';
 export * from './rules/checklist.ts';
+export * from './rules/factor.ts';
 export * from './rules/flags.ts';
 export type { ItemStanding } from './standing.ts';
+export * from './views/factor.ts';
 export * from './views/rounds.ts';
 export * from './views/workbench.ts';

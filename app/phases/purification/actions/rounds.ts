@@ -14,6 +14,13 @@ import { RuleError } from '../../errors.ts';
 import { PHASE, workingSet } from '../standing.ts';
 import { flagItem, type ItemFlag, ROUND_RULES } from '../rules/flags.ts';
 import { type RoundSummary, roundSummaries } from '../views/rounds.ts';
+import {
+  type FacetFactorRow,
+  type FactorRequest,
+  factorFlags,
+  factorRequestFor,
+  LOADING_RULES,
+} from '../rules/factor.ts';
 
 /** Bootstrap resamples of a round unless the researcher asks otherwise. */
 export const DEFAULT_BOOTSTRAP_RESAMPLES = 1_000;
@@ -27,6 +34,8 @@ export interface RoundRequest {
   ciLevel?: number;
   /** null: no bootstrap (Feldt's interval only). Seed defaults to the round's number, so a rerun repeats it. */
   bootstrap?: { resamples?: number; seed?: number } | null;
+  /** The round's factor analysis; null: none. Left out, it runs with its defaults. */
+  factor?: FactorRequest | null;
 }
 
 /** A round ready to run: the engine input and everything that is stored with the result. */
@@ -41,6 +50,8 @@ export interface PreparedRound {
   options: Record<string, unknown>;
   seed: number | null;
   distributions: Record<string, ItemDistribution>;
+  /** Why the round runs no factor analysis (null when it runs one). */
+  factorNote: string | null;
   /** What the round depends on, to check nothing changed while it ran. */
   fingerprint: string;
 }
@@ -58,6 +69,10 @@ export interface ItemDistribution {
 export interface RoundResults extends RoundJobOutput {
   distributions: Record<string, ItemDistribution>;
   flags: Record<string, ItemFlag[]>;
+  /** Facet-by-factor correspondence of the factor solution (absent in rounds stored before it). */
+  correspondence?: FacetFactorRow[];
+  /** Why the round has no factor analysis (absent in rounds stored before it). */
+  factorNote?: string | null;
 }
 
 function fingerprintOf(parts: {
@@ -162,6 +177,12 @@ export function prepareRound(study: Study, request: RoundRequest = {}): Prepared
     name: facetNames.get(facetId) ?? `facet ${facetId}`,
     items: ws.items.filter((it) => it.facetId === facetId).map((it) => it.code),
   }));
+  const factor = factorRequestFor(request.factor, {
+    items: ws.items.length,
+    facets: facetGroups.length,
+    missing: options.missing,
+    round: number,
+  });
   const distributions: Record<string, ItemDistribution> = {};
   names.forEach((name, c) => {
     distributions[name] = distributionOf(
@@ -187,6 +208,7 @@ export function prepareRound(study: Study, request: RoundRequest = {}): Prepared
       facets: facetGroups
         .filter((f) => f.items.length >= 2)
         .map(({ facetId, items: codes }) => ({ facetId, items: codes })),
+      ...(factor.request ? { factor: factor.request } : {}),
     },
     inputs: {
       round: number,
@@ -207,7 +229,12 @@ export function prepareRound(study: Study, request: RoundRequest = {}): Prepared
       facets: facetGroups,
       decisionsApplied: listDecisions(study).map((d) => d.id),
     },
-    options: { ...options, rules: ROUND_RULES },
+    options: {
+      ...options,
+      factor: factor.request,
+      rules: { ...ROUND_RULES, ...(factor.request ? LOADING_RULES : {}) },
+    },
+    factorNote: factor.note,
     seed: options.bootstrap?.seed ?? null,
     distributions,
     fingerprint: fingerprintOf({
@@ -244,7 +271,23 @@ export function storeRound(study: Study, prepared: PreparedRound, result: RoundJ
   }
   const flags: Record<string, ItemFlag[]> = {};
   for (const item of result.scale.items) flags[item.name] = flagItem(item, result.scale);
-  const results: RoundResults = { ...result, distributions: prepared.distributions, flags };
+  let correspondence: FacetFactorRow[] = [];
+  if (result.factor) {
+    const names = new Map(listFacets(study, { includeRetired: true }).map((f) => [f.id, f.name]));
+    const loading = factorFlags(result.factor, prepared.items, names);
+    correspondence = loading.correspondence;
+    for (const [code, extra] of Object.entries(loading.flags))
+      flags[code] = [...(flags[code] ?? []), ...extra];
+  }
+  const results: RoundResults = {
+    ...result,
+    distributions: prepared.distributions,
+    flags,
+    correspondence,
+    factorNote: result.factorRefused
+      ? `the factor analysis could not run: ${result.factorRefused}`
+      : prepared.factorNote,
+  };
   let id = 0;
   recordRun(
     study,

@@ -35,7 +35,10 @@ export type FlagRule =
   | 'floor'
   | 'ceiling'
   | 'missing'
-  | 'no-variance';
+  | 'no-variance'
+  | 'low-primary'
+  | 'cross-loading'
+  | 'off-facet';
 
 export interface RuleOfThumb {
   rule: FlagRule;
@@ -101,6 +104,24 @@ export const RULES_OF_THUMB: readonly RuleOfThumb[] = [
     rule: 'no-variance',
     label: 'no variance',
     statement: 'Every analysed respondent gave the same answer: the item adds nothing to the total.',
+  },
+  {
+    rule: 'low-primary',
+    label: 'low loading',
+    statement: methodWording('rule.primary-loading'),
+    source: 'rule.primary-loading',
+  },
+  {
+    rule: 'cross-loading',
+    label: 'cross-loads',
+    statement: methodWording('rule.cross-loading'),
+    source: 'rule.cross-loading',
+  },
+  {
+    rule: 'off-facet',
+    label: 'other factor',
+    statement: methodWording('rule.intended-facet'),
+    source: 'rule.intended-facet',
   },
 ];
 

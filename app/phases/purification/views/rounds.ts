@@ -16,6 +16,7 @@ import type { ScaleBounds } from '../../../engine/scoring.ts';
 import { currentPilotDataset } from '../../analysis-data.ts';
 import { RuleError } from '../../errors.ts';
 import { standingsOf } from '../standing.ts';
+import { type RoundFactorView, roundFactorView } from './factor.ts';
 import {
   criterionFor,
   type ItemFlag,
@@ -200,6 +201,9 @@ export interface RoundDetail {
   rules: readonly RuleOfThumb[];
   /** The rules of thumb the round was flagged against, as stored with it. */
   thresholds: typeof ROUND_RULES;
+  /** The round's factor analysis (null: none, and `factorNote` says why). */
+  factor: RoundFactorView | null;
+  factorNote: string | null;
 }
 
 /** A round with everything its screen shows, read back from the stored run. */
@@ -270,5 +274,11 @@ export function roundDetail(study: Study, roundId: number): RoundDetail {
     rules: RULES_OF_THUMB,
     criterion: criterionFor(study),
     thresholds: (run.options as { rules?: typeof ROUND_RULES }).rules ?? ROUND_RULES,
+    ...roundFactorView(
+      results,
+      round.items,
+      new Map([...facets.values()].map((f) => [f.id, f.name])),
+      (run.options as { rules?: Record<string, number> }).rules ?? {},
+    ),
   };
 }
