@@ -59,23 +59,34 @@ export const JOBS = {
     }),
   /** One purification round: the scale, then each facet (by id), as `analyseScaleAndFacets` does it. */
   'purification.round': (input: RoundJobInput, ctx: JobContext): RoundJobOutput => {
-    const { facets, ...common } = input;
+    const { facets, factor: factorRequest, ...common } = input;
+    // One progress scale over every stage: the bootstraps, then the polychoric pairs, then the
+    // parallel-analysis replications, each counted in its own units, so the bar never goes back.
+    const p = input.names.length;
+    const boot = (input.bootstrap?.resamples ?? 0) * (facets.length + 1);
+    const pairs = factorRequest?.correlation === 'polychoric' ? (p * (p - 1)) / 2 : 0;
+    const total = boot + pairs + (factorRequest?.iterations ?? 0);
     const result = analyseScaleAndFacets({
       ...common,
       facets: facets.map(({ facetId, items }) => ({ facet: facetId, items })),
       bootstrap: input.bootstrap && {
         ...input.bootstrap,
-        onProgress: (done: number, total: number) =>
+        onProgress: (done: number) =>
           ctx.progress(done, total, resampleProgress(done, input.bootstrap?.resamples ?? 0, facets.length)),
         shouldStop: () => ctx.shouldStop(),
       },
     });
     let factor: ItemFactorAnalysis | null = null;
     let factorRefused: string | null = null;
-    if (input.factor) {
+    if (factorRequest) {
       try {
-        factor = analyseItemFactors(input.names, input.data, input.factor, {
-          onProgress: (done, total, stage) => ctx.progress(done, total, `${stage}: ${done} of ${total}`),
+        factor = analyseItemFactors(input.names, input.data, factorRequest, {
+          onProgress: (done, stageTotal, stage) => {
+            const before = stage === 'parallel analysis' ? boot + pairs : boot;
+            const units = stage === 'parallel analysis' ? factorRequest.iterations : pairs;
+            const at = before + (stageTotal > 0 ? (done / stageTotal) * units : units);
+            ctx.progress(Math.round(at), total, `${stage}: ${done} of ${stageTotal}`);
+          },
           shouldStop: () => ctx.shouldStop(),
         });
       } catch (error) {

@@ -62,7 +62,7 @@ describe('stats reliability (spawned CLI)', () => {
     const out = JSON.parse(run.stdout);
     expect(out.n).toBe(7);
     expect(out.k).toBe(5);
-    for (const key of ['alpha', 'alphaStandardized', 'meanInterItemR', 'omegaTotal']) {
+    for (const key of ['alpha', 'alphaStandardized', 'meanInterItemR', 'omegaTotal', 'lambda2', 'lambda6']) {
       expect(typeof out[key]).toBe('number');
     }
     expect(out.alphaCI).toMatchObject({ method: 'feldt', level: 0.95 });

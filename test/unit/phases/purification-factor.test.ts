@@ -1,0 +1,175 @@
+import fs, { readFileSync } from 'node:fs';
+import path from 'node:path';
+import { afterAll, afterEach, beforeAll, beforeEach, describe, expect, it } from 'vitest';
+import { DEMO_FACETS } from '../../../app/demo/construct.ts';
+import { fillDemoStudy } from '../../../app/demo/index.ts';
+import { DEMO_OFF_DOMAIN_ITEM } from '../../../app/demo/items.ts';
+import { DEMO_CROSS_LOADING, DEMO_CROSS_LOADING_ITEM, DEMO_ITEM_TRUTH } from '../../../app/demo/pilot.ts';
+import { RuleError } from '../../../app/phases/errors.ts';
+import {
+  decisionViews,
+  prepareRound,
+  type RoundDetail,
+  roundDetail,
+  roundSummaries,
+  runRound,
+} from '../../../app/phases/purification/index.ts';
+import { listRounds } from '../../../db/repos/purification.ts';
+import { Study } from '../../../db/study.ts';
+import { TEST_ACTOR, tempDir } from '../../helpers/tmp.ts';
+
+/**
+ * The demo's population model (app/demo/pilot.ts) has four correlated facet factors and one planted
+ * cross-loading item; these tests check that a purification round's factor analysis recovers that
+ * structure. The independent reading is test/reference/demo_pilot.py (sklearn's ML factor analysis
+ * with varimax on the same file; versions in the fixture).
+ */
+const reference = JSON.parse(
+  readFileSync(new URL('../../reference/fixtures/demo-pilot.json', import.meta.url), 'utf8'),
+) as { factorAnalysis: { loadings: Record<string, number[]> } };
+
+let tmp: ReturnType<typeof tempDir>;
+let template: string;
+let study: Study;
+let round1: RoundDetail;
+
+beforeAll(() => {
+  tmp = tempDir();
+  template = path.join(tmp.dir, 'template.scalewright');
+  Study.create(template, { actor: TEST_ACTOR, app: 'test' }, { init: fillDemoStudy }).close();
+});
+afterAll(() => tmp.cleanup());
+
+beforeEach(() => {
+  const file = path.join(tmp.dir, `s${Math.random().toString(36).slice(2)}.scalewright`);
+  fs.copyFileSync(template, file);
+  study = Study.open(file, { actor: TEST_ACTOR, app: 'test' });
+  round1 = roundDetail(study, listRounds(study)[0].id);
+});
+afterEach(() => study.close());
+
+describe('the factor analysis of the demo’s first round', () => {
+  it('recovers the number of facets: parallel analysis (components and common factors) and the default count', () => {
+    const f = round1.factor;
+    expect(f).not.toBeNull();
+    expect(f?.facetCount).toBe(DEMO_FACETS.length);
+    expect(f?.request.factors).toBe(DEMO_FACETS.length);
+    expect(f?.evidence.suggested.parallel).toBe(DEMO_FACETS.length);
+    expect(f?.evidence.suggested.parallelFactors).toBe(DEMO_FACETS.length);
+    // Every count rule is reported beside the choice, none chosen silently.
+    expect(f?.evidence.suggested.kaiser).toBeGreaterThan(0);
+    expect(f?.evidence.parallel?.iterations).toBe(1000);
+  });
+
+  it('matches each facet to its own factor, and the items of a facet load mostly on it', () => {
+    const f = round1.factor;
+    const matched = f?.correspondence.map((row) => row.factor) ?? [];
+    expect(new Set(matched).size).toBe(DEMO_FACETS.length);
+    expect(matched.every((k) => k !== null)).toBe(true);
+    const planted = new Set([DEMO_OFF_DOMAIN_ITEM, DEMO_CROSS_LOADING_ITEM]);
+    for (const row of f?.solution?.rows ?? []) {
+      if (planted.has(row.code)) continue;
+      expect(row.primary, row.code).toBe(row.intended);
+    }
+  });
+
+  it('flags the planted cross-loading item, as the independent sklearn reading shows it', () => {
+    const row = round1.factor?.solution?.rows.find((r) => r.code === DEMO_CROSS_LOADING_ITEM);
+    expect(row?.flags.map((fl) => fl.rule)).toContain('cross-loading');
+    const mags = (row?.loadings ?? []).map(Math.abs).sort((a, b) => b - a);
+    expect(mags[1]).toBeGreaterThanOrEqual(0.3);
+    // sklearn (varimax) on the same file: the item's two largest loadings both reach .30 (common practice).
+    const sk = reference.factorAnalysis.loadings[DEMO_CROSS_LOADING_ITEM].map(Math.abs).sort((a, b) => b - a);
+    expect(sk[1]).toBeGreaterThanOrEqual(0.3);
+    // It loads on its own facet's factor and on the route-planning factor.
+    const truth = DEMO_ITEM_TRUTH.find((it) => it.code === DEMO_CROSS_LOADING_ITEM);
+    const byFacet = new Map(round1.factor?.correspondence.map((c) => [c.facetName, c.factor]));
+    const own = byFacet.get(DEMO_FACETS[truth?.facet ?? 0].name) as number;
+    const other = byFacet.get(DEMO_CROSS_LOADING.facet) as number;
+    expect(Math.abs(row?.loadings[own - 1] ?? 0)).toBeGreaterThanOrEqual(0.3);
+    expect(Math.abs(row?.loadings[other - 1] ?? 0)).toBeGreaterThanOrEqual(0.3);
+    // No other item cross-loads.
+    const crossing = round1.factor?.solution?.rows.filter((r) =>
+      r.flags.some((fl) => fl.rule === 'cross-loading'),
+    );
+    expect(crossing?.map((r) => r.code)).toEqual([DEMO_CROSS_LOADING_ITEM]);
+  });
+
+  it('flags the off-domain item for a primary loading below .40 (common practice)', () => {
+    const row = round1.factor?.solution?.rows.find((r) => r.code === DEMO_OFF_DOMAIN_ITEM);
+    expect(row?.flags.map((fl) => fl.rule)).toContain('low-primary');
+    // The same flags reach the round's item table.
+    const item = round1.rows.find((r) => r.code === DEMO_OFF_DOMAIN_ITEM);
+    expect(item?.flags.map((fl) => fl.rule)).toContain('low-primary');
+  });
+
+  it('says which model each omega rests on', () => {
+    const omega = round1.factor?.solution?.omega;
+    expect(omega?.model).toBe('Schmid–Leiman solution of 4 ml factors rotated by oblimin');
+    expect(omega?.omegaHierarchical).toBeLessThan(omega?.omegaTotal ?? 0);
+    expect(round1.scale.omegaTotal?.items).toHaveLength(round1.scale.k);
+  });
+
+  it('the demo dropped the planted item with reasons about the domain and the loadings', () => {
+    const drop = decisionViews(study).find((d) => d.itemCode === DEMO_CROSS_LOADING_ITEM);
+    expect(drop?.action).toBe('drop');
+    expect(drop?.statisticsOnly).toBe(false);
+    expect(drop?.statisticalRationale).toMatch(/loads \.\d\d on F\d and \.\d\d on F\d/);
+    const last = roundSummaries(study).at(-1);
+    expect(last?.items).not.toContain(DEMO_CROSS_LOADING_ITEM);
+  });
+});
+
+describe('choosing the factor analysis of a round', () => {
+  it('runs the researcher’s count, extraction, rotation and correlations, and stores them with the round', () => {
+    const round = runRound(study, {
+      bootstrap: null,
+      factor: { factors: 3, extraction: 'paf', rotation: 'varimax', iterations: 200, seed: 9 },
+    });
+    const f = roundDetail(study, round.id).factor;
+    expect(f?.request).toMatchObject({ factors: 3, extraction: 'paf', rotation: 'varimax', seed: 9 });
+    expect(f?.solution?.oblique).toBe(false);
+    expect(f?.solution?.rows[0].loadings).toHaveLength(3);
+    // Four facets on three factors: one facet is matched to none.
+    expect(f?.correspondence.filter((c) => c.factor === null)).toHaveLength(1);
+  });
+
+  it('runs none when asked, and says so', () => {
+    const round = runRound(study, { bootstrap: null, factor: null });
+    const detail = roundDetail(study, round.id);
+    expect(detail.factor).toBeNull();
+    expect(detail.factorNote).toMatch(/no factor analysis was asked for/);
+  });
+
+  it('refuses a count the items cannot carry, or settings out of range, and stores nothing', () => {
+    const before = listRounds(study).length;
+    const k = roundSummaries(study).at(-1)?.k as number;
+    expect(() => prepareRound(study, { factor: { factors: k } })).toThrow(RuleError);
+    expect(() => prepareRound(study, { factor: { factors: k } })).toThrow(
+      `the number of factors must be a whole number from 1 to ${k - 1} for the round's ${k} items (got ${k})`,
+    );
+    expect(() => prepareRound(study, { factor: { factors: 0 } })).toThrow(/from 1 to/);
+    expect(() => prepareRound(study, { factor: { iterations: 5 } })).toThrow(/100 to 20000 simulated/);
+    expect(listRounds(study)).toHaveLength(before);
+  });
+
+  it('still opens a round stored before rounds ran a factor analysis or reported Guttman’s lambdas', () => {
+    const run = listRounds(study)[0].runId;
+    const stored = JSON.parse(
+      (study.db.prepare('SELECT results FROM analysis_run WHERE id = ?').get(run) as { results: string })
+        .results,
+    );
+    delete stored.factor;
+    delete stored.factorRefused;
+    delete stored.correspondence;
+    delete stored.factorNote;
+    delete stored.scale.lambda2;
+    delete stored.scale.lambda6;
+    study.db.prepare('UPDATE analysis_run SET results = ? WHERE id = ?').run(JSON.stringify(stored), run);
+    const detail = roundDetail(study, listRounds(study)[0].id);
+    expect(detail.factor).toBeNull();
+    expect(detail.factorNote).toBe('this round was stored before rounds ran a factor analysis');
+    expect(detail.scale.lambda2).toBeUndefined();
+    expect(detail.rows.length).toBe(round1.rows.length);
+  });
+});
