@@ -4,6 +4,8 @@ import { RuleError } from '../../phases/errors.ts';
 import {
   decideItem,
   decideItems,
+  mergeFacets,
+  splitFacet,
   CORRELATIONS,
   EXTRACTIONS,
   MAX_BOOTSTRAP_RESAMPLES,
@@ -125,6 +127,19 @@ export const purificationCommands = {
       ...reasons,
     }),
     (s, input) => decideItems(s.study, input),
+  ),
+  'purification.mergeFacets': command(
+    z.object({ fromFacetId: id, intoFacetId: id, ...reasons }),
+    (s, input) => mergeFacets(s.study, input),
+  ),
+  'purification.splitFacet': command(
+    z.object({
+      facetId: id,
+      itemCodes: z.array(text(40)).min(1, 'choose at least one item').max(500),
+      newFacet: z.object({ name: text(200), definition: text(10_000) }),
+      ...reasons,
+    }),
+    (s, input) => splitFacet(s.study, input),
   ),
   'purification.reverse': command(z.object({ decisionId: id, ...reasons }), (s, input) =>
     reverseDecision(s.study, input.decisionId, input),

@@ -4,6 +4,7 @@
  * `actions/` every write (each with its logged decision), `views/` the read models.
  */
 export * from './actions/decisions.ts';
+export * from './actions/facets.ts';
 export * from './actions/rounds.ts';
 export * from './rules/checklist.ts';
 export * from './rules/factor.ts';

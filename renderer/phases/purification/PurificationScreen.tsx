@@ -6,6 +6,7 @@ import { PhaseControls, SignOffAside } from '../../shared/phase-controls.tsx';
 import { useQuery } from '../../shared/use-command.ts';
 import { AlphaIfDeletedChart, DistributionChart, ItemTotalChart } from './charts.tsx';
 import { DecisionPanel } from './DecisionPanel.tsx';
+import { FacetDecision } from './FacetDecision.tsx';
 import { FactorPanel } from './FactorPanel.tsx';
 import { bounded, plural } from '../../../app/api/format.ts';
 import { BatchDecision } from './BatchDecision.tsx';
@@ -212,6 +213,7 @@ function RoundView(props: {
         </Panel>
         {detail.isLatest && !props.locked && <BatchDecision detail={detail} decisions={props.decisions} />}
         <FactorPanel detail={detail} />
+        {detail.isLatest && !props.locked && <FacetDecision detail={detail} facets={props.facets} />}
         <Panel title="Charts">
           <div className="chart-pair">
             <AlphaIfDeletedChart rows={detail.rows} alpha={detail.scale.alpha.value} />

@@ -8,13 +8,17 @@ import { DEMO_CROSS_LOADING, DEMO_CROSS_LOADING_ITEM, DEMO_ITEM_TRUTH } from '..
 import { RuleError } from '../../../app/phases/errors.ts';
 import {
   decisionViews,
+  mergeFacets,
+  reverseDecision,
+  splitFacet,
   prepareRound,
   type RoundDetail,
   roundDetail,
   roundSummaries,
   runRound,
 } from '../../../app/phases/purification/index.ts';
-import { listRounds } from '../../../db/repos/purification.ts';
+import { listFacets } from '../../../db/repos/construct.ts';
+import { listDecisions, listRounds } from '../../../db/repos/purification.ts';
 import { Study } from '../../../db/study.ts';
 import { TEST_ACTOR, tempDir } from '../../helpers/tmp.ts';
 
@@ -171,5 +175,111 @@ describe('choosing the factor analysis of a round', () => {
     expect(detail.factorNote).toBe('this round was stored before rounds ran a factor analysis');
     expect(detail.scale.lambda2).toBeUndefined();
     expect(detail.rows.length).toBe(round1.rows.length);
+  });
+});
+
+describe('merging and splitting facets', () => {
+  const facetId = (name: string) => listFacets(study).find((f) => f.name === name)?.id as number;
+  const snapshot = () => ({
+    decisions: listDecisions(study).length,
+    facets: listFacets(study).length,
+    log: study.log.list({ limit: 1 })[0]?.seq,
+  });
+
+  it('merges one facet into another: each item a logged move naming the merge, each reversible', () => {
+    const from = facetId('Roadside repairs');
+    const into = facetId('Bike handling');
+    const ids = mergeFacets(study, {
+      fromFacetId: from,
+      intoFacetId: into,
+      domainRationale: 'Fixing the bike on the road is part of handling it (test).',
+      statisticalRationale: '',
+    });
+    const moved =
+      roundSummaries(study)
+        .at(-1)
+        ?.items.filter((c) => c.startsWith('RR')) ?? [];
+    expect(ids).toHaveLength(moved.length);
+    const views = decisionViews(study).filter((d) => ids.includes(d.id));
+    expect(views.every((d) => d.action === 'move' && d.toFacet === 'Bike handling')).toBe(true);
+    expect(study.log.list({ limit: 1 })[0].target).toContain('(merging facet "Roadside repairs")');
+    // The next round counts the merged items in the receiving facet.
+    const next = prepareRound(study, { bootstrap: null, factor: null });
+    expect(next.job.facets.find((f) => f.facetId === into)?.items).toEqual(expect.arrayContaining(moved));
+    // Reversing one move puts that item back.
+    reverseDecision(study, ids[0], { domainRationale: 'Back for now (test).', statisticalRationale: '' });
+    expect(decisionViews(study).at(-1)?.toFacet).toBe('Roadside repairs');
+  });
+
+  it('refuses a bad merge with a clear message and changes nothing', () => {
+    const before = snapshot();
+    const traffic = facetId('Confidence in traffic');
+    const routes = facetId('Route planning');
+    const reasons = { domainRationale: 'x', statisticalRationale: '' };
+    expect(() => mergeFacets(study, { fromFacetId: traffic, intoFacetId: traffic, ...reasons })).toThrow(
+      'choose two different facets to merge',
+    );
+    expect(() =>
+      mergeFacets(study, {
+        fromFacetId: traffic,
+        intoFacetId: routes,
+        domainRationale: ' ',
+        statisticalRationale: 'r',
+      }),
+    ).toThrow(/merging facet "Confidence in traffic" into "Route planning" changes what the facets mean/);
+    expect(() => mergeFacets(study, { fromFacetId: 999, intoFacetId: routes, ...reasons })).toThrow(
+      'the merged facet (999) is not an active facet of this study',
+    );
+    expect(snapshot()).toEqual(before);
+  });
+
+  it('splits a facet: a new facet with its definition, the chosen items moved to it, all logged', () => {
+    const routes = facetId('Route planning');
+    const out = splitFacet(study, {
+      facetId: routes,
+      itemCodes: ['RP01', 'rp03'],
+      newFacet: { name: 'Route finding on the way', definition: 'Belief in finding the way during a trip.' },
+      domainRationale: 'Planning ahead and finding the way en route are different skills (test).',
+      statisticalRationale: 'Two items share a second factor (test).',
+    });
+    expect(listFacets(study).find((f) => f.id === out.facetId)?.definition).toBe(
+      'Belief in finding the way during a trip.',
+    );
+    expect(out.decisions).toHaveLength(2);
+    const rows = study.log.list({ limit: 3 });
+    expect(rows[2].kind).toBe('facet-split');
+    expect(rows[0].target).toContain('(splitting facet "Route planning")');
+    const next = prepareRound(study, { bootstrap: null, factor: null });
+    expect(next.job.facets.find((f) => f.facetId === out.facetId)?.items).toEqual(['RP01', 'RP03']);
+  });
+
+  it('refuses a bad split with a clear message and changes nothing', () => {
+    const before = snapshot();
+    const routes = facetId('Route planning');
+    const base = {
+      facetId: routes,
+      newFacet: { name: 'New', definition: 'Something.' },
+      domainRationale: 'Reason (test).',
+      statisticalRationale: '',
+    };
+    expect(() => splitFacet(study, { ...base, itemCodes: ['BH01'] })).toThrow(
+      'not in facet "Route planning" in the latest round: BH01; a split moves items of the facet it splits',
+    );
+    const all =
+      roundSummaries(study)
+        .at(-1)
+        ?.items.filter((c) => c.startsWith('RP')) ?? [];
+    expect(() => splitFacet(study, { ...base, itemCodes: all })).toThrow(/a split leaves some items/);
+    expect(() =>
+      splitFacet(study, {
+        ...base,
+        itemCodes: ['RP01'],
+        newFacet: { name: 'Bike handling', definition: 'd' },
+      }),
+    ).toThrow('a facet named "Bike handling" already exists');
+    expect(() =>
+      splitFacet(study, { ...base, itemCodes: ['RP01'], newFacet: { name: 'N', definition: ' ' } }),
+    ).toThrow('define the new facet "N": what its items have in common');
+    expect(snapshot()).toEqual(before);
   });
 });

@@ -27,6 +27,8 @@ export interface DecisionRequest {
   statisticalRationale: string;
   /** Set when the decision undoes the change logged in this row (its `seq`). */
   reversesRow?: number;
+  /** Set when the move is part of merging or splitting facets: shown in its log row. */
+  group?: { kind: 'merge' | 'split'; from: string; to: string };
 }
 
 /**
@@ -151,7 +153,7 @@ export function decideItem(study: Study, request: DecisionRequest): number {
     {
       phase: PHASE,
       kind: ACTION_KIND[action],
-      target: `item ${item.code}${toFacet ? ` to facet "${toFacet.name}"` : ''}${statisticsOnly ? ' (statistics only)' : ''}`,
+      target: `item ${item.code}${toFacet ? ` to facet "${toFacet.name}"` : ''}${statisticsOnly ? ' (statistics only)' : ''}${request.group ? ` (${request.group.kind === 'merge' ? 'merging' : 'splitting'} facet "${request.group.from}")` : ''}`,
       rationale: lines.join('\n'),
       runId: round.runId,
       detail: {
@@ -166,6 +168,7 @@ export function decideItem(study: Study, request: DecisionRequest): number {
         statisticsOnly,
         reversesDecision: reversed ? { action: reversed.action, decidedAt: reversed.decidedAt } : null,
         ...(request.reversesRow === undefined ? {} : { reverses: request.reversesRow }),
+        ...(request.group ? { group: request.group } : {}),
       },
     },
     () =>
