@@ -14,7 +14,7 @@ import { type OneFactorFit, omegaTotal } from './reliability/omega.ts';
 import { type MeasurementError, measurementError } from './reliability/sem.ts';
 import { oddEvenSplitHalf, type SplitHalf } from './reliability/split-half.ts';
 import { checkBounds, type ResponseMatrix, type ScaleBounds } from './scoring.ts';
-import { guttmanLambdas } from './factor/guttman.ts';
+import { guttmanLambda2, guttmanLambdas } from './factor/guttman.ts';
 import { ENGINE_VERSION } from './version.ts';
 import { ruleThreshold } from './methods/index.ts';
 
@@ -292,16 +292,13 @@ export function analyseItems(input: ItemAnalysisInput): ItemAnalysis {
   if (varying.length >= 2) {
     const c = varying.map((i) => varying.map((j) => moments.covariance[i][j]));
     try {
+      lambda2 = { value: guttmanLambda2(c) };
       const g = guttmanLambdas(c);
-      lambda2 = { value: g.lambda2 };
-      lambda6 = { value: g.lambda6 };
+      if (Number.isFinite(g.lambda6)) lambda6 = { value: g.lambda6 };
+      else warnings.push("Guttman's λ₆ is not reported: the item covariance matrix is singular");
     } catch (error) {
       if (!(error instanceof EngineError)) throw error;
-      warnings.push(`Guttman's lambdas are not reported: ${error.message}`);
-    }
-    if (lambda6 !== null && !Number.isFinite(lambda6.value)) {
-      warnings.push("Guttman's λ₆ is not reported: the item covariance matrix is singular");
-      lambda6 = null;
+      warnings.push(`Guttman's λ₆ is not reported: ${error.message}`);
     }
   }
 
