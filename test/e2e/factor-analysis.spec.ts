@@ -8,6 +8,8 @@ test('the factor analysis of a round shows the scree plot and loadings, flags th
   page,
   app,
 }) => {
+  // Each round runs its bootstrap and its factor analysis (with parallel analysis) in a worker.
+  test.setTimeout(180_000);
   await page.goto(app.url);
   await page.locator('.sidebar a[href="#/phase/purification"]').click();
   await expect(page.locator('.round-tab')).toHaveCount(2);

@@ -21,6 +21,8 @@ test('runs purification rounds on the demo: the weak item leaves with its reason
   page,
   app,
 }) => {
+  // Each round runs its bootstrap and its factor analysis (with parallel analysis) in a worker.
+  test.setTimeout(180_000);
   await page.goto(app.url);
   await page.locator('.sidebar a[href="#/phase/purification"]').click();
 
