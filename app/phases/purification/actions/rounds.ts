@@ -248,6 +248,39 @@ export function prepareRound(study: Study, request: RoundRequest = {}): Prepared
 }
 
 /**
+ * What a round stores as its results: the job's output, the item distributions, the rule-of-thumb
+ * flags (item analysis and, with a factor analysis, the loading flags), the facet-by-factor table, and
+ * why there is no factor analysis. `facetNames` are the names stored with the round's inputs. The one
+ * assembly for storing a round and for re-running it.
+ */
+export function roundResults(
+  result: RoundJobOutput,
+  items: RoundItem[],
+  facetNames: Map<number, string>,
+  distributions: Record<string, ItemDistribution>,
+  factorNote: string | null,
+): RoundResults {
+  const flags: Record<string, ItemFlag[]> = {};
+  for (const item of result.scale.items) flags[item.name] = flagItem(item, result.scale);
+  let correspondence: FacetFactorRow[] = [];
+  if (result.factor) {
+    const loading = factorFlags(result.factor, items, facetNames);
+    correspondence = loading.correspondence;
+    for (const [code, extra] of Object.entries(loading.flags))
+      flags[code] = [...(flags[code] ?? []), ...extra];
+  }
+  return {
+    ...result,
+    distributions,
+    flags,
+    correspondence,
+    factorNote: result.factorRefused
+      ? `the factor analysis could not run: ${result.factorRefused}`
+      : factorNote,
+  };
+}
+
+/**
  * Stores a finished round: its analysis run (exact inputs, options, seed, engine version, results)
  * with the log row, and the round itself, in one transaction. Refuses when the study, the data, the
  * exclusions, the item set or the keys changed while the round ran, or another round was stored.
@@ -269,25 +302,16 @@ export function storeRound(study: Study, prepared: PreparedRound, result: RoundJ
       'stale',
     );
   }
-  const flags: Record<string, ItemFlag[]> = {};
-  for (const item of result.scale.items) flags[item.name] = flagItem(item, result.scale);
-  let correspondence: FacetFactorRow[] = [];
-  if (result.factor) {
-    const names = new Map(listFacets(study, { includeRetired: true }).map((f) => [f.id, f.name]));
-    const loading = factorFlags(result.factor, prepared.items, names);
-    correspondence = loading.correspondence;
-    for (const [code, extra] of Object.entries(loading.flags))
-      flags[code] = [...(flags[code] ?? []), ...extra];
-  }
-  const results: RoundResults = {
-    ...result,
-    distributions: prepared.distributions,
-    flags,
-    correspondence,
-    factorNote: result.factorRefused
-      ? `the factor analysis could not run: ${result.factorRefused}`
-      : prepared.factorNote,
-  };
+  const facetNames = new Map(
+    (prepared.inputs.facets as { facetId: number; name: string }[]).map((f) => [f.facetId, f.name]),
+  );
+  const results = roundResults(
+    result,
+    prepared.items,
+    facetNames,
+    prepared.distributions,
+    prepared.factorNote,
+  );
   let id = 0;
   recordRun(
     study,

@@ -171,3 +171,6 @@ export const LOADING_RULES = {
   primaryLoadingMin: PRIMARY_LOADING_FLAG,
   crossLoadingMin: CROSS_LOADING_FLAG,
 } as const;
+
+/** The factor-analysis request as a round stores it in its options. */
+export type ItemFactorRequestStored = ItemFactorRequest;
