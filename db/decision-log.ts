@@ -326,8 +326,8 @@ function fromRow(row: LogRow): LogEntry {
     rationale: row.rationale,
     detail: JSON.parse(row.detail) as Record<string, unknown>,
     runId: row.run_id,
-    stateDigest: row.state_digest ?? undefined,
-    runDigest: row.run_digest ?? undefined,
+    ...(row.state_digest !== null ? { stateDigest: row.state_digest } : {}),
+    ...(row.run_digest !== null ? { runDigest: row.run_digest } : {}),
     prevHash: row.prev_hash,
     hash: row.hash,
   };

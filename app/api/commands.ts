@@ -9,6 +9,7 @@ import { pilotCommands } from './commands/pilot.ts';
 import { purificationCommands } from './commands/purification.ts';
 import { reviewCommands } from './commands/review.ts';
 import { studyCommands } from './commands/study.ts';
+import { validityCommands } from './commands/validity.ts';
 
 /**
  * Every operation the renderer may call, one table assembled from one file per phase. The same
@@ -23,6 +24,7 @@ export const commands = {
   ...reviewCommands,
   ...pilotCommands,
   ...purificationCommands,
+  ...validityCommands,
   ...exportCommands,
   ...instrumentCommands,
   ...historyCommands,

@@ -12,6 +12,8 @@ const here = path.dirname(fileURLToPath(import.meta.url));
 const root = path.resolve(here, '..', '..');
 export const CLI_DIST = path.join(here, 'dist');
 export const CLI_BUNDLE = path.join(CLI_DIST, 'main.mjs');
+/** The worker-thread entry the bundle starts its jobs in (found beside it by app/workers/tasks.ts). */
+export const CLI_WORKER = path.join(CLI_DIST, 'worker.mjs');
 const MANIFEST = path.join(CLI_DIST, 'inputs.json');
 
 /**
@@ -33,7 +35,7 @@ function stamp(file) {
 
 /** Why the bundle must be rebuilt, or null when it is current. Costs one stat per source file. */
 export function staleReason() {
-  if (!fs.existsSync(CLI_BUNDLE)) return 'not built yet';
+  if (!fs.existsSync(CLI_BUNDLE) || !fs.existsSync(CLI_WORKER)) return 'not built yet';
   const manifest = readManifest();
   if (!manifest || !Array.isArray(manifest.inputs)) return 'its list of sources is missing';
   for (const input of manifest.inputs) {
@@ -49,14 +51,20 @@ export function staleReason() {
 }
 
 /**
- * Bundles app/cli/main.ts with esbuild. better-sqlite3 (a native addon) and pdfkit (which reads its
- * font metrics and colour profile from files beside its own modules) stay external.
+ * Bundles app/cli/main.ts, and the worker thread its long jobs run in (app/workers/worker.ts), with
+ * esbuild. External, loaded from node_modules at run time: better-sqlite3 (a native addon), pdfkit
+ * (it reads its font metrics and colour profile from files beside its own modules) and docx (large,
+ * and loaded only by an export).
  */
 export async function buildCli() {
   const { build } = await import('esbuild');
   const result = await build({
-    entryPoints: [path.join(here, 'main.ts')],
-    outfile: CLI_BUNDLE,
+    entryPoints: {
+      main: path.join(here, 'main.ts'),
+      worker: path.join(root, 'app', 'workers', 'worker.ts'),
+    },
+    outdir: CLI_DIST,
+    outExtension: { '.js': '.mjs' },
     bundle: true,
     platform: 'node',
     format: 'esm',
@@ -65,7 +73,7 @@ export async function buildCli() {
     metafile: true,
     write: false,
     logLevel: 'warning',
-    external: ['better-sqlite3', 'pdfkit'],
+    external: ['better-sqlite3', 'pdfkit', 'docx'],
     // Bundled CommonJS dependencies call require(); give the ES module one.
     banner: {
       js: "import { createRequire as scalewrightRequire } from 'node:module'; const require = scalewrightRequire(import.meta.url);",

@@ -1,18 +1,14 @@
 import { type ParseArgsConfig, parseArgs } from 'node:util';
 import { LINE_WIDTH, wrapIndented } from './table.ts';
-import { type CliContext, type OptionValues, UsageError } from './types.ts';
+import {
+  type CliContext,
+  type OptionSpec,
+  type OptionSpecs,
+  type OptionValues,
+  UsageError,
+} from './types.ts';
 
-/** One option of a command, declared once: parsing, usage and help all come from this. */
-export interface OptionSpec {
-  type: 'string' | 'boolean';
-  /** What the value looks like in usage and help ("FILE", "N", "a,b,c"); string options only. */
-  value?: string;
-  description: string;
-  /** Shown without brackets in the usage line; the command still checks it and names it when absent. */
-  required?: boolean;
-}
-
-export type OptionSpecs = Record<string, OptionSpec>;
+export type { OptionSpec, OptionSpecs } from './types.ts';
 
 /** What every command declares: its name, what it does, its positional arguments and its options. */
 export interface CommandSpec {

@@ -1,6 +1,6 @@
 import { Study } from '../../db/study.ts';
 import { currentActor } from '../launch/user-data.ts';
-import { pilotView, makeDatasetCurrent } from '../phases/pilot.ts';
+import { pilotView, makeDatasetCurrent } from '../phases/pilot/index.ts';
 import { type CliCommand, type ParsedArgs, stringValue } from './command.ts';
 import { resolveUserPath } from './files.ts';
 import { cut, formatTable, LINE_WIDTH } from './table.ts';

@@ -19,8 +19,8 @@ import {
   previewDataFile,
   respondentCount,
   storeImport,
-} from '../phases/pilot.ts';
-import { type ImportRead, readDataFile } from '../phases/pilot-read.ts';
+} from '../phases/pilot/index.ts';
+import { type ImportRead, readDataFile } from '../import/read-data-file.ts';
 import { currentDataset } from '../phases/analysis-data.ts';
 import { RuleError } from '../phases/errors.ts';
 import { type CliCommand, type ParsedArgs, stringValue } from './command.ts';

@@ -18,6 +18,7 @@ import type { ChecklistItem } from '../phases/types.ts';
 import { type CliCommand, type OptionSpec, type ParsedArgs, stringValue } from './command.ts';
 import { resolveUserPath } from './files.ts';
 import { datasetsCommand, useCommand } from './project-datasets.ts';
+import { exportCommand } from './project-export.ts';
 import { importCommand } from './project-import.ts';
 import { instrumentCommand } from './project-instrument.ts';
 import { cut, formatTable, LINE_WIDTH, wrapIndented } from './table.ts';
@@ -419,4 +420,5 @@ export const PROJECT_COMMANDS: CliCommand[] = [
   signoffCommand,
   instrumentCommand,
   verifyCommand,
+  exportCommand,
 ];

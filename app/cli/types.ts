@@ -1,4 +1,14 @@
-import type { OptionSpecs } from './command.ts';
+/** One option of a command, declared once: parsing, usage and help all come from this. */
+export interface OptionSpec {
+  type: 'string' | 'boolean';
+  /** What the value looks like in usage and help ("FILE", "N", "a,b,c"); string options only. */
+  value?: string;
+  description: string;
+  /** Shown without brackets in the usage line; the command still checks it and names it when absent. */
+  required?: boolean;
+}
+
+export type OptionSpecs = Record<string, OptionSpec>;
 
 /** A mistake in how the command was called: exit code 2. */
 export class UsageError extends Error {

@@ -5,7 +5,7 @@ import {
   updateConstructText,
   updateResponseFormat,
   updateScoreUse,
-} from '../phases/construct.ts';
+} from '../phases/construct/index.ts';
 
 /**
  * The demo's construct phase: an invented city mobility research unit defining "Everyday
@@ -102,5 +102,14 @@ export function fillDemoConstruct(study: Study): void {
     expectedStrength: 'moderate',
     measure: 'Trip diary, four weeks after the survey',
     rationale: 'Confidence is expected to predict later cycling, beyond intention alone.',
+  });
+  addRelation(study, {
+    otherConstruct: 'Riding frequency (regular versus rare riders)',
+    kind: 'known-groups',
+    expectedSign: 'positive',
+    expectedStrength: 'strong',
+    measure: 'Self-described rider type: regular riders compared with those who rarely ride',
+    rationale:
+      'People who ride regularly meet traffic, route and handling situations often and should feel far more able to manage them.',
   });
 }

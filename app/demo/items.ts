@@ -2,7 +2,7 @@ import { listFacets } from '../../db/repos/construct.ts';
 import type { ItemKeying, ItemSource } from '../../db/repos/items.ts';
 import type { Study } from '../../db/study.ts';
 import { signOffPhase } from '../phases/index.ts';
-import { addItem, changeItemState, rewordItem } from '../phases/items.ts';
+import { addItem, changeItemState, rewordItem } from '../phases/items/index.ts';
 import { DEMO_FACETS } from './construct.ts';
 
 /**

@@ -9,8 +9,8 @@ import {
   planImport,
   screenDataset,
   storeImport,
-} from '../phases/pilot.ts';
-import { readDelimitedFileNow } from '../phases/pilot-read.ts';
+} from '../phases/pilot/index.ts';
+import { readDelimitedFileNow } from '../import/read-data-file.ts';
 import { DEMO_FACETS } from './construct.ts';
 import { DEMO_ITEMS, DEMO_OFF_DOMAIN_ITEM, DEMO_RETIRED_ITEM } from './items.ts';
 
@@ -250,7 +250,12 @@ function shuffle<T>(rng: Rng, values: T[]): T[] {
 const SCALE_MIN = 1;
 const SCALE_MAX = 5;
 
-function answer(item: DemoItemTruth, factors: number[], own: number, rng: Rng): number {
+/**
+ * An item's answer from the factors, the off-domain factor and the item's own unique draw `e`
+ * (standard normal): the latent response scaled so its variance is 1, cut at the item's thresholds.
+ * The pilot and the validation wave share it, so both samples come from one population.
+ */
+export function demoAnswer(item: DemoItemTruth, factors: number[], own: number, e: number): number {
   const cross = item.cross;
   const common = cross
     ? item.loading ** 2 +
@@ -262,10 +267,14 @@ function answer(item: DemoItemTruth, factors: number[], own: number, rng: Rng): 
     item.loading * factors[item.facet] +
     (cross ? cross.loading * factors[cross.facet] : 0) +
     item.ownLoading * own +
-    unique * rng.normal();
+    unique * e;
   let point = SCALE_MIN;
   for (const t of item.thresholds) if (latent > t) point++;
   return item.keying === 'reverse' ? SCALE_MIN + SCALE_MAX - point : point;
+}
+
+function answer(item: DemoItemTruth, factors: number[], own: number, rng: Rng): number {
+  return demoAnswer(item, factors, own, rng.normal());
 }
 
 function drawFactors(rng: Rng, chol: number[][]): number[] {

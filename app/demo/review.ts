@@ -2,7 +2,7 @@ import { getItemByCode } from '../../db/repos/items.ts';
 import type { Study } from '../../db/study.ts';
 import { createRng } from '../engine/rng.ts';
 import { signOffPhase } from '../phases/index.ts';
-import { addExpert, addRound, decideItem, importRatings } from '../phases/review.ts';
+import { addExpert, addRound, decideItem, importRatings } from '../phases/review/index.ts';
 import { DEMO_FACETS } from './construct.ts';
 import {
   DEMO_ITEMS,

@@ -36,7 +36,8 @@ export interface PairwiseMoments {
   constantOn: boolean[][];
 }
 
-function checkColumns(columns: Columns, fn: string): { n: number; p: number } {
+/** Checks the shape, and unless `finiteChecked` (the caller checks as it reads), that every value is finite. */
+function checkColumns(columns: Columns, fn: string, finiteChecked = false): { n: number; p: number } {
   const p = columns.length;
   if (p === 0) throw new EngineError(`${fn} requires at least one column (variable)`, 'shape');
   const n = columns[0].length;
@@ -48,19 +49,22 @@ function checkColumns(columns: Columns, fn: string): { n: number; p: number } {
       );
     }
   }
-  for (let j = 0; j < p; j++) {
-    const c = columns[j];
-    for (let i = 0; i < n; i++) {
-      const v = c[i];
-      if (v === Number.POSITIVE_INFINITY || v === Number.NEGATIVE_INFINITY) {
-        throw new EngineError(
-          `${fn} requires finite numbers; row index ${i}, column index ${j} is ${v}`,
-          'non-finite',
-        );
-      }
+  if (!finiteChecked) {
+    for (let j = 0; j < p; j++) {
+      const c = columns[j];
+      for (let i = 0; i < n; i++) checkFinite(c[i], fn, i, j);
     }
   }
   return { n, p };
+}
+
+function checkFinite(v: number, fn: string, i: number, j: number): void {
+  if (v === Number.POSITIVE_INFINITY || v === Number.NEGATIVE_INFINITY) {
+    throw new EngineError(
+      `${fn} requires finite numbers; row index ${i}, column index ${j} is ${v}`,
+      'non-finite',
+    );
+  }
 }
 
 /**
@@ -109,80 +113,144 @@ export function listwiseCovariance(columns: Columns): ListwiseMoments {
   return { n, rows: Int32Array.from(keep), means, covariance };
 }
 
+/** Rows per block of the pairwise pass: p such column pieces stay in cache while every pair is summed. */
+const PAIRWISE_BLOCK_ROWS = 512;
+
 /**
- * Pairwise-deletion moments in one pass over the rows: for each row, the mask of present variables is
- * taken once and every present pair's running sums of the shifted values (x − x̄ⱼ, with x̄ⱼ the
- * column's mean over all its present cases), their squares and cross-products are updated together.
- * Shifting by a column mean keeps the one-pass sums free of cancellation; each pair's own means over
- * its shared cases are then exact corrections of these sums. Constancy on the shared cases is tracked
- * exactly (a variable that never differs from its first shared value), not by a tolerance.
+ * Pairwise-deletion moments from the missing masks: each value is shifted by its column's mean over
+ * the column's present cases (x − x̄ⱼ, which keeps the sums below free of cancellation) and a missing
+ * value counts as 0, so that the cross-products Σ dⱼdₖ over all rows are already sums over each pair's
+ * shared cases. The per-pair sums Σ dⱼ and Σ dⱼ² over the cases shared with k, and the pair counts,
+ * are the column totals less the rows where k is missing: a pass over the missing cells only. Each
+ * pair's own means over its shared cases are then exact corrections of these sums. Constancy on the
+ * shared cases is decided exactly (a variable that never differs from one value there), not by a
+ * tolerance: from how often the column takes its first value, with a scan of the shared cases only
+ * when the rows a pair loses could hold every case of all but one value.
  *
- * Cost: O(n·p²) time, O(p²) memory. Throws EngineError on ragged or infinite input.
+ * The rows are taken in blocks of PAIRWISE_BLOCK_ROWS so that the block's pieces of every column stay
+ * in cache while every pair's products are summed.
+ *
+ * Cost: O(n·p²/2) multiply–adds for the cross-products, O(m·p) for m missing cells, O(p²) memory
+ * beyond one block. Throws EngineError on ragged or infinite input.
  *
  * @example pairwiseMoments([Float64Array.of(1, 2, 3, 4), Float64Array.of(2, NaN, 3, 5)]).n // [[4, 3], [3, 3]]
  */
 export function pairwiseMoments(columns: Columns): PairwiseMoments {
-  const { n, p } = checkColumns(columns, 'pairwise correlation');
+  const fn = 'pairwise correlation';
+  const { n, p } = checkColumns(columns, fn, true);
   const shift = new Float64Array(p);
+  const present = new Float64Array(p);
+  const first = new Float64Array(p);
+  const atFirst = new Float64Array(p);
   for (let j = 0; j < p; j++) {
+    const column = columns[j];
     let s = 0;
     let c = 0;
+    let f = Number.NaN;
+    let same = 0;
     for (let i = 0; i < n; i++) {
-      const v = columns[j][i];
+      const v = column[i];
       if (!Number.isNaN(v)) {
+        if (v - v !== 0) checkFinite(v, fn, i, j);
+        if (c === 0) f = v;
+        if (v === f) same++;
         s += v;
         c++;
       }
     }
     shift[j] = c > 0 ? s / c : 0;
+    present[j] = c;
+    first[j] = f;
+    atFirst[j] = same;
   }
   const size = p * p;
-  // Entry j·p + k (j ≤ k) holds the sums for the pair; sx sums variable j, sy variable k.
-  const count = new Float64Array(size);
-  const sx = new Float64Array(size);
-  const sy = new Float64Array(size);
-  const sxx = new Float64Array(size);
-  const syy = new Float64Array(size);
-  const sxy = new Float64Array(size);
-  const firstX = new Float64Array(size);
-  const firstY = new Float64Array(size);
-  const variesX = new Uint8Array(size);
-  const variesY = new Uint8Array(size);
-  const present = new Int32Array(p);
-  const value = new Float64Array(p);
-  for (let i = 0; i < n; i++) {
-    let q = 0;
+  // total[j]/squares[j]: Σ dⱼ and Σ dⱼ² over every present case of j. lostSum[j·p + k],
+  // lostSquares[j·p + k]: the same over the cases where k is missing (and j present); bothMissing
+  // counts the rows where both are missing. cross[j·p + k] (k ≤ j): Σ dⱼdₖ over the shared cases.
+  const total = new Float64Array(p);
+  const squares = new Float64Array(p);
+  const lostSum = new Float64Array(size);
+  const lostSquares = new Float64Array(size);
+  const bothMissing = new Float64Array(size);
+  const cross = new Float64Array(size);
+  const B = PAIRWISE_BLOCK_ROWS;
+  const block = new Float64Array(p * B);
+  const gap = new Uint8Array(p * B);
+  const missingRow = new Int32Array(p * B);
+  const missingColumn = new Int32Array(p * B);
+  for (let start = 0; start < n; start += B) {
+    const rows = Math.min(B, n - start);
+    let missing = 0;
     for (let j = 0; j < p; j++) {
-      const v = columns[j][i];
-      if (!Number.isNaN(v)) {
-        present[q] = j;
-        value[q] = v;
-        q++;
+      const column = columns[j];
+      const s = shift[j];
+      const offset = j * B;
+      let t = 0;
+      let q = 0;
+      for (let r = 0; r < rows; r++) {
+        const v = column[start + r];
+        if (!Number.isNaN(v)) {
+          const d = v - s;
+          block[offset + r] = d;
+          gap[offset + r] = 0;
+          t += d;
+          q += d * d;
+        } else {
+          block[offset + r] = 0;
+          gap[offset + r] = 1;
+          missingRow[missing] = r;
+          missingColumn[missing] = j;
+          missing++;
+        }
+      }
+      total[j] += t;
+      squares[j] += q;
+    }
+    // Four pairs at a time: each value of column j is loaded once for four products.
+    for (let j = 0; j < p; j++) {
+      const a = j * B;
+      const base = j * p;
+      let k = 0;
+      for (; k + 3 <= j; k += 4) {
+        const b0 = k * B;
+        const b1 = b0 + B;
+        const b2 = b1 + B;
+        const b3 = b2 + B;
+        let s0 = 0;
+        let s1 = 0;
+        let s2 = 0;
+        let s3 = 0;
+        for (let r = 0; r < rows; r++) {
+          const x = block[a + r];
+          s0 += x * block[b0 + r];
+          s1 += x * block[b1 + r];
+          s2 += x * block[b2 + r];
+          s3 += x * block[b3 + r];
+        }
+        cross[base + k] += s0;
+        cross[base + k + 1] += s1;
+        cross[base + k + 2] += s2;
+        cross[base + k + 3] += s3;
+      }
+      for (; k <= j; k++) {
+        const b = k * B;
+        let s = 0;
+        for (let r = 0; r < rows; r++) s += block[a + r] * block[b + r];
+        cross[base + k] += s;
       }
     }
-    for (let a = 0; a < q; a++) {
-      const j = present[a];
-      const x = value[a];
-      const dx = x - shift[j];
-      const base = j * p;
-      for (let b = a; b < q; b++) {
-        const k = present[b];
-        const y = value[b];
-        const dy = y - shift[k];
-        const at = base + k;
-        if (count[at] === 0) {
-          firstX[at] = x;
-          firstY[at] = y;
+    for (let m = 0; m < missing; m++) {
+      const r = missingRow[m];
+      const k = missingColumn[m];
+      for (let j = 0; j < p; j++) {
+        const at = j * p + k;
+        if (gap[j * B + r] === 1) {
+          bothMissing[at]++;
         } else {
-          if (x !== firstX[at]) variesX[at] = 1;
-          if (y !== firstY[at]) variesY[at] = 1;
+          const d = block[j * B + r];
+          lostSum[at] += d;
+          lostSquares[at] += d * d;
         }
-        count[at]++;
-        sx[at] += dx;
-        sy[at] += dy;
-        sxx[at] += dx * dx;
-        syy[at] += dy * dy;
-        sxy[at] += dx * dy;
       }
     }
   }
@@ -191,27 +259,51 @@ export function pairwiseMoments(columns: Columns): PairwiseMoments {
   const covariance = square(Number.NaN);
   const correlation = square(Number.NaN);
   const constantOn = square(true);
+  /** Whether variable j takes one value on the c cases it shares with k (see the comment above). */
+  const constantOnShared = (j: number, k: number, c: number): boolean => {
+    const same = atFirst[j];
+    if (same === present[j]) return true;
+    const lost = present[j] - c;
+    if (lost < Math.min(same, present[j] - same)) return false;
+    const x = columns[j];
+    const y = columns[k];
+    let seen = Number.NaN;
+    for (let i = 0; i < n; i++) {
+      const v = x[i];
+      const w = y[i];
+      if (Number.isNaN(v) || Number.isNaN(w)) continue;
+      if (Number.isNaN(seen)) seen = v;
+      else if (v !== seen) return false;
+    }
+    return true;
+  };
   for (let j = 0; j < p; j++) {
-    for (let k = j; k < p; k++) {
-      const at = j * p + k;
-      const c = count[at];
+    for (let k = 0; k <= j; k++) {
+      const c = j === k ? present[j] : n - (n - present[j]) - (n - present[k]) + bothMissing[j * p + k];
       counts[j][k] = c;
       counts[k][j] = c;
-      constantOn[j][k] = variesX[at] === 0;
-      constantOn[k][j] = variesY[at] === 0;
+      const jConstant = j === k ? atFirst[j] === present[j] : constantOnShared(j, k, c);
+      const kConstant = j === k ? jConstant : constantOnShared(k, j, c);
+      constantOn[j][k] = jConstant;
+      constantOn[k][j] = kConstant;
       if (c < 2) continue;
-      const ssx = Math.max(0, sxx[at] - (sx[at] * sx[at]) / c);
-      const ssy = Math.max(0, syy[at] - (sy[at] * sy[at]) / c);
-      const cross = sxy[at] - (sx[at] * sy[at]) / c;
-      const cov = cross / (c - 1);
+      // Sums of j and of k over the shared cases, and their squares.
+      const sx = total[j] - lostSum[j * p + k];
+      const sy = total[k] - lostSum[k * p + j];
+      const sxx = squares[j] - lostSquares[j * p + k];
+      const syy = squares[k] - lostSquares[k * p + j];
+      const ssx = Math.max(0, sxx - (sx * sx) / c);
+      const ssy = Math.max(0, syy - (sy * sy) / c);
+      const productSum = cross[j * p + k] - (sx * sy) / c;
+      const cov = productSum / (c - 1);
       covariance[j][k] = cov;
       covariance[k][j] = cov;
       if (j === k) {
-        if (variesX[at] === 1) correlation[j][j] = 1;
+        if (!jConstant) correlation[j][j] = 1;
         continue;
       }
-      if (variesX[at] === 1 && variesY[at] === 1 && ssx > 0 && ssy > 0) {
-        const r = clampCorrelation(cross / Math.sqrt(ssx * ssy));
+      if (!jConstant && !kConstant && ssx > 0 && ssy > 0) {
+        const r = clampCorrelation(productSum / Math.sqrt(ssx * ssy));
         correlation[j][k] = r;
         correlation[k][j] = r;
       }

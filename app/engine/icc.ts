@@ -96,6 +96,48 @@ export function iccAnova(data: (number | null)[][]): IccAnova {
 }
 
 /**
+ * A single-measure and an average-measure ICC whose intervals follow from the F ratio alone, as for
+ * the one-way random model and the two-way consistency forms (McGraw & Wong 1996, Table 7):
+ * with F_L = F / F(q; df1, df2) and F_U = F · F(q; df2, df1), the single-measure limits are
+ * (F_L − 1)/(F_L + k − 1) and (F_U − 1)/(F_U + k − 1), the average-measure limits 1 − 1/F_L and
+ * 1 − 1/F_U. Registry: `icc.mcgraw-wong-ci`.
+ */
+function fIntervalPair(
+  names: [IccFormName, IccFormName],
+  model: IccForm['model'],
+  type: IccForm['type'],
+  test: { F: number; df1: number; df2: number; p: number },
+  q: number,
+  k: number,
+  values: { single: number; average: number },
+): IccForm[] {
+  const fl = test.F / fQuantile(q, test.df1, test.df2);
+  const fu = test.F * fQuantile(q, test.df2, test.df1);
+  return [
+    {
+      form: names[0],
+      model,
+      type,
+      unit: 'single',
+      value: values.single,
+      lower: (fl - 1) / (fl + k - 1),
+      upper: (fu - 1) / (fu + k - 1),
+      ...test,
+    },
+    {
+      form: names[1],
+      model,
+      type,
+      unit: 'average',
+      value: values.average,
+      lower: 1 - 1 / fl,
+      upper: 1 - 1 / fu,
+      ...test,
+    },
+  ];
+}
+
+/**
  * The six intraclass correlations of Shrout & Fleiss (1979), ICC(1,1) … ICC(3,k), with confidence
  * intervals and F tests from McGraw & Wong (1996, Tables 7 and 8; the agreement interval of the
  * two-way random model uses Satterthwaite's degrees of freedom, its average-measure limits follow by
@@ -119,35 +161,13 @@ export function intraclassCorrelations(data: (number | null)[][], level = DEFAUL
     const df1 = n - 1;
     const df2 = n * (k - 1);
     const F = bms / wms;
-    const fl = F / fQuantile(q, df1, df2);
-    const fu = F * fQuantile(q, df2, df1);
-    const p = fSf(F, df1, df2);
-    forms.push({
-      form: 'ICC(1,1)',
-      model: 'one-way random',
-      type: 'agreement',
-      unit: 'single',
-      value: (bms - wms) / (bms + (k - 1) * wms),
-      lower: (fl - 1) / (fl + k - 1),
-      upper: (fu - 1) / (fu + k - 1),
-      F,
-      df1,
-      df2,
-      p,
-    });
-    forms.push({
-      form: 'ICC(1,k)',
-      model: 'one-way random',
-      type: 'agreement',
-      unit: 'average',
-      value: (bms - wms) / bms,
-      lower: 1 - 1 / fl,
-      upper: 1 - 1 / fu,
-      F,
-      df1,
-      df2,
-      p,
-    });
+    const test = { F, df1, df2, p: fSf(F, df1, df2) };
+    forms.push(
+      ...fIntervalPair(['ICC(1,1)', 'ICC(1,k)'], 'one-way random', 'agreement', test, q, k, {
+        single: (bms - wms) / (bms + (k - 1) * wms),
+        average: (bms - wms) / bms,
+      }),
+    );
   }
 
   const df1 = n - 1;
@@ -196,36 +216,13 @@ export function intraclassCorrelations(data: (number | null)[][], level = DEFAUL
   }
 
   // Two-way mixed model, consistency (McGraw & Wong's ICC(C,1) and ICC(C,k)).
-  {
-    const fl = F / fQuantile(q, df1, df2);
-    const fu = F * fQuantile(q, df2, df1);
-    forms.push({
-      form: 'ICC(3,1)',
-      model: 'two-way mixed',
-      type: 'consistency',
-      unit: 'single',
-      value: (bms - ems) / (bms + (k - 1) * ems),
-      lower: (fl - 1) / (fl + k - 1),
-      upper: (fu - 1) / (fu + k - 1),
-      F,
-      df1,
-      df2,
-      p,
-    });
-    forms.push({
-      form: 'ICC(3,k)',
-      model: 'two-way mixed',
-      type: 'consistency',
-      unit: 'average',
-      value: (bms - ems) / bms,
-      lower: 1 - 1 / fl,
-      upper: 1 - 1 / fu,
-      F,
-      df1,
-      df2,
-      p,
-    });
-  }
+  forms.push(
+    ...fIntervalPair(['ICC(3,1)', 'ICC(3,k)'], 'two-way mixed', 'consistency', { F, df1, df2, p }, q, k, {
+      single: (bms - ems) / (bms + (k - 1) * ems),
+      average: (bms - ems) / bms,
+    }),
+  );
+
   const order: IccFormName[] = ['ICC(1,1)', 'ICC(2,1)', 'ICC(3,1)', 'ICC(1,k)', 'ICC(2,k)', 'ICC(3,k)'];
   forms.sort((x, y) => order.indexOf(x.form) - order.indexOf(y.form));
   return { ...a, level, forms };

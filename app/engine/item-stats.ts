@@ -1,7 +1,7 @@
 import { EngineError } from './errors.ts';
-import { clampCorrelation, columnsFromRows, pairwiseMoments } from './covariance.ts';
+import { clampCorrelation, pairwiseMoments } from './covariance.ts';
 import { covarianceMatrix } from './linalg.ts';
-import { EPSILON, kahanSum, mean, variance } from './numeric.ts';
+import { EPSILON, mean, meanAndVariance } from './numeric.ts';
 import type { ResponseMatrix, ScaleBounds } from './scoring.ts';
 
 /** Descriptive statistics of one item over its answered values. */
@@ -51,43 +51,117 @@ export function itemDescriptives(
   data: ResponseMatrix,
   bounds?: ScaleBounds,
 ): ItemDescriptives[] {
-  return names.map((name, c) => {
-    const values: number[] = [];
-    let missing = 0;
-    for (let r = 0; r < data.length; r++) {
-      const row = data[r];
-      if (row.length !== names.length) {
+  return descriptivesOfColumns(names, responseColumns(names, data), bounds);
+}
+
+/**
+ * The responses as one column per item (NaN for a missing answer), checking that every row has one
+ * answer per item and every answer is a finite number.
+ *
+ * Cost: O(n·k). Throws EngineError naming the respondent (1-based) and the item.
+ */
+export function responseColumns(names: readonly string[], data: ResponseMatrix): Float64Array[] {
+  const k = names.length;
+  const n = data.length;
+  const columns = Array.from({ length: k }, () => new Float64Array(n));
+  for (let r = 0; r < n; r++) {
+    const row = data[r];
+    if (row.length !== k) {
+      throw new EngineError(
+        `respondent ${r + 1} has ${row.length} answers but there are ${k} items`,
+        'shape',
+      );
+    }
+    for (let c = 0; c < k; c++) {
+      const x = row[c];
+      if (x === null) columns[c][r] = Number.NaN;
+      else if (Number.isFinite(x)) columns[c][r] = x;
+      else {
         throw new EngineError(
-          `respondent ${r + 1} has ${row.length} answers but there are ${names.length} items`,
-          'shape',
+          `respondent ${r + 1}, item "${names[c]}": the value ${x} is not a finite number`,
         );
       }
-      const x = row[c];
-      if (x === null) missing++;
-      else if (!Number.isFinite(x)) {
-        throw new EngineError(`respondent ${r + 1}, item "${name}": the value ${x} is not a finite number`);
-      } else values.push(x);
     }
+  }
+  return columns;
+}
+
+/** The present (non-NaN) values of a column, in row order. */
+function presentValues(column: Float64Array): Float64Array {
+  let count = 0;
+  for (let i = 0; i < column.length; i++) if (!Number.isNaN(column[i])) count++;
+  if (count === column.length) return column;
+  const values = new Float64Array(count);
+  let at = 0;
+  for (let i = 0; i < column.length; i++) {
+    const v = column[i];
+    if (!Number.isNaN(v)) values[at++] = v;
+  }
+  return values;
+}
+
+/** One column's answered values (in row order) with their mean and variance, as meanAndVariance gives them. */
+export interface ColumnSummary {
+  values: Float64Array;
+  mean: number;
+  variance: number;
+}
+
+/**
+ * The second, third and fourth central moments (divisor n) about m, each a compensated sum as
+ * kahanSum gives it, the three summed together in one pass.
+ */
+function centralMoments(values: Float64Array, m: number): { m2: number; m3: number; m4: number } {
+  const n = values.length;
+  let s2 = 0;
+  let c2 = 0;
+  let s3 = 0;
+  let c3 = 0;
+  let s4 = 0;
+  let c4 = 0;
+  for (let i = 0; i < n; i++) {
+    const d = values[i] - m;
+    const d2 = d * d;
+    const d3 = d2 * d;
+    const d4 = d2 * d2;
+    const t2 = s2 + d2;
+    c2 += Math.abs(s2) >= Math.abs(d2) ? s2 - t2 + d2 : d2 - t2 + s2;
+    s2 = t2;
+    const t3 = s3 + d3;
+    c3 += Math.abs(s3) >= Math.abs(d3) ? s3 - t3 + d3 : d3 - t3 + s3;
+    s3 = t3;
+    const t4 = s4 + d4;
+    c4 += Math.abs(s4) >= Math.abs(d4) ? s4 - t4 + d4 : d4 - t4 + s4;
+    s4 = t4;
+  }
+  return { m2: (s2 + c2) / n, m3: (s3 + c3) / n, m4: (s4 + c4) / n };
+}
+
+/**
+ * itemDescriptives of responses already held as columns (NaN for a missing answer, as
+ * responseColumns gives them); the same statistics over the same values in the same order.
+ *
+ * Cost: O(n·k). Throws EngineError when an item has fewer than two answered values.
+ */
+export function descriptivesOfColumns(
+  names: readonly string[],
+  columns: readonly Float64Array[],
+  bounds?: ScaleBounds,
+  summaries?: readonly ColumnSummary[],
+): ItemDescriptives[] {
+  return names.map((name, c) => {
+    const given = summaries?.[c];
+    const values = given?.values ?? presentValues(columns[c]);
     const n = values.length;
+    const missing = columns[c].length - n;
     if (n < 2) {
       throw new EngineError(
         `item "${name}" has ${n} answered value(s); item statistics require at least two`,
       );
     }
-    const m = mean(values);
-    const sd = Math.sqrt(variance(values));
-    const d2 = new Float64Array(n);
-    const d3 = new Float64Array(n);
-    const d4 = new Float64Array(n);
-    for (let i = 0; i < n; i++) {
-      const d = values[i] - m;
-      d2[i] = d * d;
-      d3[i] = d2[i] * d;
-      d4[i] = d2[i] * d2[i];
-    }
-    const m2 = kahanSum(d2) / n;
-    const m3 = kahanSum(d3) / n;
-    const m4 = kahanSum(d4) / n;
+    const { mean: m, variance: v } = given ?? meanAndVariance(values);
+    const sd = Math.sqrt(v);
+    const { m2, m3, m4 } = centralMoments(values, m);
     const varies = sd > ZERO_VARIANCE;
     const skewness = varies && n >= 3 ? ((Math.sqrt(n * (n - 1)) / (n - 2)) * m3) / m2 ** 1.5 : null;
     const kurtosis =
@@ -97,7 +171,8 @@ export function itemDescriptives(
     if (bounds) {
       let atFloor = 0;
       let atCeiling = 0;
-      for (const x of values) {
+      for (let i = 0; i < n; i++) {
+        const x = values[i];
         if (Math.abs(x - bounds.min) <= BOUND_TOLERANCE) atFloor++;
         if (Math.abs(x - bounds.max) <= BOUND_TOLERANCE) atCeiling++;
       }
@@ -128,6 +203,10 @@ export interface ItemMoments {
   dropped: number;
   /** The analysed rows (listwise: complete cases only). */
   rows: ResponseMatrix;
+  /** The analysed rows as one column per item, NaN for a missing answer. */
+  columns: Float64Array[];
+  /** Pairwise: each column's answered values with the mean and variance its SD came from. */
+  summaries?: ColumnSummary[];
   means: number[];
   sds: number[];
   /** Whether each item's SD exceeds ZERO_VARIANCE. */
@@ -164,10 +243,13 @@ export function itemMoments(names: string[], data: ResponseMatrix, method: Missi
       );
     }
   }
-  const rows =
-    method === 'listwise'
-      ? data.filter((row) => row.every((x) => x !== null))
-      : data.filter((row) => row.some((x) => x !== null));
+  const all = responseColumns(names, data);
+  const keep: number[] = [];
+  for (let r = 0; r < data.length; r++) {
+    const row = data[r];
+    if (method === 'listwise' ? row.every((x) => x !== null) : row.some((x) => x !== null)) keep.push(r);
+  }
+  const rows = keep.length === data.length ? data : keep.map((r) => data[r]);
   const n = rows.length;
   if (n < 2) {
     const which =
@@ -177,11 +259,13 @@ export function itemMoments(names: string[], data: ResponseMatrix, method: Missi
       'too-few-respondents',
     );
   }
+  const columns =
+    keep.length === data.length ? all : all.map((column) => Float64Array.from(keep, (r) => column[r]));
   if (method === 'listwise') {
     const covariance = covarianceMatrix(rows as number[][]);
     const sds = covariance.map((row, i) => Math.sqrt(Math.max(0, row[i])));
     const varies = sds.map((s) => s > ZERO_VARIANCE);
-    const means = names.map((_, c) => mean(rows.map((row) => row[c] as number)));
+    const means = columns.map((column) => mean(column));
     const correlation = covariance.map((row, i) =>
       row.map((cij, j) => {
         if (!varies[i] || !varies[j]) return null;
@@ -194,6 +278,7 @@ export function itemMoments(names: string[], data: ResponseMatrix, method: Missi
       n,
       dropped: data.length - n,
       rows,
+      columns,
       means,
       sds,
       varies,
@@ -203,19 +288,20 @@ export function itemMoments(names: string[], data: ResponseMatrix, method: Missi
       minPairN: n,
     };
   }
-  const columns = names.map((_, c) => rows.flatMap((row) => (row[c] === null ? [] : [row[c] as number])));
-  columns.forEach((values, c) => {
+  const answered = columns.map((column) => presentValues(column));
+  answered.forEach((values, c) => {
     if (values.length < 2) {
       throw new EngineError(
         `item "${names[c]}" has ${values.length} answered value(s); at least two are required`,
       );
     }
   });
-  const means = columns.map((values) => mean(values));
-  const sds = columns.map((values) => Math.sqrt(variance(values)));
+  const summaries = answered.map((values): ColumnSummary => ({ values, ...meanAndVariance(values) }));
+  const means = summaries.map((s) => s.mean);
+  const sds = summaries.map((s) => Math.sqrt(s.variance));
   const varies = sds.map((s) => s > ZERO_VARIANCE);
   const varying = names.map((_, c) => c).filter((c) => varies[c]);
-  const moments = pairwiseMoments(columnsFromRows(rows, 'item analysis'));
+  const moments = pairwiseMoments(columns);
   const pairN = moments.n;
   let minPairN = k > 1 ? Number.POSITIVE_INFINITY : n;
   for (let i = 0; i < k; i++) {
@@ -258,6 +344,8 @@ export function itemMoments(names: string[], data: ResponseMatrix, method: Missi
     n,
     dropped: data.length - n,
     rows,
+    columns,
+    summaries,
     means,
     sds,
     varies,

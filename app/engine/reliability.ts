@@ -2,7 +2,7 @@ import { EngineError } from './errors.ts';
 import {
   correctedItemTotal,
   type ItemDescriptives,
-  itemDescriptives,
+  descriptivesOfColumns,
   itemMoments,
   MISSING_METHOD_TEXT,
   type MissingMethod,
@@ -121,21 +121,6 @@ function checkInput(input: ItemAnalysisInput): number {
       'too-few-respondents',
     );
   }
-  data.forEach((row, r) => {
-    if (row.length !== names.length) {
-      throw new EngineError(
-        `respondent ${r + 1} has ${row.length} answers but there are ${names.length} items`,
-        'shape',
-      );
-    }
-    row.forEach((x, c) => {
-      if (x !== null && !Number.isFinite(x)) {
-        throw new EngineError(
-          `respondent ${r + 1}, item "${names[c]}": the value ${x} is not a finite number`,
-        );
-      }
-    });
-  });
   if (input.missing !== 'listwise' && input.missing !== 'pairwise') {
     throw new EngineError(`missing-data method must be listwise or pairwise (got ${String(input.missing)})`);
   }
@@ -159,6 +144,13 @@ function assertFiniteResult(value: unknown, path: string): void {
   } else if (value !== null && typeof value === 'object') {
     for (const [key, v] of Object.entries(value)) assertFiniteResult(v, `${path}.${key}`);
   }
+}
+
+/** Missing answers in column c of the rows. */
+function countMissing(data: ResponseMatrix, c: number): number {
+  let count = 0;
+  for (let r = 0; r < data.length; r++) if (data[r][c] === null) count++;
+  return count;
 }
 
 function fmt(x: number): string {
@@ -224,12 +216,13 @@ export function analyseItems(input: ItemAnalysisInput): ItemAnalysis {
     );
   }
 
-  const descriptives = itemDescriptives(names, moments.rows, input.bounds);
+  const descriptives = descriptivesOfColumns(names, moments.columns, input.bounds, moments.summaries);
   const corrected = correctedItemTotal(moments.covariance);
   const ifDeleted = alphaIfDeleted(moments.covariance);
   const items: ItemResult[] = descriptives.map((d, i) => ({
     ...d,
-    missing: data.reduce((count, row) => count + (row[i] === null ? 1 : 0), 0),
+    // Rows left out of the analysis (an unanswered or, listwise, incomplete row) count as well.
+    missing: d.missing + (missing === 'pairwise' ? moments.dropped : countMissing(data, i)),
     correctedItemTotal: corrected[i],
     alphaIfDeleted: ifDeleted[i],
   }));

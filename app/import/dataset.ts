@@ -1,4 +1,4 @@
-import { ColumnBuilder, decodeColumn, type EncodedColumn, INT8_MISSING } from '../engine/columnar.ts';
+import { ColumnBuilder, decodeColumn, INT8_MISSING } from '../engine/columnar.ts';
 import { type ColumnMapping, type ResolvedMapping, resolveMapping } from './mapping.ts';
 import {
   CELL_MISSING,
@@ -16,15 +16,29 @@ import { DECIMAL_MARK_ROWS } from './limits.ts';
 import type { ParsedTable } from './parse-table.ts';
 import { TableError } from './table-error.ts';
 
+export type {
+  AttentionColumn,
+  AttentionOutcome,
+  Dataset,
+  EncodedDataset,
+  EncodedNumericColumn,
+  ImportProblem,
+  NumericColumn,
+  NumericRole,
+  TextColumn,
+} from '../engine/dataset.ts';
+import type {
+  AttentionColumn,
+  AttentionOutcome,
+  Dataset,
+  EncodedDataset,
+  ImportProblem,
+  NumericRole,
+  TextColumn,
+} from '../engine/dataset.ts';
+
 /** Problems listed one by one before the rest are only counted (`problemCount` has them all). */
 export const DEFAULT_MAX_PROBLEMS = 1000;
-
-/** One cell the researcher should look at. `row` counts the header as row 1; `column` is the header. */
-export interface ImportProblem {
-  row: number;
-  column: string;
-  message: string;
-}
 
 export interface DatasetOptions {
   /** Missing-value codes of this dataset; blank cells are always missing. */
@@ -41,69 +55,6 @@ export interface DatasetOptions {
   decimalMark?: DecimalMark;
   /** Problems listed one by one (default DEFAULT_MAX_PROBLEMS). */
   maxProblems?: number;
-}
-
-export type NumericRole = 'item' | 'criterion' | 'duration';
-
-export interface EncodedNumericColumn {
-  name: string;
-  role: NumericRole;
-  itemCode?: string;
-  encoded: EncodedColumn;
-  /** Cells read as missing (blank, a missing-value code, or text that is not a number). */
-  missing: number;
-}
-
-export interface NumericColumn {
-  name: string;
-  role: NumericRole;
-  itemCode?: string;
-  /** One value per respondent; NaN marks a missing value and is never shown as such. */
-  values: Float64Array;
-  missing: number;
-}
-
-export interface TextColumn {
-  name: string;
-  values: string[];
-}
-
-export type AttentionOutcome = 'pass' | 'fail' | 'missing';
-
-export interface AttentionColumn {
-  name: string;
-  correctAnswer: string;
-  outcomes: AttentionOutcome[];
-}
-
-interface DatasetBase {
-  n: number;
-  /** Respondent ids; `row N` when the file has no id column or the cell is blank. */
-  ids: string[];
-  /** File row of each respondent (header = row 1). */
-  rowNumbers: number[];
-  idColumn?: string;
-  groups: TextColumn[];
-  retestLinks?: TextColumn;
-  attention: AttentionColumn[];
-  decimalMark: DecimalMark;
-  missingCodes: MissingCodes;
-  scaleBounds?: { min: number; max: number };
-  /** The first `maxProblems` problems, in file order. */
-  problems: ImportProblem[];
-  /** All problems, listed or not. */
-  problemCount: number;
-  warnings: string[];
-}
-
-/** A dataset whose numeric columns are in the compact layout: what storage writes, column by column. */
-export interface EncodedDataset extends DatasetBase {
-  columns: EncodedNumericColumn[];
-}
-
-/** A dataset with numeric columns as doubles, ready for the engine. */
-export interface Dataset extends DatasetBase {
-  columns: NumericColumn[];
 }
 
 /** Checks declared scale bounds; throws TableError when only one is given or min is not below max. */

@@ -4,7 +4,9 @@
  * with a decimal comma); "0x10", "Infinity", "1 000", "3 points" and thousands separators are not.
  */
 
-export type DecimalMark = '.' | ',';
+import type { DecimalMark, MissingCodes } from '../engine/dataset.ts';
+
+export type { DecimalMark, MissingCodes } from '../engine/dataset.ts';
 
 /** Digit strings up to this length are read as whole numbers exactly (below 2⁵³) without a regex. */
 const MAX_FAST_DIGITS = 15;
@@ -102,13 +104,6 @@ export function losesPrecision(text: string, value: number): boolean {
 /** The warning for a whole number that lost precision, naming its cell. */
 export function precisionWarning(where: string, text: string, value: number, more: number): string {
   return `${where}: ${text.trim()} cannot be held exactly and is read as ${BigInt(value)} (whole numbers above 2^53 = 9007199254740992 are rounded)${more > 0 ? `; so are ${more} more cell(s)` : ''}`;
-}
-
-export interface MissingCodes {
-  /** Text codes, compared trimmed and without regard to letter case ("NA", "n/a", "."). */
-  text: string[];
-  /** Numeric codes, compared as numbers after parsing (so "-99" and "-99.0" both match -99). */
-  numeric: number[];
 }
 
 /** Blank cells are always missing; no other code is assumed unless declared for the dataset. */

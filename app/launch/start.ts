@@ -3,7 +3,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { parseArgs } from 'node:util';
 import { Session } from '../api/session.ts';
-import { DEMO_TITLE, fillDemoStudy } from '../demo/index.ts';
+import { DEMO_TITLE, type DemoStage, fillDemoStudy } from '../demo/index.ts';
 import { Study } from '../../db/study.ts';
 import { startBrowserServer } from '../web/server.ts';
 import { ensureRendererBuilt, PROJECT_ROOT, RENDERER_DIST } from './renderer-build.ts';
@@ -40,6 +40,14 @@ async function main(): Promise<void> {
   await serveBrowser(studyPath, values.port === undefined ? DEFAULT_PORT : Number(values.port));
 }
 
+/**
+ * How far a new demo study is worked: every phase, unless SCALEWRIGHT_DEMO_THROUGH=purification asks
+ * for the demo with purification left open (for trying rounds; the browser tests use it).
+ */
+function demoStage(): DemoStage {
+  return process.env.SCALEWRIGHT_DEMO_THROUGH === 'purification' ? 'purification' : 'validity';
+}
+
 function ensureDemoStudy(): string {
   const file = demoStudyPath();
   if (!fs.existsSync(file)) {
@@ -47,7 +55,7 @@ function ensureDemoStudy(): string {
     Study.create(
       file,
       { actor: currentActor(), app: 'Scalewright' },
-      { title: DEMO_TITLE, init: fillDemoStudy },
+      { title: DEMO_TITLE, init: (study) => fillDemoStudy(study, demoStage()) },
     ).close();
   }
   return file;

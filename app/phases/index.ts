@@ -6,13 +6,14 @@ import {
   type PhaseStatus,
 } from '../../db/repos/phase-state.ts';
 import type { Study } from '../../db/study.ts';
-import { constructRules } from './construct.ts';
-import { itemsRules } from './items.ts';
-import { pilotRules } from './pilot.ts';
+import { appendixRules } from './appendix/rules.ts';
+import { constructRules } from './construct/index.ts';
+import { itemsRules } from './items/index.ts';
+import { pilotRules } from './pilot/index.ts';
 import { purificationRules } from './purification/index.ts';
-import { reviewRules } from './review.ts';
+import { reviewRules } from './review/index.ts';
+import { validityRules } from './validity/index.ts';
 import { RuleError } from './errors.ts';
-import { phaseNotYetAvailable } from './later.ts';
 import { REOPENED, SIGNED_OFF, type SignOffReview, signOffReview } from './stale.ts';
 import { PHASE_TITLES } from './titles.ts';
 import type { ChecklistItem, PhaseRules } from './types.ts';
@@ -26,8 +27,8 @@ export const PHASE_RULES: Record<PhaseId, PhaseRules> = {
   review: reviewRules,
   pilot: pilotRules,
   purification: purificationRules,
-  validity: phaseNotYetAvailable('validity', 'Gather validity evidence on the retained items.'),
-  appendix: phaseNotYetAvailable('appendix', 'Render the methods appendix from the study file.'),
+  validity: validityRules,
+  appendix: appendixRules,
 };
 
 export interface PhaseOverview {

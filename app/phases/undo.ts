@@ -4,7 +4,7 @@ import { listDecisions } from '../../db/repos/purification.ts';
 import type { Study } from '../../db/study.ts';
 import { requireOpen } from './change.ts';
 import { RuleError } from './errors.ts';
-import { includeRespondents } from './pilot.ts';
+import { includeRespondents } from './pilot/index.ts';
 import { reverseDecision } from './purification/index.ts';
 
 /**

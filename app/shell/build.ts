@@ -4,8 +4,8 @@ import { build } from 'esbuild';
 
 /**
  * Bundles the desktop shell for Electron: main process and preload as CommonJS (a sandboxed
- * preload cannot be an ES module). better-sqlite3 (a native addon) and pdfkit (which reads data files
- * beside its own modules) stay external.
+ * preload cannot be an ES module). better-sqlite3 stays external: it is a native addon; so do pdfkit
+ * (it reads its data files beside its own module) and docx, loaded from node_modules at run time.
  */
 const here = path.dirname(fileURLToPath(import.meta.url));
 const common = {
@@ -15,7 +15,7 @@ const common = {
   target: 'node22',
   sourcemap: true,
   logLevel: 'warning' as const,
-  external: ['electron', 'better-sqlite3', 'pdfkit'],
+  external: ['electron', 'better-sqlite3', 'pdfkit', 'docx'],
   // Modules that find files next to themselves use import.meta.url; give the CommonJS bundle one.
   define: { 'import.meta.url': 'importMetaUrl' },
   banner: { js: "const importMetaUrl = require('node:url').pathToFileURL(__filename).href;" },

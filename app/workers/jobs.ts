@@ -13,7 +13,9 @@ import {
   type ItemAnalysis,
   type ItemAnalysisInput,
 } from '../engine/reliability.ts';
-import { readDataFileJob } from '../phases/pilot-read.ts';
+import { readDataFileJob } from '../import/read-data-file.ts';
+import type { JobContext } from './job-context.ts';
+import { cfaJob, invarianceJob } from './validity.ts';
 
 type AnalysisJobInput = Omit<ItemAnalysisInput, 'bootstrap'> & {
   bootstrap?: { resamples: number; seed: number };
@@ -35,12 +37,7 @@ export interface RoundJobOutput {
   factorRefused?: string | null;
 }
 
-/** What a job may do while it runs: report progress, and ask whether it should stop. */
-export interface JobContext {
-  /** `note` says in words what is being counted, for the progress bar. */
-  progress(done: number, total: number, note?: string): void;
-  shouldStop(): boolean;
-}
+export type { JobContext } from './job-context.ts';
 
 /**
  * Every long computation that runs off the main thread, by name. A job is a pure engine call on
@@ -120,6 +117,10 @@ export const JOBS = {
       onProgress: (done, total) => ctx.progress(done, total),
       shouldStop: () => ctx.shouldStop(),
     }),
+  /** A confirmatory factor analysis with composite reliability, AVE and HTMT (validity phase). */
+  'validity.cfa': cfaJob,
+  /** Configural, metric and scalar models across groups (validity phase). */
+  'validity.invariance': invarianceJob,
   /** Reads and checks a data file for import (parse, validate, compact columns); nothing is stored. */
   'import.read': readDataFileJob,
 } satisfies Record<string, (input: never, ctx: JobContext) => unknown>;

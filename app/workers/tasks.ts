@@ -1,6 +1,7 @@
 import crypto from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
+import { fileURLToPath } from 'node:url';
 import { Worker } from 'node:worker_threads';
 import { EngineError } from '../engine/errors.ts';
 import type { JobInput, JobName, JobOutput } from './jobs.ts';
@@ -19,12 +20,16 @@ export interface TaskStatus {
 }
 
 /**
- * Where the worker's code is: next to this file as TypeScript when run from source (tsx, tests),
- * or as the bundled worker.cjs beside the Electron main bundle.
+ * Where the worker's code is: the bundled worker.cjs beside the Electron main bundle, the bundled
+ * worker.mjs beside the command line's bundle, or next to this file as TypeScript when run from
+ * source (tsx, tests).
  */
 function workerEntry(): string | URL {
   const bundled = typeof __dirname === 'string' ? path.join(__dirname, 'worker.cjs') : '';
   if (bundled && fs.existsSync(bundled)) return bundled;
+  // The command line's bundle (app/cli/dist/main.mjs) has its worker bundled beside it.
+  const beside = new URL('./worker.mjs', import.meta.url);
+  if (beside.protocol === 'file:' && fs.existsSync(fileURLToPath(beside))) return beside;
   return new URL('./worker-from-source.mjs', import.meta.url);
 }
 
@@ -62,7 +67,8 @@ export class TaskRunner {
           if (message.type === 'progress') {
             status.done = message.done ?? 0;
             status.total = message.total ?? 0;
-            status.note = message.note;
+            if (message.note === undefined) delete status.note;
+            else status.note = message.note;
           } else if (message.type === 'done') {
             status.state = 'done';
             status.done = status.total;
@@ -70,7 +76,7 @@ export class TaskRunner {
           } else if (message.type === 'failed') {
             const cancelled = message.error?.code === 'cancelled';
             status.state = cancelled ? 'cancelled' : 'failed';
-            status.error = message.error?.message;
+            status.error = message.error?.message ?? 'the job failed';
             reject(new EngineError(message.error?.message ?? 'the job failed', message.error?.code));
           }
         },

@@ -5,6 +5,7 @@ import { migration0004 } from './0004-purification.ts';
 import { migration0005 } from './0005-content-digests.ts';
 import { migration0006 } from './0006-dataset-choice.ts';
 import { migration0007 } from './0007-score-use.ts';
+import { migration0008 } from './0008-validity.ts';
 import type { Migration } from './types.ts';
 
 /** Every migration, in order. A new one is a new numbered file appended here (see DEVELOPERS.md). */
@@ -16,6 +17,7 @@ export const MIGRATIONS: readonly Migration[] = [
   migration0005,
   migration0006,
   migration0007,
+  migration0008,
 ];
 
 for (let i = 0; i < MIGRATIONS.length; i++) {

@@ -1,5 +1,5 @@
 import { columnFromBytes, columnToBytes } from '../../app/engine/columnar.ts';
-import type { EncodedDataset, EncodedNumericColumn } from '../../app/import/dataset.ts';
+import type { EncodedDataset, EncodedNumericColumn } from '../../app/engine/dataset.ts';
 import type { Study } from '../study.ts';
 
 export type DatasetRole = 'pilot' | 'validation' | 'retest';

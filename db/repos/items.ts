@@ -11,6 +11,25 @@ export type ItemSource = (typeof ITEM_SOURCES)[number];
 export const ITEM_STATES = ['draft', 'kept', 'retired'] as const;
 export type ItemState = (typeof ITEM_STATES)[number];
 
+/** Longest item wording accepted (characters); the wording checks flag long items well before this. */
+export const MAX_ITEM_TEXT = 600;
+
+/** Item codes: a letter or digit, then up to 19 letters, digits, dots, dashes or underscores. */
+export const ITEM_CODE_PATTERN = /^[A-Za-z0-9][A-Za-z0-9._-]{0,19}$/;
+
+/** Largest item-pool file read in one import (a pool of a few hundred items is a few kilobytes). */
+export const MAX_ITEM_FILE_BYTES = 2 * 1024 * 1024;
+
+/** Most items one import may bring in (a larger pool is split over several files). */
+export const MAX_IMPORT_ITEMS = 500;
+
+export const SOURCE_LABEL: Record<ItemSource, string> = {
+  literature: 'literature',
+  interviews: 'interviews',
+  'expert-suggestion': 'expert suggestion',
+  'own-drafting': 'own drafting',
+};
+
 export const REVISION_REASONS = ['drafted', 'edited', 'imported', 'revised-after-review'] as const;
 export type RevisionReason = (typeof REVISION_REASONS)[number];
 

@@ -1,5 +1,5 @@
 import { useCallback, useEffect, useMemo, useState } from 'react';
-import { PHASE_IDS, type PhaseId } from '../../db/repos/phase-state.ts';
+import { PHASE_IDS, type PhaseId } from '../../app/api/contracts/phases.ts';
 import { DecisionLogScreen } from '../phases/log/DecisionLogScreen.tsx';
 import { OverviewScreen } from '../phases/overview/OverviewScreen.tsx';
 import { ErrorNote, phaseState } from '../shared/components.tsx';

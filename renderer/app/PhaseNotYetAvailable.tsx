@@ -1,4 +1,4 @@
-import type { PhaseId } from '../../db/repos/phase-state.ts';
+import type { PhaseId } from '../../app/api/contracts/phases.ts';
 import { Checklist } from '../shared/components.tsx';
 import { useQuery } from '../shared/use-command.ts';
 

@@ -1,7 +1,7 @@
 import { useCallback, useEffect, useState } from 'react';
 import type { CommandOutput } from '../../app/api/commands.ts';
-import { PHASE_TITLES } from '../../app/phases/titles.ts';
-import type { PhaseId } from '../../db/repos/phase-state.ts';
+import { PHASE_TITLES } from '../../app/api/contracts/phases.ts';
+import type { PhaseId } from '../../app/api/contracts/phases.ts';
 import { call } from '../api/client.ts';
 import { ErrorNote } from '../shared/components.tsx';
 import { useMutation } from '../shared/use-command.ts';

@@ -1,7 +1,7 @@
 import { type ReactNode, useEffect, useRef, useState } from 'react';
-import type { PhaseOverview } from '../../app/phases/index.ts';
-import type { ChecklistItem } from '../../app/phases/types.ts';
-import type { PhaseStatus } from '../../db/repos/phase-state.ts';
+import type { PhaseOverview } from '../../app/api/contracts/phases.ts';
+import type { ChecklistItem } from '../../app/api/contracts/phases.ts';
+import type { PhaseStatus } from '../../app/api/contracts/phases.ts';
 
 /** What a phase shows: its state, or "needs review" for a sign-off that earlier changes overtook. */
 export type PhaseState = PhaseStatus | 'needs-review';

@@ -1,5 +1,5 @@
 import { bounded } from '../../app/api/format.ts';
-import type { ReliabilityCriterion } from '../../app/engine/reliability/criterion.ts';
+import type { ReliabilityCriterion } from '../../app/api/contracts/purification.ts';
 
 /** "criterion .80 for basic research", the short name of a study's reliability criterion. */
 export function criterionName(criterion: ReliabilityCriterion): string {

@@ -1,4 +1,4 @@
-import type { SignOffReview } from '../../app/phases/index.ts';
+import type { SignOffReview } from '../../app/api/contracts/phases.ts';
 import { formatTime } from './components.tsx';
 import { plural } from '../../app/api/format.ts';
 

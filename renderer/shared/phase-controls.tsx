@@ -1,5 +1,5 @@
 import { useState } from 'react';
-import type { PhaseOverview } from '../../app/phases/index.ts';
+import type { PhaseOverview } from '../../app/api/contracts/phases.ts';
 import { Checklist, ErrorNote, Panel, phaseState, StatusBadge } from './components.tsx';
 import { NeedsReview } from './needs-review.tsx';
 import { useMutation } from './use-command.ts';

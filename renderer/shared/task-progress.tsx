@@ -1,6 +1,6 @@
 import { count } from '../../app/api/format.ts';
 import { useEffect, useState } from 'react';
-import type { TaskStatus } from '../../app/workers/tasks.ts';
+import type { TaskStatus } from '../../app/api/contracts/tasks.ts';
 import { call } from '../api/client.ts';
 
 const POLL_MS = 150;

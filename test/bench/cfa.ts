@@ -14,6 +14,7 @@ import { fitCfa } from '../../app/engine/cfa/fit.ts';
 import { measurementInvariance } from '../../app/engine/cfa/invariance.ts';
 import { type CfaModel, sampleMoments } from '../../app/engine/cfa/model.ts';
 import { createRng } from '../../app/engine/rng.ts';
+import { cfaJob, invarianceJob } from '../../app/workers/validity.ts';
 
 const CFA_TARGET_MS = 1000;
 const INVARIANCE_TARGET_MS = 3000;
@@ -94,6 +95,33 @@ line(
   'invariance (configural, metric, scalar), 2 × 2,000 × 40',
   best(() => {
     measurementInvariance(model, [sampleMoments('one', items, one), sampleMoments('two', items, other)]);
+  }),
+  INVARIANCE_TARGET_MS,
+);
+
+// What the validity phase runs in its worker: the same fits plus construct reliability, HTMT and,
+// for invariance, the constraints to consider freeing.
+line(
+  'validity phase CFA job, 2,000 × 40',
+  best(() => {
+    cfaJob({ model, items, rows: one }, { progress: () => {}, shouldStop: () => false });
+  }),
+  CFA_TARGET_MS,
+);
+line(
+  'validity phase invariance job, 2 × 2,000 × 40',
+  best(() => {
+    invarianceJob(
+      {
+        model,
+        items,
+        groups: [
+          { name: 'one', rows: one },
+          { name: 'two', rows: other },
+        ],
+      },
+      { progress: () => {}, shouldStop: () => false },
+    );
   }),
   INVARIANCE_TARGET_MS,
 );

@@ -10,15 +10,14 @@
  *
  *     npx tsx test/bench/cli.ts [respondents]
  */
-import { spawnSync } from 'node:child_process';
-import { copyFileSync, mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { copyFileSync, mkdirSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { performance } from 'node:perf_hooks';
 import { fileURLToPath } from 'node:url';
 import { DEMO_ITEMS } from '../../app/demo/items.ts';
-import { READ_CHUNK_BYTES } from '../../app/phases/pilot-read.ts';
+import { READ_CHUNK_BYTES } from '../../app/import/read-data-file.ts';
 import { median, writeBenchCsv } from './import-baseline.ts';
+import { machineLine, type Timed, timed } from './process-time.ts';
 
 const ROOT = fileURLToPath(new URL('../../', import.meta.url));
 const RESPONDENTS = Number(process.argv[2] ?? 100_000);
@@ -26,37 +25,6 @@ const RESPONDENTS = Number(process.argv[2] ?? 100_000);
 const ITEMS = 29;
 const REPEATS = 5;
 const TIME_TARGET = 1.2;
-
-interface Timed {
-  wallMs: number;
-  cpuMs: number;
-}
-
-/** Runs a command to completion: wall time, and the CPU time of its whole process tree. */
-function timed(command: string, args: string[], cwd: string): Timed {
-  const cpuBefore = childrenCpuMs();
-  const started = performance.now();
-  const result = spawnSync(command, args, { cwd, encoding: 'utf8', env: { ...process.env, INIT_CWD: cwd } });
-  const wallMs = performance.now() - started;
-  if (result.status !== 0) {
-    throw new Error(`${command} ${args.join(' ')} exited ${result.status}: ${result.stderr.slice(0, 400)}`);
-  }
-  return { wallMs, cpuMs: childrenCpuMs() - cpuBefore };
-}
-
-/**
- * CPU milliseconds (user + system) of this process's finished children and theirs: fields cutime and
- * cstime of /proc/self/stat, in clock ticks of 10 ms (Linux). NaN elsewhere.
- */
-function childrenCpuMs(): number {
-  try {
-    const stat = readFileSync('/proc/self/stat', 'utf8');
-    const fields = stat.slice(stat.lastIndexOf(')') + 2).split(' ');
-    return (Number(fields[13]) + Number(fields[14])) * 10;
-  } catch {
-    return Number.NaN;
-  }
-}
 
 const PAPA_ONLY = `
 import { createReadStream } from 'node:fs';
@@ -71,6 +39,7 @@ Papa.parse(createReadStream(process.argv[2], { encoding: 'utf8', highWaterMark: 
 `;
 
 function main(): void {
+  console.log(machineLine());
   const dir = mkdtempSync(join(tmpdir(), 'scalewright-cli-bench-'));
   try {
     const csv = join(dir, 'responses.csv');
@@ -157,6 +126,13 @@ function main(): void {
     );
     console.log(
       `ratio, wall: ${(wall(imports) / wall(papas)).toFixed(2)}×, CPU: ${(cpu(imports) / cpu(papas)).toFixed(2)}× (target ≤ ${TIME_TARGET}× wall)`,
+    );
+    // Each side less its fixed start (npm and the bundle; a bare node): what the work itself costs.
+    const work = cpu(imports) - cpu(helps);
+    const papaWork = cpu(papas) - cpu(bares);
+    console.log(
+      `beyond the fixed start, CPU: import ${work.toFixed(0)} ms, papaparse ${papaWork.toFixed(0)} ms ` +
+        `(${(work / papaWork).toFixed(2)}×)`,
     );
   } finally {
     rmSync(dir, { recursive: true, force: true });

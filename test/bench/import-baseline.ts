@@ -6,7 +6,7 @@
 import { createReadStream, readFileSync, writeFileSync } from 'node:fs';
 import { performance } from 'node:perf_hooks';
 import Papa from 'papaparse';
-import { READ_CHUNK_BYTES } from '../../app/phases/pilot-read.ts';
+import { READ_CHUNK_BYTES } from '../../app/import/read-data-file.ts';
 
 /** Fixed seed of the linear congruential generator that fills the file (bench data only). */
 const DATA_SEED = 20261201;

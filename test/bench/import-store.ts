@@ -17,10 +17,10 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { performance } from 'node:perf_hooks';
 import { median, papaStream, papaString, writeBenchCsv } from './import-baseline.ts';
-import { addFacet } from '../../app/phases/construct.ts';
-import { addItem } from '../../app/phases/items.ts';
-import { automaticMapping, planImport, storeImport } from '../../app/phases/pilot.ts';
-import { readDataFile } from '../../app/phases/pilot-read.ts';
+import { addFacet } from '../../app/phases/construct/index.ts';
+import { addItem } from '../../app/phases/items/index.ts';
+import { automaticMapping, planImport, storeImport } from '../../app/phases/pilot/index.ts';
+import { readDataFile } from '../../app/import/read-data-file.ts';
 import { Study } from '../../db/study.ts';
 
 const RESPONDENTS = Number(process.argv[2] ?? 100_000);

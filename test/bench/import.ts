@@ -21,7 +21,7 @@ import { performance } from 'node:perf_hooks';
 import { median, papaStream, papaString, writeBenchCsv } from './import-baseline.ts';
 import type { ColumnMapping } from '../../app/import/mapping.ts';
 import { isPlainText, streamDataset } from '../../app/import/stream-dataset.ts';
-import { READ_CHUNK_BYTES } from '../../app/phases/pilot-read.ts';
+import { READ_CHUNK_BYTES } from '../../app/import/read-data-file.ts';
 
 const RESPONDENTS = Number(process.argv[2] ?? 100_000);
 const ITEMS = Number(process.argv[3] ?? 60);

@@ -9,8 +9,8 @@ import { fileURLToPath } from 'node:url';
 
 const here = path.dirname(fileURLToPath(import.meta.url));
 const tsx = path.join(here, '..', '..', 'node_modules', 'tsx', 'dist', 'cli.mjs');
-/** Files here that are not benchmarks: this runner and what the import benchmarks share. */
-const SHARED = new Set(['run.ts', 'import-baseline.ts']);
+/** Files here that are not benchmarks: this runner and what the benchmarks share. */
+const SHARED = new Set(['run.ts', 'import-baseline.ts', 'process-time.ts']);
 const only = process.argv[2];
 const benches = fs
   .readdirSync(here)

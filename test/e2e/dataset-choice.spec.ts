@@ -3,6 +3,9 @@ import path from 'node:path';
 import { generateDemoPilot } from '../../app/demo/pilot.ts';
 import { expect, SCREENSHOTS, test } from './fixtures.ts';
 
+// The demo up to purification, which it leaves open.
+test.use({ demoThrough: 'purification' });
+
 const SPRING = 'Pilot survey, spring (demo)';
 const LATE = 'Late returns';
 

@@ -4,6 +4,9 @@ import { expect, SCREENSHOTS, test } from './fixtures.ts';
 /** The demo's planted cross-loading item (app/demo/pilot.ts): a repairs item that also draws on route finding. */
 const CROSS = 'RR07';
 
+// The test restores the dropped item and runs another round: purification must still be open.
+test.use({ demoThrough: 'purification' });
+
 test('the factor analysis of a round shows the scree plot and loadings, flags the planted cross-loading item, and it is dropped with reasons', async ({
   page,
   app,

@@ -16,11 +16,12 @@ export interface AppUnderTest {
 
 /**
  * Starts the app the way `npm start` does, forced into browser mode, with its own data folder
- * (so the demo study is created fresh), and stops it after the test.
+ * (so the demo study is created fresh, worked as far as `demoThrough` says), and stops it after the test.
  */
-export const test = base.extend<{ app: AppUnderTest }>({
-  // biome-ignore lint/correctness/noEmptyPattern: Playwright's fixture signature
-  app: async ({}, use) => {
+export const test = base.extend<{ app: AppUnderTest; demoThrough: 'purification' | 'validity' }>({
+  /** How far the demo is worked (see fillDemoStudy): `purification` leaves purification open. */
+  demoThrough: ['validity', { option: true }],
+  app: async ({ demoThrough }, use) => {
     const dataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'scalewright-e2e-'));
     const child: ChildProcess = spawn(
       process.execPath,
@@ -33,7 +34,12 @@ export const test = base.extend<{ app: AppUnderTest }>({
       ],
       {
         cwd: ROOT,
-        env: { ...process.env, SCALEWRIGHT_DATA_DIR: dataDir, SCALEWRIGHT_NAME: 'E2E Researcher' },
+        env: {
+          ...process.env,
+          SCALEWRIGHT_DATA_DIR: dataDir,
+          SCALEWRIGHT_NAME: 'E2E Researcher',
+          SCALEWRIGHT_DEMO_THROUGH: demoThrough,
+        },
       },
     );
     let output = '';

@@ -1,6 +1,9 @@
 import path from 'node:path';
 import { expect, SCREENSHOTS, test } from './fixtures.ts';
 
+// The demo up to purification, which it leaves open.
+test.use({ demoThrough: 'purification' });
+
 const shot = (name: string) => path.join(SCREENSHOTS, `stale-signoff-${name}.png`);
 
 test('a facet added to the signed-off construct puts the later phases up for review until each is confirmed or reopened', async ({

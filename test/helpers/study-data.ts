@@ -8,7 +8,10 @@ import {
   insertDatasetChoice,
 } from '../../db/repos/datasets.ts';
 import { insertItem } from '../../db/repos/items.ts';
-import type { Study } from '../../db/study.ts';
+import { Study } from '../../db/study.ts';
+import { addFacet } from '../../app/phases/construct/index.ts';
+import { addItem } from '../../app/phases/items/index.ts';
+import { TEST_ACTOR } from './tmp.ts';
 
 async function* once(bytes: Uint8Array) {
   yield bytes;
@@ -105,4 +108,21 @@ export function insertFixturePool(
       );
     }
   });
+}
+
+/** A new study at `file` with one facet and a forward-keyed draft item for each code: the pool an import maps to. */
+export function createStudyWithPool(file: string, codes: readonly string[]): Study {
+  const study = Study.create(file, { actor: TEST_ACTOR, app: 'test' });
+  const facet = addFacet(study, 'Test facet', '');
+  for (const code of codes) {
+    addItem(study, {
+      code,
+      text: `Test wording of item ${code}`,
+      facetId: facet,
+      keying: 'forward',
+      sourceType: 'own-drafting',
+      sourceNote: '',
+    });
+  }
+  return study;
 }

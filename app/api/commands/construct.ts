@@ -12,7 +12,7 @@ import {
   updateConstructText,
   updateResponseFormat,
   updateScoreUse,
-} from '../../phases/construct.ts';
+} from '../../phases/construct/index.ts';
 import { SCORE_USES } from '../../engine/reliability/criterion.ts';
 import { command } from '../define.ts';
 import { id, rationale, text } from './schemas.ts';

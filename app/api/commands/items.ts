@@ -14,7 +14,7 @@ import {
   MAX_ITEM_TEXT,
   previewItemImport,
   rewordItem,
-} from '../../phases/items.ts';
+} from '../../phases/items/index.ts';
 import { command } from '../define.ts';
 import { id, text } from './schemas.ts';
 

@@ -1,6 +1,5 @@
 import crypto from 'node:crypto';
 import { z } from 'zod';
-import { EngineError } from '../../engine/errors.ts';
 import {
   DATASET_ROLES,
   type DataFilePreview,
@@ -24,10 +23,11 @@ import {
   storeImport,
   makeDatasetCurrent,
   withdrawDataset,
-} from '../../phases/pilot.ts';
-import type { ImportRead, ReadSettings } from '../../phases/pilot-read.ts';
+} from '../../phases/pilot/index.ts';
+import type { ImportRead, ReadSettings } from '../../import/read-data-file.ts';
 import { RuleError } from '../../phases/errors.ts';
 import { command } from '../define.ts';
+import { LongJob } from '../long-job.ts';
 import type { Session } from '../session.ts';
 import { fileBytes, uploadedFile } from './items.ts';
 import { id, text } from './schemas.ts';
@@ -42,13 +42,17 @@ interface Staged {
   studyPath: string;
   fileName: string;
   bytes: Uint8Array;
-  /** Reads started in a worker, by task id. */
-  reading: Map<string, ImportPlan>;
   /** The last read, checked and waiting to be confirmed. */
   checked?: { id: string; plan: ImportPlan; read: ImportRead };
 }
 
 const staging = new WeakMap<Session, Staged>();
+
+/** Whole-file reads run in a worker; each remembers the file it reads and the confirmed plan. */
+const reads = new LongJob<'import.read', { stageId: string; plan: ImportPlan }>('import.read', {
+  notFound: (taskId) => `no file is being read as task ${taskId}`,
+  refused: ['file'],
+});
 
 function stagedFile(session: Session, stageId: string): Staged {
   const staged = staging.get(session);
@@ -124,7 +128,6 @@ export const pilotCommands = {
         studyPath: s.study.path,
         fileName: input.fileName,
         bytes,
-        reading: new Map(),
       };
       staging.set(s, staged);
       return { stageId: staged.id, preview };
@@ -157,32 +160,24 @@ export const pilotCommands = {
         missingCodes: input.missingCodes,
         reading: settings(input.reading),
       });
-      const task = s.tasks.start('import.read', readJobInput(read));
-      staged.reading.set(task.id, plan);
+      const taskId = reads.start(s, readJobInput(read), { stageId: staged.id, plan });
       staged.checked = undefined;
-      return { taskId: task.id, bytes: staged.bytes.length };
+      return { taskId, bytes: staged.bytes.length };
     },
   ),
 
   /** Waits for a started read and returns its check (counts, columns, problems by row and column). */
-  'pilot.collectRead': command(z.object({ taskId: text(64) }), async (s, input): Promise<ReadCheck> => {
-    const staged = staging.get(s);
-    const plan = staged?.reading.get(input.taskId);
-    if (!staged || !plan) throw new RuleError(`no file is being read as task ${input.taskId}`, 'not-found');
-    try {
-      const read = (await s.tasks.result(input.taskId)) as ImportRead;
+  'pilot.collectRead': command(z.object({ taskId: text(64) }), (s, input) =>
+    reads.collect(s, input.taskId, (read, { stageId, plan }): ReadCheck => {
+      const staged = staging.get(s);
+      if (staged?.id !== stageId) {
+        throw new RuleError(`no file is being read as task ${input.taskId}`, 'not-found');
+      }
       const readId = crypto.randomUUID();
       staged.checked = { id: readId, plan, read };
       return { ...checkRead(s.study, plan, read), readId };
-    } catch (error) {
-      if (error instanceof EngineError && (error.code === 'cancelled' || error.code === 'file')) {
-        throw new RuleError(error.message, error.code);
-      }
-      throw error;
-    } finally {
-      staged.reading.delete(input.taskId);
-    }
-  }),
+    }),
+  ),
 
   /** Stores the checked read in one transaction with its log row. */
   'pilot.confirmImport': command(
@@ -216,7 +211,9 @@ export const pilotCommands = {
   /** Forgets the held file and any read of it; the study is not touched. */
   'pilot.discard': command(z.object({}), (s) => {
     const staged = staging.get(s);
-    if (staged) for (const taskId of staged.reading.keys()) s.tasks.cancel(taskId);
+    if (staged) {
+      for (const [taskId, read] of reads.running(s)) if (read.stageId === staged.id) reads.abandon(s, taskId);
+    }
     staging.delete(s);
     return { discarded: staged !== undefined };
   }),

@@ -1,6 +1,4 @@
 import { z } from 'zod';
-import { EngineError } from '../../engine/errors.ts';
-import { RuleError } from '../../phases/errors.ts';
 import {
   decideItem,
   decideItems,
@@ -20,22 +18,15 @@ import {
   roundDetail,
   storeRound,
 } from '../../phases/purification/index.ts';
-import type { RoundJobOutput } from '../../workers/jobs.ts';
 import { command } from '../define.ts';
-import type { Session } from '../session.ts';
+import { LongJob } from '../long-job.ts';
 import { id, text } from './schemas.ts';
 
-/** Rounds started in a worker and not yet collected, per session, by task id. */
-const running = new WeakMap<Session, Map<string, PreparedRound>>();
-
-function runningOf(session: Session): Map<string, PreparedRound> {
-  let map = running.get(session);
-  if (!map) {
-    map = new Map();
-    running.set(session, map);
-  }
-  return map;
-}
+/** Purification rounds run in a worker; each remembers the round it prepared until it is collected. */
+const rounds = new LongJob<'purification.round', PreparedRound>('purification.round', {
+  notFound: (taskId) => `no purification round is running as task ${taskId}`,
+  cancelled: (prepared) => `round ${prepared.number} was cancelled; nothing was stored`,
+});
 
 const roundOptions = z.object({
   missing: z.enum(['listwise', 'pairwise']).optional(),
@@ -70,7 +61,8 @@ export const purificationCommands = {
   'purification.view': command(z.object({}), (s) => ({
     ...purificationView(s.study),
     /** Rounds started and not yet collected (the screen picks them up again after a reload). */
-    running: [...runningOf(s).entries()]
+    running: rounds
+      .running(s)
       .filter(([, prepared]) => prepared.studyPath === s.study.path)
       .map(([taskId, prepared]) => ({ taskId, round: prepared.number })),
   })),
@@ -79,10 +71,9 @@ export const purificationCommands = {
   /** Starts the next round in a worker thread; follow it with task.status, then collect it. */
   'purification.startRound': command(roundOptions, (s, input) => {
     const prepared = prepareRound(s.study, input);
-    const task = s.tasks.start('purification.round', prepared.job);
-    runningOf(s).set(task.id, prepared);
+    const taskId = rounds.start(s, prepared.job, prepared);
     return {
-      taskId: task.id,
+      taskId,
       round: prepared.number,
       items: prepared.items.length,
       respondents: prepared.job.data.length,
@@ -90,23 +81,9 @@ export const purificationCommands = {
   }),
 
   /** Waits for a started round, stores it with its analysis run and log row, and returns it. */
-  'purification.collectRound': command(z.object({ taskId: text(64) }), async (s, input) => {
-    const map = runningOf(s);
-    const prepared = map.get(input.taskId);
-    if (!prepared)
-      throw new RuleError(`no purification round is running as task ${input.taskId}`, 'not-found');
-    try {
-      const result = (await s.tasks.result(input.taskId)) as RoundJobOutput;
-      return storeRound(s.study, prepared, result);
-    } catch (error) {
-      if (error instanceof EngineError && error.code === 'cancelled') {
-        throw new RuleError(`round ${prepared.number} was cancelled; nothing was stored`, 'cancelled');
-      }
-      throw error;
-    } finally {
-      map.delete(input.taskId);
-    }
-  }),
+  'purification.collectRound': command(z.object({ taskId: text(64) }), (s, input) =>
+    rounds.collect(s, input.taskId, (result, prepared) => storeRound(s.study, prepared, result)),
+  ),
 
   'purification.decide': command(
     z.object({

@@ -14,8 +14,8 @@ import {
   syncRoundItems,
   updateForm,
   withdrawRatings,
-} from '../../phases/review.ts';
-import { MAX_ITEM_TEXT } from '../../phases/items.ts';
+} from '../../phases/review/index.ts';
+import { MAX_ITEM_TEXT } from '../../phases/items/index.ts';
 import { command } from '../define.ts';
 import { fileBytes, uploadedFile } from './items.ts';
 import { id, rationale, text } from './schemas.ts';

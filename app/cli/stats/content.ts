@@ -14,7 +14,7 @@ import {
   describeProblem,
   type RatingsFile,
   readRatings,
-} from '../../import/ratings.ts';
+} from '../../import/ratings/index.ts';
 import { readUserFile } from '../files.ts';
 import { formatTable } from '../table.ts';
 import { DataError, type OptionValues, type StatsAnalysis, UsageError } from '../types.ts';

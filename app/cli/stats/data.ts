@@ -83,6 +83,9 @@ export interface LoadOptions {
   names?: { list: string[]; from: string };
 }
 
+/** Distinct cell texts whose reading is remembered (bounds the memory on a file of measurements). */
+const DISTINCT_CELLS_KEPT = 10_000;
+
 const NUMBER = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
 const DECIMAL_COMMA = /^[+-]?\d+,\d+$/;
 const DECIMAL_POINT = /^[+-]?\d+\.\d+$/;
@@ -239,41 +242,64 @@ export async function loadItemData(
   // One rule for the decimal mark, over the same rows, as the import of a data file into a study.
   const mark = chooseDecimalMark(table.rows, columns, decimalMarkOption(values), warnings);
   const other = mark === '.' ? DECIMAL_COMMA : DECIMAL_POINT;
-  const raw: ResponseMatrix = table.rows.map((row, r) =>
-    columns.map((c) => {
-      const cell = (row[c] ?? '').trim();
-      if (cell === '' || missingCodes.includes(cell)) return null;
-      const value = parseNumber(cell, mark);
-      if (value === undefined) {
-        const where = `${file}, row ${rowNumbers[r]}, ${columnLabel(c, table.header)}`;
-        if (other.test(cell)) {
-          throw new DataError(
-            `${where}: value "${cell}" uses the other decimal mark; this file is read with the decimal ` +
-              `${mark === '.' ? 'point' : 'comma'} (give --decimal-mark ${mark === '.' ? 'comma' : 'point'} if that is wrong)`,
-          );
-        }
+  /** Reads one cell; throws DataError naming file, row and column. */
+  const read = (
+    cellText: string | undefined,
+    r: number,
+    c: number,
+  ): { value: number | null; rounded: boolean } => {
+    const cell = (cellText ?? '').trim();
+    if (cell === '' || missingCodes.includes(cell)) return { value: null, rounded: false };
+    const value = parseNumber(cell, mark);
+    const where = () => `${file}, row ${rowNumbers[r]}, ${columnLabel(c, table.header)}`;
+    if (value === undefined) {
+      if (other.test(cell)) {
         throw new DataError(
-          `${where}: value "${cell}" is not a number ` +
-            '(leave the cell empty or list it in --missing-codes if it marks a missing answer)',
+          `${where()}: value "${cell}" uses the other decimal mark; this file is read with the decimal ` +
+            `${mark === '.' ? 'point' : 'comma'} (give --decimal-mark ${mark === '.' ? 'comma' : 'point'} if that is wrong)`,
         );
       }
-      const where = () => `${file}, row ${rowNumbers[r]}, ${columnLabel(c, table.header)}`;
-      const range = outOfRangeMessage(cell, value);
-      if (range !== undefined) throw new DataError(`${where()}: ${range}`);
-      if (losesPrecision(cell, value)) {
-        if (rounded === undefined) rounded = { where: where(), cell, value };
-        roundedCount++;
+      throw new DataError(
+        `${where()}: value "${cell}" is not a number ` +
+          '(leave the cell empty or list it in --missing-codes if it marks a missing answer)',
+      );
+    }
+    const range = outOfRangeMessage(cell, value);
+    if (range !== undefined) throw new DataError(`${where()}: ${range}`);
+    const roundedHere = losesPrecision(cell, value);
+    if (roundedHere && rounded === undefined) rounded = { where: where(), cell, value };
+    if (numericCodes.includes(value)) return { value: null, rounded: roundedHere };
+    if (bounds && (value < bounds.min || value > bounds.max)) {
+      throw new DataError(
+        `${where()}: value ${cell} lies outside the declared bounds ${bounds.min}–${bounds.max} ` +
+          '(--min/--max); list it in --missing-codes if it marks a missing answer',
+      );
+    }
+    return { value, rounded: roundedHere };
+  };
+  // What a cell reads as depends on its text alone, so each distinct text is read once (a Likert file
+  // holds a handful); its first occurrence, in row order, is the one a message or warning names.
+  const known = new Map<string | undefined, { value: number | null; rounded: boolean }>();
+  // One-character cells (a Likert answer) are looked up by their character code, without hashing.
+  const byCode: ({ value: number | null; rounded: boolean } | undefined)[] = new Array(128);
+  const raw: ResponseMatrix = new Array(table.rows.length);
+  for (let r = 0; r < table.rows.length; r++) {
+    const row = table.rows[r];
+    const values: (number | null)[] = new Array(columns.length);
+    for (let j = 0; j < columns.length; j++) {
+      const cellText = row[columns[j]];
+      const code = cellText !== undefined && cellText.length === 1 ? cellText.charCodeAt(0) : 128;
+      let got = code < 128 ? byCode[code] : known.get(cellText);
+      if (got === undefined) {
+        got = read(cellText, r, columns[j]);
+        if (code < 128) byCode[code] = got;
+        else if (known.size < DISTINCT_CELLS_KEPT) known.set(cellText, got);
       }
-      if (numericCodes.includes(value)) return null;
-      if (bounds && (value < bounds.min || value > bounds.max)) {
-        throw new DataError(
-          `${file}, row ${rowNumbers[r]}, ${columnLabel(c, table.header)}: value ${cell} lies outside the ` +
-            `declared bounds ${bounds.min}–${bounds.max} (--min/--max); list it in --missing-codes if it marks a missing answer`,
-        );
-      }
-      return value;
-    }),
-  );
+      if (got.rounded) roundedCount++;
+      values[j] = got.value;
+    }
+    raw[r] = values;
+  }
   if (rounded !== undefined)
     warnings.push(precisionWarning(rounded.where, rounded.cell, rounded.value, roundedCount - 1));
   if (mark === ',') warnings.push('read with the decimal comma (detected, or given with --decimal-mark)');

@@ -9,13 +9,19 @@ import {
 import { kmoLabel } from '../../engine/factor/factorability.ts';
 import type { CorrelationInput } from '../../engine/factor/input.ts';
 import { methodsField } from '../../engine/methods/index.ts';
-import { ENGINE_VERSION } from '../../engine/version.ts';
 import { simulateEigenvaluesInPool } from '../../workers/parallel-analysis.ts';
 import { TaskRunner } from '../../workers/tasks.ts';
 import { formatTable } from '../table.ts';
 import { type StatsAnalysis, UsageError } from '../types.ts';
 import { integerOption, type LoadedItems, loadItemData, numberOption, seedOption } from './data.ts';
-import { correlationKindOption, correlationsOf, cut, engineStep, factorSpec } from './factor-common.ts';
+import {
+  correlationKindOption,
+  correlationsOf,
+  cut,
+  engineStep,
+  factorSpec,
+  analysisHead,
+} from './factor-common.ts';
 
 /** Most replications `--iterations` accepts. */
 export const MAX_PA_ITERATIONS = 1_000_000;
@@ -40,19 +46,7 @@ function toJson(
 ) {
   const byItem = (values: number[]) => Object.fromEntries(loaded.names.map((name, i) => [name, values[i]]));
   return {
-    analysis: 'dimensionality',
-    engineVersion: ENGINE_VERSION,
-    data: { file: loaded.file, sha256: loaded.sha256, rows: loaded.rows },
-    inputs: {
-      items: loaded.names,
-      reverse: loaded.reverse,
-      bounds: loaded.bounds,
-      missing: loaded.missing,
-      missingCodes: loaded.missingCodes,
-      correlation: input.kind,
-      iterations,
-      percentile,
-    },
+    ...analysisHead('dimensionality', loaded, input, { iterations, percentile }),
     n: d.n,
     p: d.p,
     kmo: d.factorability.kmo,

@@ -9,7 +9,6 @@ import {
   type RotationMethod,
 } from '../../engine/factor/rotation.ts';
 import { methodsField } from '../../engine/methods/index.ts';
-import { ENGINE_VERSION } from '../../engine/version.ts';
 import { formatTable } from '../table.ts';
 import { type StatsAnalysis, UsageError } from '../types.ts';
 import { integerOption, type LoadedItems, loadItemData, numberOption, seedOption } from './data.ts';
@@ -22,6 +21,7 @@ import {
   engineStep,
   NAME_WIDTH,
   factorSpec,
+  analysisHead,
 } from './factor-common.ts';
 
 const EXTRACTIONS = ['paf', 'minres', 'ml'] as const;
@@ -52,18 +52,7 @@ function toJson(
 ) {
   const byItem = <T>(values: T[]) => Object.fromEntries(loaded.names.map((name, i) => [name, values[i]]));
   return {
-    analysis: 'efa',
-    engineVersion: ENGINE_VERSION,
-    data: { file: loaded.file, sha256: loaded.sha256, rows: loaded.rows },
-    inputs: {
-      items: loaded.names,
-      reverse: loaded.reverse,
-      bounds: loaded.bounds,
-      missing: loaded.missing,
-      missingCodes: loaded.missingCodes,
-      correlation: input.kind,
-      ...settings,
-    },
+    ...analysisHead('efa', loaded, input, settings),
     n: input.n,
     p: loaded.names.length,
     factors: r.factors,

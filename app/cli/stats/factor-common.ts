@@ -1,3 +1,4 @@
+import { ENGINE_VERSION } from '../../engine/version.ts';
 import { EngineError } from '../../engine/errors.ts';
 import { type CorrelationInput, type CorrelationKind, correlationInput } from '../../engine/factor/input.ts';
 import { DataError, type OptionValues, UsageError } from '../types.ts';
@@ -89,5 +90,28 @@ export function factorSpec(about: string, own: [string, string][]): { options: O
   return {
     options,
     notes: `${about}\n\nRules of thumb shown advise; the researcher decides. A new scale is not validated for diagnosis, hiring, admission or other high-stakes decisions about people.`,
+  };
+}
+
+/** The opening of a factor analysis's JSON output: the analysis, the engine, the data file and every input. */
+export function analysisHead(
+  analysis: string,
+  loaded: LoadedItems,
+  input: CorrelationInput,
+  settings: Record<string, unknown>,
+) {
+  return {
+    analysis,
+    engineVersion: ENGINE_VERSION,
+    data: { file: loaded.file, sha256: loaded.sha256, rows: loaded.rows },
+    inputs: {
+      items: loaded.names,
+      reverse: loaded.reverse,
+      bounds: loaded.bounds,
+      missing: loaded.missing,
+      missingCodes: loaded.missingCodes,
+      correlation: input.kind,
+      ...settings,
+    },
   };
 }

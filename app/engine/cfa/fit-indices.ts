@@ -41,7 +41,7 @@ function noncentralityFor(t: number, df: number, target: number): number {
 /**
  * RMSEA = √(G·max(T − df, 0)/(df·(N − G))) for G groups (for one group, Steiger's (1990) √(max(T − df,
  * 0)/(df·(N − 1)))), with the 90% interval from the noncentralities at which T sits at the 95th and 5th
- * percentiles of the noncentral χ² (Browne & Cudeck 1993). Registry: `rmsea.steiger`.
+ * percentiles of the noncentral χ² (Browne & Cudeck 1993). Registry: `rmsea.steiger`, `rmsea.multigroup`.
  *
  * Cost: a few hundred noncentral χ² evaluations. Returns nulls for df = 0. Throws EngineError for
  * N ≤ G or a negative T.

@@ -1,12 +1,5 @@
-import type { Reference, RegistryEntry } from './types.ts';
-
-const NUNNALLY_BERNSTEIN_1994: Reference = {
-  authors: ['Nunnally, J. C.', 'Bernstein, I. H.'],
-  year: 1994,
-  title: 'Psychometric theory',
-  edition: '3rd',
-  publisher: 'McGraw-Hill',
-};
+import type { RegistryEntry } from './types.ts';
+import { NUNNALLY_BERNSTEIN_1994 } from './references.ts';
 
 /**
  * Reliability criteria that depend on what the scores will be used for. One criterion applies to a

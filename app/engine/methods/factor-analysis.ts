@@ -1,4 +1,5 @@
 import type { Reference, RegistryEntry } from './types.ts';
+import { HARMAN_1976, MCDONALD_1999, recalled } from './references.ts';
 
 /** Every reference below was written down from recall, not checked against the publication. */
 function ref(
@@ -10,6 +11,23 @@ function ref(
   return { authors, year, title, ...rest, fromMemory: true };
 }
 
+const KAISER_1958 = ref(
+  ['Kaiser, H. F.'],
+  1958,
+  'The varimax criterion for analytic rotation in factor analysis',
+  {
+    container: 'Psychometrika',
+    volume: '23',
+    issue: '3',
+    pages: '187–200',
+  },
+);
+const GUTTMAN_1945 = ref(['Guttman, L.'], 1945, 'A basis for analyzing test-retest reliability', {
+  container: 'Psychometrika',
+  volume: '10',
+  issue: '4',
+  pages: '255–282',
+});
 const KAISER_1970 = ref(['Kaiser, H. F.'], 1970, 'A second generation little jiffy', {
   container: 'Psychometrika',
   volume: '35',
@@ -45,10 +63,6 @@ const GLORFELD_1995 = ref(
   "An improvement on Horn's parallel analysis methodology for selecting the correct number of factors to retain",
   { container: 'Educational and Psychological Measurement', volume: '55', issue: '3', pages: '377–393' },
 );
-const HARMAN_1976 = ref(['Harman, H. H.'], 1976, 'Modern factor analysis', {
-  edition: '3rd',
-  publisher: 'University of Chicago Press',
-});
 const LAWLEY_MAXWELL_1971 = ref(
   ['Lawley, D. N.', 'Maxwell, A. E.'],
   1971,
@@ -87,10 +101,6 @@ const BROWNE_2001 = ref(
     pages: '111–150',
   },
 );
-const MCDONALD_1999 = ref(['McDonald, R. P.'], 1999, 'Test theory: A unified treatment', {
-  publisher: 'Lawrence Erlbaum Associates',
-});
-
 /** Dimensionality, exploratory factor analysis, rotation, polychoric correlations and their omegas. */
 export const FACTOR_ANALYSIS_METHODS: RegistryEntry[] = [
   {
@@ -256,7 +266,12 @@ export const FACTOR_ANALYSIS_METHODS: RegistryEntry[] = [
       }),
     ],
   },
-  { kind: 'method', id: 'efa.paf', name: 'Iterated principal axis factoring', references: [HARMAN_1976] },
+  {
+    kind: 'method',
+    id: 'efa.paf',
+    name: 'Iterated principal axis factoring',
+    references: [recalled(HARMAN_1976)],
+  },
   {
     kind: 'method',
     id: 'efa.minres',
@@ -294,15 +309,7 @@ export const FACTOR_ANALYSIS_METHODS: RegistryEntry[] = [
     kind: 'method',
     id: 'rotation.varimax',
     name: 'Varimax rotation',
-    references: [
-      ref(['Kaiser, H. F.'], 1958, 'The varimax criterion for analytic rotation in factor analysis', {
-        container: 'Psychometrika',
-        volume: '23',
-        issue: '3',
-        pages: '187–200',
-      }),
-      JENNRICH_2001,
-    ],
+    references: [KAISER_1958, JENNRICH_2001],
   },
   {
     kind: 'method',
@@ -345,7 +352,7 @@ export const FACTOR_ANALYSIS_METHODS: RegistryEntry[] = [
     kind: 'method',
     id: 'rotation.oblimin',
     name: 'Oblimin rotation by gradient projection',
-    references: [HARMAN_1976, JENNRICH_2002, BERNAARDS_JENNRICH_2005],
+    references: [recalled(HARMAN_1976), JENNRICH_2002, BERNAARDS_JENNRICH_2005],
   },
   {
     kind: 'method',
@@ -369,14 +376,7 @@ export const FACTOR_ANALYSIS_METHODS: RegistryEntry[] = [
     kind: 'method',
     id: 'rotation.kaiser-normalization',
     name: 'Kaiser row normalization before rotation',
-    references: [
-      ref(['Kaiser, H. F.'], 1958, 'The varimax criterion for analytic rotation in factor analysis', {
-        container: 'Psychometrika',
-        volume: '23',
-        issue: '3',
-        pages: '187–200',
-      }),
-    ],
+    references: [KAISER_1958],
   },
   {
     kind: 'method',
@@ -433,7 +433,7 @@ export const FACTOR_ANALYSIS_METHODS: RegistryEntry[] = [
     id: 'omega.hierarchical',
     name: 'Omega hierarchical',
     references: [
-      MCDONALD_1999,
+      recalled(MCDONALD_1999),
       ref(
         ['Zinbarg, R. E.', 'Revelle, W.', 'Yovel, I.', 'Li, W.'],
         2005,
@@ -446,27 +446,13 @@ export const FACTOR_ANALYSIS_METHODS: RegistryEntry[] = [
     kind: 'method',
     id: 'reliability.guttman-lambda2',
     name: "Guttman's lambda 2",
-    references: [
-      ref(['Guttman, L.'], 1945, 'A basis for analyzing test-retest reliability', {
-        container: 'Psychometrika',
-        volume: '10',
-        issue: '4',
-        pages: '255–282',
-      }),
-    ],
+    references: [GUTTMAN_1945],
   },
   {
     kind: 'method',
     id: 'reliability.guttman-lambda6',
     name: "Guttman's lambda 6",
-    references: [
-      ref(['Guttman, L.'], 1945, 'A basis for analyzing test-retest reliability', {
-        container: 'Psychometrika',
-        volume: '10',
-        issue: '4',
-        pages: '255–282',
-      }),
-    ],
+    references: [GUTTMAN_1945],
   },
   {
     kind: 'rule',

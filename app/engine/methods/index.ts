@@ -5,6 +5,7 @@ import { NUMERICS_METHODS } from './numerics.ts';
 import { FACTOR_ANALYSIS_METHODS } from './factor-analysis.ts';
 import { NORMS_METHODS } from './norms.ts';
 import { RELIABILITY_METHODS } from './reliability.ts';
+import { REPORTING_METHODS } from './reporting.ts';
 import { SCREENING_METHODS } from './screening.ts';
 import { WORDING_METHODS } from './wording.ts';
 import type { Reference, RegistryEntry } from './types.ts';
@@ -26,6 +27,7 @@ export const METHODS: ReadonlyMap<string, RegistryEntry> = buildRegistry([
   ...FACTOR_ANALYSIS_METHODS,
   ...CRITERIA_METHODS,
   ...NORMS_METHODS,
+  ...REPORTING_METHODS,
 ]);
 
 function buildRegistry(entries: RegistryEntry[]): ReadonlyMap<string, RegistryEntry> {

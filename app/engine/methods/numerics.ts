@@ -1,4 +1,5 @@
 import type { Reference, RegistryEntry } from './types.ts';
+import { PEARSON_1896 } from './references.ts';
 
 const GOLUB_VAN_LOAN_2013: Reference = {
   authors: ['Golub, G. H.', 'Van Loan, C. F.'],
@@ -29,18 +30,7 @@ export const NUMERICS_METHODS: RegistryEntry[] = [
     kind: 'method',
     id: 'corr.pearson',
     name: 'Pearson product-moment correlation',
-    references: [
-      {
-        authors: ['Pearson, K.'],
-        year: 1896,
-        title:
-          'Mathematical contributions to the theory of evolution. III. Regression, heredity, and panmixia',
-        container: 'Philosophical Transactions of the Royal Society of London, Series A',
-        volume: '187',
-        pages: '253–318',
-        doi: '10.1098/rsta.1896.0007',
-      },
-    ],
+    references: [PEARSON_1896],
   },
   {
     kind: 'method',

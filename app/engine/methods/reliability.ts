@@ -1,4 +1,11 @@
 import type { Reference, RegistryEntry } from './types.ts';
+import {
+  HARMAN_1976,
+  LORD_NOVICK_1968,
+  MCDONALD_1999,
+  NUNNALLY_BERNSTEIN_1994,
+  SPEARMAN_1904,
+} from './references.ts';
 
 const CRONBACH_1951: Reference = {
   authors: ['Cronbach, L. J.'],
@@ -31,21 +38,6 @@ const BROWN_1910: Reference = {
   issue: '3',
   pages: '296–322',
   doi: '10.1111/j.2044-8295.1910.tb00207.x',
-};
-
-const LORD_NOVICK_1968: Reference = {
-  authors: ['Lord, F. M.', 'Novick, M. R.'],
-  year: 1968,
-  title: 'Statistical theories of mental test scores',
-  publisher: 'Addison-Wesley',
-};
-
-const NUNNALLY_BERNSTEIN_1994: Reference = {
-  authors: ['Nunnally, J. C.', 'Bernstein, I. H.'],
-  year: 1994,
-  title: 'Psychometric theory',
-  edition: '3rd',
-  publisher: 'McGraw-Hill',
 };
 
 /** Reliability: coefficients, intervals, item statistics and the rules of thumb shown beside them. */
@@ -102,28 +94,13 @@ export const RELIABILITY_METHODS: RegistryEntry[] = [
     kind: 'method',
     id: 'omega.total',
     name: "McDonald's omega total",
-    references: [
-      {
-        authors: ['McDonald, R. P.'],
-        year: 1999,
-        title: 'Test theory: A unified treatment',
-        publisher: 'Lawrence Erlbaum Associates',
-      },
-    ],
+    references: [MCDONALD_1999],
   },
   {
     kind: 'method',
     id: 'omega.one-factor-fit',
     name: 'One-factor model by iterated principal axes (for omega)',
-    references: [
-      {
-        authors: ['Harman, H. H.'],
-        year: 1976,
-        title: 'Modern factor analysis',
-        edition: '3rd',
-        publisher: 'University of Chicago Press',
-      },
-    ],
+    references: [HARMAN_1976],
   },
   {
     kind: 'method',
@@ -164,18 +141,7 @@ export const RELIABILITY_METHODS: RegistryEntry[] = [
     kind: 'method',
     id: 'attenuation.spearman',
     name: 'Correction for attenuation',
-    references: [
-      {
-        authors: ['Spearman, C.'],
-        year: 1904,
-        title: 'The proof and measurement of association between two things',
-        container: 'American Journal of Psychology',
-        volume: '15',
-        issue: '1',
-        pages: '72–101',
-        doi: '10.2307/1412159',
-      },
-    ],
+    references: [SPEARMAN_1904],
   },
   {
     kind: 'method',

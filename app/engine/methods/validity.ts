@@ -1,4 +1,5 @@
 import type { Reference, RegistryEntry } from './types.ts';
+import { LORD_NOVICK_1968, PEARSON_1896, SPEARMAN_1904, recalled } from './references.ts';
 
 const JORESKOG_1969: Reference = {
   authors: ['Jöreskog, K. G.'],
@@ -304,18 +305,7 @@ export const VALIDITY_METHODS: RegistryEntry[] = [
     kind: 'method',
     id: 'correlation.pearson',
     name: 'Pearson correlation',
-    references: [
-      {
-        authors: ['Pearson, K.'],
-        year: 1896,
-        title:
-          'Mathematical contributions to the theory of evolution. III. Regression, heredity, and panmixia',
-        container: 'Philosophical Transactions of the Royal Society of London, Series A',
-        volume: '187',
-        pages: '253–318',
-        doi: '10.1098/rsta.1896.0007',
-      },
-    ],
+    references: [PEARSON_1896],
   },
   {
     kind: 'method',
@@ -337,18 +327,7 @@ export const VALIDITY_METHODS: RegistryEntry[] = [
     kind: 'method',
     id: 'validity.disattenuation',
     name: 'Correction for attenuation',
-    references: [
-      {
-        authors: ['Spearman, C.'],
-        year: 1904,
-        title: 'The proof and measurement of association between two things',
-        container: 'American Journal of Psychology',
-        volume: '15',
-        issue: '1',
-        pages: '72–101',
-        doi: '10.2307/1412159',
-      },
-    ],
+    references: [SPEARMAN_1904],
   },
   {
     kind: 'method',
@@ -475,15 +454,7 @@ export const VALIDITY_METHODS: RegistryEntry[] = [
     kind: 'method',
     id: 'icc.sem',
     name: 'Standard error of measurement from test–retest reliability',
-    references: [
-      {
-        authors: ['Lord, F. M.', 'Novick, M. R.'],
-        year: 1968,
-        title: 'Statistical theories of mental test scores',
-        publisher: 'Addison-Wesley',
-        fromMemory: true,
-      },
-    ],
+    references: [recalled(LORD_NOVICK_1968)],
   },
   {
     kind: 'rule',
@@ -492,6 +463,56 @@ export const VALIDITY_METHODS: RegistryEntry[] = [
     wording:
       'A change smaller than 1.96·√2·SEM cannot be told apart from measurement error with 95% confidence.',
     thresholds: { z: 1.96 },
+    commonPractice: true,
+    references: [],
+  },
+  {
+    kind: 'method',
+    id: 'rmsea.multigroup',
+    name: 'RMSEA of a multi-group model (√G convention: √(G·max(χ² − df, 0)/(df·(N − G))))',
+    references: [
+      {
+        authors: ['Steiger, J. H.'],
+        year: 1998,
+        title: 'A note on multiple sample extensions of the RMSEA fit index',
+        container: 'Structural Equation Modeling',
+        volume: '5',
+        issue: '4',
+        pages: '411–419',
+        doi: '10.1080/10705519809540115',
+        fromMemory: true,
+      },
+    ],
+  },
+  {
+    kind: 'rule',
+    id: 'invariance.partial',
+    name: 'Constraints to consider freeing for partial invariance',
+    wording:
+      'When a step of the invariance sequence fails, the loadings (metric step) or intercepts (scalar step) whose estimates differ most between the groups in the configural model are the first candidates to free (the 5 largest are listed), one at a time, keeping at least 2 invariant items per factor.',
+    thresholds: { candidates: 5, invariantItemsPerFactor: 2 },
+    references: [
+      {
+        authors: ['Byrne, B. M.', 'Shavelson, R. J.', 'Muthén, B.'],
+        year: 1989,
+        title:
+          'Testing for the equivalence of factor covariance and mean structures: The issue of partial measurement invariance',
+        container: 'Psychological Bulletin',
+        volume: '105',
+        issue: '3',
+        pages: '456–466',
+        doi: '10.1037/0033-2909.105.3.456',
+        fromMemory: true,
+      },
+    ],
+  },
+  {
+    kind: 'rule',
+    id: 'cfa.residual-hint',
+    name: 'Freeing a residual covariance',
+    wording:
+      'A residual covariance suggested by a modification index is freed only when a reason outside the data explains it (shared wording, a shared situation, adjacent position); the reason is recorded with the model.',
+    thresholds: {},
     commonPractice: true,
     references: [],
   },

@@ -10,6 +10,7 @@ export * from './rules/checklist.ts';
 export * from './rules/factor.ts';
 export * from './rules/flags.ts';
 export type { ItemStanding } from './standing.ts';
+export * from './views/decisions.ts';
 export * from './views/factor.ts';
 export * from './views/rounds.ts';
 export * from './views/workbench.ts';

@@ -1,8 +1,8 @@
 import { useState } from 'react';
 import { bounded } from '../../../app/api/format.ts';
 import type { CommandOutput } from '../../../app/api/commands.ts';
-import type { RelationInput } from '../../../app/phases/construct.ts';
-import type { FacetRecord, RelationRecord } from '../../../db/repos/construct.ts';
+import type { RelationInput } from '../../../app/api/contracts/construct.ts';
+import type { FacetRecord, RelationRecord } from '../../../app/api/contracts/construct.ts';
 import { AutosaveField, ErrorNote, Panel, ReasonAction } from '../../shared/components.tsx';
 import { SignOffAside } from '../../shared/phase-controls.tsx';
 import { useMutation, useQuery } from '../../shared/use-command.ts';

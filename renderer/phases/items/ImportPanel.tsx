@@ -1,6 +1,6 @@
 import { useState } from 'react';
 import type { CommandOutput } from '../../../app/api/commands.ts';
-import type { ItemSource } from '../../../db/repos/items.ts';
+import type { ItemSource } from '../../../app/api/contracts/items.ts';
 import { call } from '../../api/client.ts';
 import { ErrorNote, Panel } from '../../shared/components.tsx';
 import { useMutation } from '../../shared/use-command.ts';

@@ -1,7 +1,7 @@
 import { useEffect, useRef, useState } from 'react';
-import type { ItemView } from '../../../app/phases/items.ts';
-import type { FacetRecord } from '../../../db/repos/construct.ts';
-import type { ItemKeying, ItemSource, ItemState } from '../../../db/repos/items.ts';
+import type { ItemView } from '../../../app/api/contracts/items.ts';
+import type { FacetRecord } from '../../../app/api/contracts/construct.ts';
+import type { ItemKeying, ItemSource, ItemState } from '../../../app/api/contracts/items.ts';
 import { ErrorNote, formatTime, ReasonAction } from '../../shared/components.tsx';
 import { useMutation, useQuery } from '../../shared/use-command.ts';
 import { useLiveWording } from './use-wording.ts';

@@ -1,9 +1,9 @@
 import { bounded, percent } from '../../../app/api/format.ts';
 import { useMemo, useState } from 'react';
 import type { CommandOutput } from '../../../app/api/commands.ts';
-import type { FacetCoverage } from '../../../app/phases/items.ts';
-import type { FacetRecord } from '../../../db/repos/construct.ts';
-import type { ItemKeying, ItemSource } from '../../../db/repos/items.ts';
+import type { FacetCoverage } from '../../../app/api/contracts/items.ts';
+import type { FacetRecord } from '../../../app/api/contracts/construct.ts';
+import type { ItemKeying, ItemSource } from '../../../app/api/contracts/items.ts';
 import { call } from '../../api/client.ts';
 import { ErrorNote, Panel } from '../../shared/components.tsx';
 import { SignOffAside } from '../../shared/phase-controls.tsx';

@@ -1,5 +1,5 @@
 import { bounded, unbounded } from '../../../app/api/format.ts';
-import type { WordingCheck, WordingReport } from '../../../app/engine/wording.ts';
+import type { WordingCheck, WordingReport } from '../../../app/api/contracts/items.ts';
 
 const CHECK_LABEL: Record<WordingCheck, string> = {
   length: 'Long',

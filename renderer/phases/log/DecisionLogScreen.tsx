@@ -1,8 +1,8 @@
 import { useRef, useState } from 'react';
-import { PHASE_TITLES } from '../../../app/phases/titles.ts';
-import type { LogEntry } from '../../../db/decision-log.ts';
-import type { PhaseId } from '../../../db/repos/phase-state.ts';
-import type { IntegrityBreak, VerifyReport } from '../../../db/verify.ts';
+import { PHASE_TITLES } from '../../../app/api/contracts/phases.ts';
+import type { LogEntry } from '../../../app/api/contracts/log.ts';
+import type { PhaseId } from '../../../app/api/contracts/phases.ts';
+import type { IntegrityBreak, VerifyReport } from '../../../app/api/contracts/log.ts';
 import type { FullVerifyReport } from '../../../app/api/contracts/history.ts';
 import { call } from '../../api/client.ts';
 import { ErrorNote, formatTime } from '../../shared/components.tsx';

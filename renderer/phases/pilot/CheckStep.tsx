@@ -1,5 +1,5 @@
 import { useState } from 'react';
-import type { ReadCheck } from '../../../app/api/commands/pilot.ts';
+import type { ReadCheck } from '../../../app/api/contracts/pilot.ts';
 import { ErrorNote } from '../../shared/components.tsx';
 import { formatBytes } from '../../shared/files.ts';
 import { DECIMAL_MARK_NAME, plural } from '../../../app/api/format.ts';

@@ -1,7 +1,6 @@
-import type { ColumnMapping, ColumnRole, RoleName } from '../../../app/import/mapping.ts';
-import type { DataFilePreview } from '../../../app/phases/pilot.ts';
+import type { ColumnMapping, ColumnRole, RoleName } from '../../../app/api/contracts/pilot.ts';
+import type { DataFilePreview } from '../../../app/api/contracts/pilot.ts';
 import { plural } from '../../../app/api/format.ts';
-import type { PoolItem } from './ImportWizard.tsx';
 
 const ROLE_OPTIONS: { value: RoleName; label: string }[] = [
   { value: 'item', label: 'Item' },
@@ -26,6 +25,14 @@ function samples(preview: DataFilePreview, column: number): string[] {
     if (seen.length === 4) break;
   }
   return seen;
+}
+
+/** An item of the pool, as the column step offers it for matching. */
+export interface PoolItem {
+  code: string;
+  text: string;
+  facetName: string | null;
+  state: string;
 }
 
 function roleFor(value: RoleName, current: ColumnRole, column: string, pool: PoolItem[]): ColumnRole {

@@ -1,16 +1,16 @@
 import { useCallback, useRef, useState } from 'react';
-import type { ReadCheck } from '../../../app/api/commands/pilot.ts';
-import type { ColumnMapping } from '../../../app/import/mapping.ts';
-import type { DataFilePreview } from '../../../app/phases/pilot.ts';
-import type { ReadSettings } from '../../../app/phases/pilot-read.ts';
-import type { TaskStatus } from '../../../app/workers/tasks.ts';
-import type { DatasetRole } from '../../../db/repos/datasets.ts';
+import type { ReadCheck } from '../../../app/api/contracts/pilot.ts';
+import type { ColumnMapping } from '../../../app/api/contracts/pilot.ts';
+import type { DataFilePreview } from '../../../app/api/contracts/pilot.ts';
+import type { ReadSettings } from '../../../app/api/contracts/pilot.ts';
+import type { TaskStatus } from '../../../app/api/contracts/tasks.ts';
+import type { DatasetRole } from '../../../app/api/contracts/pilot.ts';
 import { call } from '../../api/client.ts';
 import { ErrorNote, Panel } from '../../shared/components.tsx';
 import { TaskProgress } from '../../shared/task-progress.tsx';
 import { useMutation } from '../../shared/use-command.ts';
 import { CheckStep, type CurrentChoice } from './CheckStep.tsx';
-import { ColumnsStep } from './ColumnsStep.tsx';
+import { ColumnsStep, type PoolItem } from './ColumnsStep.tsx';
 import { formatBytes, readFileBase64 } from '../../shared/files.ts';
 import { type MissingDraft, MissingStep } from './MissingStep.tsx';
 import { PreviewStep } from './PreviewStep.tsx';
@@ -25,13 +25,6 @@ const STEPS = [
 ] as const;
 
 type StepId = (typeof STEPS)[number]['id'];
-
-export interface PoolItem {
-  code: string;
-  text: string;
-  facetName: string | null;
-  state: string;
-}
 
 /** Mapping entries carried over to a new preview: the researcher's choices for columns still there. */
 function carryOver(

@@ -1,4 +1,4 @@
-import type { MissingData } from '../../../app/phases/pilot.ts';
+import type { MissingData } from '../../../app/api/contracts/pilot.ts';
 import { Panel } from '../../shared/components.tsx';
 import { percentOf, plural } from '../../../app/api/format.ts';
 

@@ -1,5 +1,5 @@
 import { useState } from 'react';
-import type { DataFilePreview } from '../../../app/phases/pilot.ts';
+import type { DataFilePreview } from '../../../app/api/contracts/pilot.ts';
 
 export interface MissingDraft {
   text: string[];

@@ -1,5 +1,5 @@
 import { useContext, useState } from 'react';
-import type { DatasetListEntry } from '../../../app/phases/pilot.ts';
+import type { DatasetListEntry } from '../../../app/api/contracts/pilot.ts';
 import { ErrorNote, formatTime, Panel } from '../../shared/components.tsx';
 import { SignOffAside } from '../../shared/phase-controls.tsx';
 import { StudyRevision, useMutation, useQuery } from '../../shared/use-command.ts';

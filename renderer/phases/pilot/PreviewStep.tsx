@@ -1,5 +1,5 @@
-import type { DataFilePreview } from '../../../app/phases/pilot.ts';
-import type { ReadSettings } from '../../../app/phases/pilot-read.ts';
+import type { DataFilePreview } from '../../../app/api/contracts/pilot.ts';
+import type { ReadSettings } from '../../../app/api/contracts/pilot.ts';
 import { formatBytes } from '../../shared/files.ts';
 import { DECIMAL_MARK_NAME } from '../../../app/api/format.ts';
 

@@ -1,7 +1,7 @@
 import { useMemo, useState } from 'react';
 import { ExportButton } from '../../shared/export-button.tsx';
-import type { ScreenedRespondent } from '../../../app/phases/pilot.ts';
-import type { ScreeningCheck } from '../../../app/engine/screening.ts';
+import type { ScreenedRespondent } from '../../../app/api/contracts/pilot.ts';
+import type { ScreeningCheck } from '../../../app/api/contracts/pilot.ts';
 import { ErrorNote, formatTime, Panel } from '../../shared/components.tsx';
 import { useMutation, useQuery } from '../../shared/use-command.ts';
 import { pValue, plural, unbounded } from '../../../app/api/format.ts';

@@ -5,7 +5,7 @@ import { ErrorNote, Panel } from '../../shared/components.tsx';
 import { useMutation } from '../../shared/use-command.ts';
 import { AlphaHistoryChart } from './charts.tsx';
 import { bounded, shortDate } from '../../../app/api/format.ts';
-import type { ReliabilityCriterion } from '../../../app/engine/reliability/criterion.ts';
+import type { ReliabilityCriterion } from '../../../app/api/contracts/purification.ts';
 import { CriterionFootnote } from '../../shared/criterion.tsx';
 
 function ReverseAction({ decision, locked }: { decision: DecisionView; locked: boolean }) {

@@ -1,6 +1,6 @@
 import { useCallback, useRef, useState } from 'react';
 import type { RoundSummary } from '../../../app/api/contracts/purification.ts';
-import type { TaskStatus } from '../../../app/workers/tasks.ts';
+import type { TaskStatus } from '../../../app/api/contracts/tasks.ts';
 import { call } from '../../api/client.ts';
 import { ErrorNote } from '../../shared/components.tsx';
 import { TaskProgress } from '../../shared/task-progress.tsx';

@@ -16,7 +16,7 @@ import {
 } from 'recharts';
 import type { RoundItemRow, RoundSummary } from '../../../app/api/contracts/purification.ts';
 import { bounded, unbounded } from '../../../app/api/format.ts';
-import type { ReliabilityCriterion } from '../../../app/engine/reliability/criterion.ts';
+import type { ReliabilityCriterion } from '../../../app/api/contracts/purification.ts';
 import { criterionName } from '../../shared/criterion.tsx';
 
 const INK = '#4a5567';

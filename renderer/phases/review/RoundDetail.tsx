@@ -1,6 +1,6 @@
 import { useEffect, useState } from 'react';
 import type { CommandOutput } from '../../../app/api/commands.ts';
-import type { RoundView } from '../../../app/phases/review.ts';
+import type { RoundView } from '../../../app/api/contracts/review.ts';
 import { call } from '../../api/client.ts';
 import { ErrorNote, formatTime, Panel, ReasonAction } from '../../shared/components.tsx';
 import { useMutation } from '../../shared/use-command.ts';

@@ -1,7 +1,7 @@
 import { Fragment, useState } from 'react';
 import { ExportButton } from '../../shared/export-button.tsx';
-import type { RoundItemView, RoundView } from '../../../app/phases/review.ts';
-import type { Decision } from '../../../db/repos/review.ts';
+import type { RoundItemView, RoundView } from '../../../app/api/contracts/review.ts';
+import type { Decision } from '../../../app/api/contracts/review.ts';
 import { ErrorNote, Panel } from '../../shared/components.tsx';
 import { useMutation } from '../../shared/use-command.ts';
 import { bounded, plural } from '../../../app/api/format.ts';

@@ -2,7 +2,7 @@ import path from 'node:path';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { dispatch } from '../../../app/api/dispatch.ts';
 import { Session } from '../../../app/api/session.ts';
-import { MAX_ITEM_FILE_BYTES } from '../../../app/phases/items.ts';
+import { MAX_ITEM_FILE_BYTES } from '../../../app/phases/items/index.ts';
 import { TEST_ACTOR, tempDir } from '../../helpers/tmp.ts';
 
 let tmp: ReturnType<typeof tempDir>;

@@ -29,6 +29,7 @@ describe('--help', () => {
         'project signoff',
         'project instrument',
         'project verify',
+        'project export',
       ].sort(),
     );
   });

@@ -3,10 +3,8 @@ import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { runCli } from '../../../app/cli/main.ts';
 import type { ColumnMapping } from '../../../app/import/mapping.ts';
-import { addFacet } from '../../../app/phases/construct.ts';
-import { addItem } from '../../../app/phases/items.ts';
-import { Study } from '../../../db/study.ts';
-import { TEST_ACTOR, sha256File, tempDir } from '../../helpers/tmp.ts';
+import { createStudyWithPool } from '../../helpers/study-data.ts';
+import { sha256File, tempDir } from '../../helpers/tmp.ts';
 import { CORPUS, type CorpusEntry } from '../import/broken-corpus.ts';
 
 /**
@@ -23,18 +21,7 @@ let studyFile: string;
 beforeAll(() => {
   tmp = tempDir();
   studyFile = path.join(tmp.dir, 'refusals.scalewright');
-  const study = Study.create(studyFile, { actor: TEST_ACTOR, app: 'test' });
-  const facet = addFacet(study, 'Test facet', '');
-  for (const code of POOL) {
-    addItem(study, {
-      code,
-      text: `Test wording of item ${code}`,
-      facetId: facet,
-      keying: 'forward',
-      sourceType: 'own-drafting',
-      sourceNote: '',
-    });
-  }
+  const study = createStudyWithPool(studyFile, POOL);
   study.close();
 });
 afterAll(() => tmp.cleanup());

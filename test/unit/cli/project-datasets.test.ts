@@ -6,6 +6,7 @@ import { reopenPhase } from '../../../app/phases/index.ts';
 import { Study } from '../../../db/study.ts';
 import { runCli } from '../../helpers/cli.ts';
 import { TEST_ACTOR, tempDir } from '../../helpers/tmp.ts';
+import { createDemo } from '../../helpers/demo.ts';
 
 let tmp: ReturnType<typeof tempDir>;
 let studyFile: string;
@@ -18,7 +19,8 @@ const SLOW = 120_000;
 beforeAll(() => {
   tmp = tempDir();
   studyFile = path.join(tmp.dir, 'demo.scalewright');
-  expect(runCli(['project', 'new', studyFile, '--demo']).code).toBe(0);
+  // The demo before its validation wave: purification open, no validation data yet.
+  createDemo(studyFile, 'purification');
   const study = Study.open(studyFile, { actor: TEST_ACTOR, app: 'test' });
   try {
     reopenPhase(study, 'pilot', 'late paper returns arrived');

@@ -9,6 +9,7 @@ import { Study } from '../../../db/study.ts';
 import { runCli } from '../../helpers/cli.ts';
 import { TEST_ACTOR, tempDir } from '../../helpers/tmp.ts';
 import DEMO_REFERENCE from '../../reference/fixtures/demo-pilot.json' with { type: 'json' };
+import { createDemo } from '../../helpers/demo.ts';
 
 let tmp: ReturnType<typeof tempDir>;
 let studyFile: string;
@@ -18,7 +19,8 @@ const demo = generateDemoPilot();
 beforeAll(() => {
   tmp = tempDir();
   studyFile = path.join(tmp.dir, 'demo.scalewright');
-  expect(runCli(['project', 'new', studyFile, '--demo']).code).toBe(0);
+  // The demo before its validation wave: purification open, no validation data yet.
+  createDemo(studyFile, 'purification');
   pilotFile = path.join(tmp.dir, DEMO_PILOT_FILE);
   fs.writeFileSync(pilotFile, demo.pilotCsv);
 }, 60_000);

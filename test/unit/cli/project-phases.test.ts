@@ -3,7 +3,9 @@ import path from 'node:path';
 import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest';
 import { getPhaseStatus } from '../../../db/repos/phase-state.ts';
 import { Study } from '../../../db/study.ts';
-import { addFacet } from '../../../app/phases/construct.ts';
+import { addFacet } from '../../../app/phases/construct/index.ts';
+import { reopenPhase } from '../../../app/phases/index.ts';
+import { modelInForce, setMeasurementModel } from '../../../app/phases/validity/index.ts';
 import { runCli, runCliHere } from '../../helpers/cli.ts';
 import { TEST_ACTOR, tempDir } from '../../helpers/tmp.ts';
 
@@ -29,6 +31,14 @@ function withStudy<T>(fn: (study: Study) => T): T {
   } finally {
     study.close();
   }
+}
+
+/** Reopens the validity phase and changes its model, so that its CFA no longer describes it. */
+function outdateValidityCfa(): void {
+  withStudy((s) => {
+    reopenPhase(s, 'validity', 'Check the model once more.');
+    setMeasurementModel(s, { ...modelInForce(s).model, orthogonal: true }, 'Try uncorrelated facets.');
+  });
 }
 
 /** The log and phase states: equal before and after means a refused command changed nothing. */
@@ -87,37 +97,40 @@ describe('project reopen and project signoff', () => {
   });
 
   it('a sign-off whose checklist is not met is refused: exit 1, the unmet items on stderr, the checklist on stdout, nothing written', () => {
+    outdateValidityCfa();
     const before = state();
-    const run = runCli(['project', 'signoff', file, '--phase', 'purification', '--reason', 'Done.']);
+    const run = runCli(['project', 'signoff', file, '--phase', 'validity', '--reason', 'Done.']);
     expect(run.code).toBe(1);
     expect(run.stderr).toMatch(
-      /^error: the Purification phase cannot be signed off yet: Every item flagged in the final round has a decision: no decision yet on TR01, [^\n]*\n$/,
+      /^error: the Validity evidence phase cannot be signed off yet: A CFA of the measurement model on the current validation data: run \d+ is out of date: the measurement model changed since[^\n]*\n$/,
     );
-    expect(run.stdout).toMatch(/^Purification phase: not signed off; its checklist:\n/);
-    expect(run.stdout).toMatch(/✓ The Pilot data phase is signed off/);
-    expect(run.stdout).toMatch(/○ Every item flagged in the final round has a decision/);
+    expect(run.stdout).toMatch(/^Validity evidence phase: not signed off; its checklist:\n/);
+    expect(run.stdout).toMatch(/✓ The Purification phase is signed off/);
+    expect(run.stdout).toMatch(/○ A CFA of the measurement model on the current validation data/);
     expect(widest(run.stdout)).toBeLessThanOrEqual(100);
     expect(state()).toEqual(before);
   });
 
   it('with --json a refusal prints one object with the checklist and done: false', async () => {
+    outdateValidityCfa();
     const run = await runCliHere([
       'project',
       'signoff',
       file,
       '--phase',
-      'purification',
+      'validity',
       '--reason',
       'x',
       '--json',
     ]);
     expect(run.code).toBe(1);
     const value = JSON.parse(run.stdout);
-    expect(value).toMatchObject({ phase: 'purification', done: false, state: 'in-progress', logRow: null });
-    expect(value.checklist.find((c: { id: string }) => c.id === 'flagged-items-decided').met).toBe(false);
+    expect(value).toMatchObject({ phase: 'validity', done: false, state: 'reopened', logRow: null });
+    expect(value.checklist.find((c: { id: string }) => c.id === 'cfa-on-current-data').met).toBe(false);
   });
 
   it('usage mistakes exit 2 and refusals by the phase rules exit 1, each with one error line and nothing written', async () => {
+    withStudy((s) => reopenPhase(s, 'validity', 'Look again.'));
     const before = state();
     const cases: [string[], number, RegExp][] = [
       [['project', 'signoff', file, '--phase', 'items'], 2, /--reason TEXT is required/],
@@ -131,7 +144,7 @@ describe('project reopen and project signoff', () => {
         /Item pool phase is already signed off/,
       ],
       [
-        ['project', 'reopen', file, '--phase', 'purification', '--reason', 'x'],
+        ['project', 'reopen', file, '--phase', 'validity', '--reason', 'x'],
         1,
         /not signed off, so there is nothing to reopen/,
       ],
@@ -220,6 +233,8 @@ describe('stale sign-offs on the command line', () => {
       'items',
       'review',
       'pilot',
+      'purification',
+      'validity',
     ]);
     const run = await runCliHere([
       'project',
@@ -242,6 +257,8 @@ describe('stale sign-offs on the command line', () => {
     expect((await status()).phases.filter((p) => p.needsReview).map((p) => p.phase)).toEqual([
       'items',
       'pilot',
+      'purification',
+      'validity',
     ]);
   });
 

@@ -43,7 +43,8 @@ describe('project new, status and verify', () => {
     const verify = runNpmCli(['project', 'verify', 'rel/demo.scalewright'], tmp.dir);
     expect(verify.code).toBe(0);
     expect(verify.stdout).toMatch(/hash chain intact/);
-  });
+    // The demo works every phase (two CFAs included): allow for a busy machine.
+  }, 120_000);
 
   it('work with an absolute path', () => {
     const file = path.join(tmp.dir, 'abs.scalewright');
@@ -53,7 +54,7 @@ describe('project new, status and verify', () => {
     expect(() => JSON.parse(status.stdout)).not.toThrow();
     expect(status.stdout.trim().split('\n')).toHaveLength(1);
     expect(runCli(['project', 'verify', file], { cwd: '/' }).code).toBe(0);
-  });
+  }, 120_000);
 
   it('usage mistakes exit 2 with one error line', () => {
     for (const args of [

@@ -79,12 +79,13 @@ describe('the README', () => {
     try {
       const last = study.log.list({ limit: 4 }).reverse();
       expect(last.map((r) => [r.phase, r.kind])).toEqual([
+        ['validity', 'reopened'],
+        // The demo has its own validation wave, which stays current: the new one waits beside it.
         ['validity', 'dataset-imported'],
-        ['validity', 'dataset-made-current'],
         ['pilot', 'reopened'],
         ['pilot', 'signed-off'],
       ]);
-      expect(last[0].target).toMatch(/Validation wave, autumn \(demo\)/);
+      expect(last[1].target).toMatch(/Validation wave, autumn \(demo\)/);
     } finally {
       study.close();
     }

@@ -1,6 +1,7 @@
 import path from 'node:path';
 import Database from 'better-sqlite3';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
+import { LATEST_VERSION } from '../../../db/migrations/index.ts';
 import { getConstruct, setScoreUse } from '../../../db/repos/construct.ts';
 import { APPLICATION_ID } from '../../../db/study-file.ts';
 import { migrate, Study } from '../../../db/study.ts';
@@ -26,7 +27,7 @@ describe('migration 7: the use of scores', () => {
 
     const study = Study.open(file, { actor: TEST_ACTOR, app: 'test' });
     try {
-      expect(study.version).toBe(7);
+      expect(study.version).toBe(LATEST_VERSION);
       const construct = getConstruct(study);
       expect(construct.name).toBe('Trail reading');
       expect(construct.intendedUses).toBe('Group comparisons');

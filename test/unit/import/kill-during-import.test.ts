@@ -5,8 +5,8 @@ import path from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { decodeColumn } from '../../../app/engine/columnar.ts';
-import { addFacet } from '../../../app/phases/construct.ts';
-import { addItem } from '../../../app/phases/items.ts';
+import { addFacet } from '../../../app/phases/construct/index.ts';
+import { addItem } from '../../../app/phases/items/index.ts';
 import { listDatasets, loadDatasetFile, loadEncodedDataset } from '../../../db/repos/datasets.ts';
 import { Study } from '../../../db/study.ts';
 import { ROOT } from '../../helpers/cli.ts';
@@ -51,8 +51,8 @@ function writeChild(file: string): void {
     file,
     `import fs from 'node:fs';
 import { Study } from ${at('db/study.ts')};
-import { automaticMapping, planImport, storeImport } from ${at('app/phases/pilot.ts')};
-import { readDataFile } from ${at('app/phases/pilot-read.ts')};
+import { automaticMapping, planImport, storeImport } from ${at('app/phases/pilot/index.ts')};
+import { readDataFile } from ${at('app/import/read-data-file.ts')};
 const [studyPath, dataPath] = process.argv.slice(2);
 const study = Study.open(studyPath, { actor: { user: 'kill', name: 'Kill test' }, app: 'the kill test' });
 const bytes = fs.readFileSync(dataPath);

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { TableError } from '../../../app/import/parse-table.ts';
-import { describeProblem, type RatingsFile, readRatings } from '../../../app/import/ratings.ts';
+import { describeProblem, type RatingsFile, readRatings } from '../../../app/import/ratings/index.ts';
 
 const bytes = (text: string): Uint8Array => new TextEncoder().encode(text);
 

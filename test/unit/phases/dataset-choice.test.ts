@@ -2,9 +2,7 @@ import path from 'node:path';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { NO_MISSING_CODES } from '../../../app/import/numbers.ts';
 import { currentPilotDataset } from '../../../app/phases/analysis-data.ts';
-import { addFacet } from '../../../app/phases/construct.ts';
 import { RuleError } from '../../../app/phases/errors.ts';
-import { addItem } from '../../../app/phases/items.ts';
 import {
   automaticMapping,
   type CurrentOnImport,
@@ -14,12 +12,13 @@ import {
   planImport,
   storeImport,
   withdrawDataset,
-} from '../../../app/phases/pilot.ts';
-import { readDataFile } from '../../../app/phases/pilot-read.ts';
+} from '../../../app/phases/pilot/index.ts';
+import { readDataFile } from '../../../app/import/read-data-file.ts';
 import { purificationView, roundSummaries, runRound } from '../../../app/phases/purification/index.ts';
 import { listDatasetChoices, listDatasets } from '../../../db/repos/datasets.ts';
-import { Study } from '../../../db/study.ts';
-import { TEST_ACTOR, tempDir } from '../../helpers/tmp.ts';
+import type { Study } from '../../../db/study.ts';
+import { createStudyWithPool } from '../../helpers/study-data.ts';
+import { tempDir } from '../../helpers/tmp.ts';
 
 let tmp: ReturnType<typeof tempDir>;
 let study: Study;
@@ -60,18 +59,7 @@ function snapshot() {
 
 beforeEach(() => {
   tmp = tempDir();
-  study = Study.create(path.join(tmp.dir, 'choice.scalewright'), { actor: TEST_ACTOR, app: 'test' });
-  const facet = addFacet(study, 'Test facet', '');
-  for (const code of CODES) {
-    addItem(study, {
-      code,
-      text: `Test wording of item ${code}`,
-      facetId: facet,
-      keying: 'forward',
-      sourceType: 'own-drafting',
-      sourceNote: '',
-    });
-  }
+  study = createStudyWithPool(path.join(tmp.dir, 'choice.scalewright'), CODES);
 });
 afterEach(() => {
   study.close();

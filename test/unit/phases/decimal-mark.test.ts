@@ -2,13 +2,17 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { NO_MISSING_CODES } from '../../../app/import/numbers.ts';
-import { addFacet } from '../../../app/phases/construct.ts';
-import { addItem } from '../../../app/phases/items.ts';
-import { automaticMapping, planImport, previewDataFile, storeImport } from '../../../app/phases/pilot.ts';
-import { type ReadSettings, readDataFile } from '../../../app/phases/pilot-read.ts';
+import {
+  automaticMapping,
+  planImport,
+  previewDataFile,
+  storeImport,
+} from '../../../app/phases/pilot/index.ts';
+import { type ReadSettings, readDataFile } from '../../../app/import/read-data-file.ts';
 import { listDatasets } from '../../../db/repos/datasets.ts';
 import { Study } from '../../../db/study.ts';
 import { runCli } from '../../helpers/cli.ts';
+import { createStudyWithPool } from '../../helpers/study-data.ts';
 import { TEST_ACTOR, tempDir } from '../../helpers/tmp.ts';
 
 const CODES = ['Q1', 'Q2', 'Q3', 'Q4'];
@@ -53,18 +57,7 @@ async function read(study: Study, text: string, reading: ReadSettings) {
 beforeAll(() => {
   tmp = tempDir();
   studyFile = path.join(tmp.dir, 'marks.scalewright');
-  const study = Study.create(studyFile, { actor: TEST_ACTOR, app: 'test' });
-  const facet = addFacet(study, 'Test facet', '');
-  for (const code of CODES) {
-    addItem(study, {
-      code,
-      text: `Test wording of item ${code}`,
-      facetId: facet,
-      keying: 'forward',
-      sourceType: 'own-drafting',
-      sourceNote: '',
-    });
-  }
+  const study = createStudyWithPool(studyFile, CODES);
   study.close();
 });
 afterAll(() => tmp.cleanup());

@@ -3,7 +3,7 @@ import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { listRevisions } from '../../../db/repos/items.ts';
 import { setPhaseStatus } from '../../../db/repos/phase-state.ts';
 import { Study } from '../../../db/study.ts';
-import { addFacet } from '../../../app/phases/construct.ts';
+import { addFacet } from '../../../app/phases/construct/index.ts';
 import { RuleError } from '../../../app/phases/errors.ts';
 import { phaseOverview, signOffPhase } from '../../../app/phases/index.ts';
 import {
@@ -18,7 +18,7 @@ import {
   MIN_ITEMS_PER_FACET,
   previewItemImport,
   rewordItem,
-} from '../../../app/phases/items.ts';
+} from '../../../app/phases/items/index.ts';
 import { TEST_ACTOR, tempDir } from '../../helpers/tmp.ts';
 
 let tmp: ReturnType<typeof tempDir>;

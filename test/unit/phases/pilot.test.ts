@@ -22,10 +22,8 @@ import type { ScreeningResult } from '../../../app/engine/screening.ts';
 import type { ColumnMapping } from '../../../app/import/mapping.ts';
 import { NO_MISSING_CODES, type MissingCodes } from '../../../app/import/numbers.ts';
 import { analysisData, currentPilotDataset } from '../../../app/phases/analysis-data.ts';
-import { addFacet } from '../../../app/phases/construct.ts';
 import { RuleError } from '../../../app/phases/errors.ts';
 import { phaseOverview, reopenPhase, signOffPhase } from '../../../app/phases/index.ts';
-import { addItem } from '../../../app/phases/items.ts';
 import {
   automaticMapping,
   type CurrentOnImport,
@@ -39,8 +37,8 @@ import {
   screenDataset,
   screeningView,
   storeImport,
-} from '../../../app/phases/pilot.ts';
-import { readDataFile } from '../../../app/phases/pilot-read.ts';
+} from '../../../app/phases/pilot/index.ts';
+import { readDataFile } from '../../../app/import/read-data-file.ts';
 import { getRun, listRuns } from '../../../db/repos/analysis-runs.ts';
 import {
   currentExclusions,
@@ -53,6 +51,7 @@ import {
 } from '../../../db/repos/datasets.ts';
 import { getPhaseStatus, setPhaseStatus } from '../../../db/repos/phase-state.ts';
 import { Study } from '../../../db/study.ts';
+import { createStudyWithPool } from '../../helpers/study-data.ts';
 import { TEST_ACTOR, tempDir } from '../../helpers/tmp.ts';
 
 const utf8 = (s: string) => new TextEncoder().encode(s);
@@ -122,22 +121,10 @@ let tmp: ReturnType<typeof tempDir>;
 let study: Study;
 
 function poolStudy(codes: string[]): Study {
-  const s = Study.create(path.join(tmp.dir, `s${Math.random().toString(36).slice(2)}.scalewright`), {
-    actor: TEST_ACTOR,
-    app: 'test',
-  });
-  const facet = addFacet(s, 'Test facet', '');
-  for (const code of codes) {
-    addItem(s, {
-      code,
-      text: `Test wording of item ${code}`,
-      facetId: facet,
-      keying: 'forward',
-      sourceType: 'own-drafting',
-      sourceNote: '',
-    });
-  }
-  return s;
+  return createStudyWithPool(
+    path.join(tmp.dir, `s${Math.random().toString(36).slice(2)}.scalewright`),
+    codes,
+  );
 }
 
 async function importCsv(

@@ -40,7 +40,12 @@ let round1: RoundDetail;
 beforeAll(() => {
   tmp = tempDir();
   template = path.join(tmp.dir, 'template.scalewright');
-  Study.create(template, { actor: TEST_ACTOR, app: 'test' }, { init: fillDemoStudy }).close();
+  // Up to purification: the tests run further rounds and decisions, so the phase stays open.
+  Study.create(
+    template,
+    { actor: TEST_ACTOR, app: 'test' },
+    { init: (s) => fillDemoStudy(s, 'purification') },
+  ).close();
 });
 afterAll(() => tmp.cleanup());
 

@@ -5,10 +5,10 @@ import { fillDemoStudy } from '../../../app/demo/index.ts';
 import { DEMO_OFF_DOMAIN_ITEM } from '../../../app/demo/items.ts';
 import { DEMO_CROSS_LOADING_ITEM, DEMO_STRAIGHT_LINERS } from '../../../app/demo/pilot.ts';
 import { analysisData, currentPilotDataset } from '../../../app/phases/analysis-data.ts';
-import { addFacet } from '../../../app/phases/construct.ts';
+import { addFacet } from '../../../app/phases/construct/index.ts';
 import { RuleError } from '../../../app/phases/errors.ts';
 import { phaseOverview, reopenPhase, signOffPhase } from '../../../app/phases/index.ts';
-import { includeRespondents } from '../../../app/phases/pilot.ts';
+import { includeRespondents } from '../../../app/phases/pilot/index.ts';
 import {
   decideItem,
   decisionViews,
@@ -516,9 +516,8 @@ describe('the demo study', () => {
     demo = Study.create(
       path.join(demoDir.dir, 'demo.scalewright'),
       { actor: TEST_ACTOR, app: 'test' },
-      {
-        init: fillDemoStudy,
-      },
+      // The demo up to purification, which it leaves open for trying rounds.
+      { init: (study) => fillDemoStudy(study, 'purification') },
     );
   });
   afterEach(() => {

@@ -7,7 +7,7 @@ import { DEMO_EXPERTS, fillDemoReview } from '../../../app/demo/review.ts';
 import { fillDemoItems } from '../../../app/demo/items.ts';
 import type { ItemContentValidity } from '../../../app/engine/content.ts';
 import { signOffPhase } from '../../../app/phases/index.ts';
-import { benchmarksMet, compareRounds } from '../../../app/phases/review.ts';
+import { benchmarksMet, compareRounds } from '../../../app/phases/review/index.ts';
 import { TEST_ACTOR, tempDir } from '../../helpers/tmp.ts';
 
 function stats(over: Partial<ItemContentValidity>): ItemContentValidity {

@@ -6,10 +6,10 @@ import { Study } from '../../../db/study.ts';
 import { fillDemoStudy } from '../../../app/demo/index.ts';
 import { DEMO_OFF_DOMAIN_ITEM, DEMO_RETIRED_ITEM, DEMO_REVISED_ITEM } from '../../../app/demo/items.ts';
 import { demoRoundOneFile, demoRoundTwoFile } from '../../../app/demo/review.ts';
-import { addFacet } from '../../../app/phases/construct.ts';
+import { addFacet } from '../../../app/phases/construct/index.ts';
 import { RuleError } from '../../../app/phases/errors.ts';
 import { phaseOverview, signOffPhase } from '../../../app/phases/index.ts';
-import { addItem, changeItemState } from '../../../app/phases/items.ts';
+import { addItem, changeItemState } from '../../../app/phases/items/index.ts';
 import {
   addExpert,
   addRound,
@@ -20,7 +20,7 @@ import {
   reviewView,
   updateForm,
   withdrawRatings,
-} from '../../../app/phases/review.ts';
+} from '../../../app/phases/review/index.ts';
 import { TEST_ACTOR, tempDir } from '../../helpers/tmp.ts';
 
 let tmp: ReturnType<typeof tempDir>;

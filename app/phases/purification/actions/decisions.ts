@@ -12,7 +12,7 @@ import type { Study } from '../../../../db/study.ts';
 import { changeInPhase, requireOpen } from '../../change.ts';
 import { RuleError } from '../../errors.ts';
 import { PHASE, type ItemStanding, standingsOf } from '../standing.ts';
-import { type DecisionView, decisionViews } from '../views/workbench.ts';
+import { type DecisionView, decisionViews } from '../views/decisions.ts';
 
 export interface DecisionRequest {
   /** The round the decision is made on; default the latest. Only the latest round takes decisions. */

@@ -14,6 +14,7 @@ import { RuleError } from '../../errors.ts';
 import { PHASE, workingSet } from '../standing.ts';
 import { flagItem, type ItemFlag, ROUND_RULES } from '../rules/flags.ts';
 import { type RoundSummary, roundSummaries } from '../views/rounds.ts';
+import type { ItemDistribution, RoundResults } from '../results.ts';
 import {
   type FacetFactorRow,
   type FactorRequest,
@@ -56,24 +57,7 @@ export interface PreparedRound {
   fingerprint: string;
 }
 
-/** How often each response category was given (scored values: reverse-keyed items reversed). */
-export interface ItemDistribution {
-  /** Counts for each category from the declared minimum to the maximum. */
-  counts: number[];
-  missing: number;
-  /** Answers that are not one of the categories (e.g. 2.5). */
-  offCategory: number;
-}
-
-/** What a stored round's analysis run holds in `results`. */
-export interface RoundResults extends RoundJobOutput {
-  distributions: Record<string, ItemDistribution>;
-  flags: Record<string, ItemFlag[]>;
-  /** Facet-by-factor correspondence of the factor solution (absent in rounds stored before it). */
-  correspondence?: FacetFactorRow[];
-  /** Why the round has no factor analysis (absent in rounds stored before it). */
-  factorNote?: string | null;
-}
+export type { ItemDistribution, RoundResults } from '../results.ts';
 
 function fingerprintOf(parts: {
   datasetId: number;

@@ -6,7 +6,8 @@ import type { ChecklistItem, PhaseRules } from '../../types.ts';
 import { PHASE, workingSet } from '../standing.ts';
 import { criterionFor, fmt, ROUND_RULES } from './flags.ts';
 import { type RoundSummary, roundDetail, roundSummaries } from '../views/rounds.ts';
-import { decisionViews, lastDecisionBefore } from '../views/workbench.ts';
+import { decisionViews } from '../views/decisions.ts';
+import { lastDecisionBefore } from '../views/workbench.ts';
 
 /** "meets" or "below" the criterion, with the criterion and its source, for checklist text. */
 function criterionNote(summary: RoundSummary, criterion: ReliabilityCriterion): string {

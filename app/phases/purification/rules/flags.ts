@@ -3,7 +3,7 @@ import type { Study } from '../../../../db/study.ts';
 import type { ItemAnalysis, ItemResult } from '../../../engine/reliability.ts';
 import { type ReliabilityCriterion, reliabilityCriterion } from '../../../engine/reliability/criterion.ts';
 import { methodEntry, ruleThreshold } from '../../../engine/methods/index.ts';
-import { MIN_ITEMS_PER_FACET } from '../../items.ts';
+import { MIN_ITEMS_PER_FACET } from '../../items/index.ts';
 
 /**
  * Rules of thumb the item table flags against. None is a verdict: each only asks the researcher to

@@ -4,7 +4,7 @@ import { kmoLabel } from '../../../engine/factor/factorability.ts';
 import type { ItemFactorRequest } from '../../../engine/factor/item-factors.ts';
 import type { MlFit } from '../../../engine/factor/extraction.ts';
 import type { OmegaCoefficients } from '../../../engine/factor/omega-hierarchical.ts';
-import type { RoundResults } from '../actions/rounds.ts';
+import type { RoundResults } from '../results.ts';
 import { LOADING_RULES } from '../rules/factor.ts';
 import type { ItemFlag } from '../rules/flags.ts';
 

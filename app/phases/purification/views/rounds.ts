@@ -24,8 +24,8 @@ import {
   type RuleOfThumb,
   RULES_OF_THUMB,
 } from '../rules/flags.ts';
-import type { ItemDistribution, RoundResults } from '../actions/rounds.ts';
-import { type DecisionView, decisionViews } from './workbench.ts';
+import type { ItemDistribution, RoundResults } from '../results.ts';
+import { type DecisionView, decisionViews } from './decisions.ts';
 
 /** One round as the history lists it. */
 export interface RoundSummary {
