@@ -8,6 +8,7 @@ import { RuleError } from '../../phases/errors.ts';
 import { roundDetail, roundSummaries } from '../../phases/purification/index.ts';
 import { em } from './model.ts';
 import { recognised, renderAnalyses } from './analyses.ts';
+import { criteriaTable, groupsTable, hypothesesTable, latestRelations } from './relations.ts';
 import type { Writer } from './writer.ts';
 
 /** Run kinds whose results other sections already show. */
@@ -78,17 +79,22 @@ export function validitySection(w: Writer, study: Study): void {
     ['convergent', 'discriminant'],
     'Convergent and discriminant relations stated in advance',
   );
-  if (renderAnalyses(w, runs, ['hypotheses']) === 0 && planned > 0)
+  const relations = latestRelations(runs);
+  const tested =
+    (relations !== null && hypothesesTable(w, relations.run, relations.results)) ||
+    renderAnalyses(w, runs, ['hypotheses']) > 0;
+  if (!tested && planned > 0)
     w.notYet('tests of these hypotheses', 'No stored analysis tests the relations stated above.');
 
   w.heading(3, 'Criterion relations');
   const criteria = plannedRelations(w, study, ['criterion'], 'Criteria stated in advance');
-  if (criteria > 0)
+  if (!(relations !== null && criteriaTable(w, relations.run, relations.results)) && criteria > 0)
     w.notYet('criterion analyses', 'No stored analysis relates the scores to the criteria stated above.');
 
   w.heading(3, 'Known groups');
   const groups = plannedRelations(w, study, ['known-groups'], 'Known-groups comparisons stated in advance');
-  if (groups > 0) w.notYet('known-groups comparisons', 'No stored comparison of the groups stated above.');
+  if (!(relations !== null && groupsTable(w, relations.run, relations.results)) && groups > 0)
+    w.notYet('known-groups comparisons', 'No stored comparison of the groups stated above.');
 
   w.heading(3, 'Stability over time (test–retest)');
   const retest = listDatasets(study, 'retest');
@@ -100,7 +106,7 @@ export function validitySection(w: Writer, study: Study): void {
         : 'No retest data are held.',
     );
 
-  const other = runs.filter((r) => !recognised(r));
+  const other = runs.filter((r) => !recognised(r) && !(r.kind === 'relations' && relations?.run.id === r.id));
   if (other.length > 0) {
     w.heading(3, 'Other stored analyses');
     w.table(

@@ -39,7 +39,7 @@ beforeAll(() => {
   const study = Study.create(
     file,
     { actor: TEST_ACTOR, app: 'test' },
-    { title: 'Demo', init: fillDemoStudy },
+    { title: 'Demo', init: (study) => fillDemoStudy(study, 'purification') },
   );
   try {
     const pilot = currentPilotDataset(study);

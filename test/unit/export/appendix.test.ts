@@ -92,7 +92,13 @@ describe('the methods appendix of the demo study', () => {
     checkHtmlStructure(html);
     const text = decode(html);
     const documentXml = unzip(docx).get('word/document.xml')?.toString('utf8') ?? '';
-    const docxText = documentXml.replace(/<[^>]+>/g, '').replace(/&amp;/g, '&');
+    const docxText = documentXml
+      .replace(/<[^>]+>/g, '')
+      .replace(/&lt;/g, '<')
+      .replace(/&gt;/g, '>')
+      .replace(/&quot;/g, '"')
+      .replace(/&apos;/g, "'")
+      .replace(/&amp;/g, '&');
     for (const table of tables(doc)) {
       expect(text).toContain(table.caption);
       expect(docxText).toContain(table.caption);
@@ -226,10 +232,29 @@ describe('the methods appendix of the demo study', () => {
     for (const table of tables(doc)) expect(table.rows.length).toBeGreaterThan(0);
     const notYet = doc.blocks.filter((b) => b.kind === 'notice' && b.tone === 'not-yet').length;
     expect(notYet).toBeGreaterThanOrEqual(6);
-    const demoDoc = readStudy(demo, (study) => buildAppendix(study, { exportedAt: AT }));
-    const md = renderMarkdown(demoDoc);
+    // The demo worked only through purification has no validity runs yet: each says so.
+    const early = path.join(tmp.dir, 'early.scalewright');
+    Study.create(
+      early,
+      { actor: TEST_ACTOR, app: 'test' },
+      { title: 'Early', init: (study) => fillDemoStudy(study, 'purification') },
+    ).close();
+    const md = renderMarkdown(readStudy(early, (study) => buildAppendix(study, { exportedAt: AT })));
     expect(md).toContain('**Not yet done.** Confirmatory factor analysis');
     expect(md).toContain('**Not yet done.** Test–retest reliability');
+    expect(md).toContain('**Not yet done.** Tests of these hypotheses');
+    // The full demo has them: the planned relations are tested, criteria and groups compared.
+    const full = renderMarkdown(readStudy(demo, (study) => buildAppendix(study, { exportedAt: AT })));
+    for (const done of [
+      'Confirmatory factor analysis',
+      'Test–retest',
+      'Tests of these',
+      'Criterion',
+      'Known-groups',
+    ])
+      expect(full).not.toContain(`**Not yet done.** ${done}`);
+    expect(full).toMatch(/Hypotheses tested against the observed relations \(analysis run \d+\)/);
+    expect(full).toMatch(/Known-groups comparisons of the scale score/);
   });
 });
 
