@@ -2,7 +2,7 @@ import path from 'node:path';
 import Papa from 'papaparse';
 import type { Study } from '../../db/study.ts';
 import { screeningView } from '../phases/pilot/index.ts';
-import { roundDetail, roundSummaries } from '../phases/purification.ts';
+import { roundDetail, roundSummaries } from '../phases/purification/index.ts';
 import { reviewView } from '../phases/review/index.ts';
 import { RuleError } from '../phases/errors.ts';
 

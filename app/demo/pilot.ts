@@ -96,6 +96,13 @@ export const DEMO_OFF_DOMAIN_OWN_LOADING = 0.65;
 /** Loading of the double-negative item, lower because some respondents misread it. */
 export const DEMO_DOUBLE_NEGATIVE_ITEM = 'TR06';
 export const DEMO_DOUBLE_NEGATIVE_LOADING = 0.42;
+/**
+ * The planted cross-loading item: a repairs item ("get home when my bike breaks down far from home")
+ * that also draws on route finding, loading on both facets' factors. Purification's factor analysis
+ * should flag it.
+ */
+export const DEMO_CROSS_LOADING_ITEM = 'RR07';
+export const DEMO_CROSS_LOADING = { facet: 'Route planning', own: 0.45, other: 0.45 } as const;
 /** Loadings of the other items are drawn once from this range (seeded). */
 const LOADING_RANGE = [0.58, 0.8] as const;
 /** Thresholds on the latent scale for the five points, before each item's shift (confidence leans high). */
@@ -141,6 +148,8 @@ export interface DemoItemTruth {
   loading: number;
   /** Loading on the item's own factor (the off-domain item only; 0 otherwise). */
   ownLoading: number;
+  /** A second facet the item also answers (the planted cross-loading item only), with its loading. */
+  cross: { facet: number; loading: number } | null;
   thresholds: number[];
   keying: 'forward' | 'reverse';
 }
@@ -155,17 +164,24 @@ export const DEMO_ITEM_TRUTH: readonly DemoItemTruth[] = (() => {
     const facet = DEMO_FACETS.findIndex((f) => f.name === item.facet);
     const drawn = LOADING_RANGE[0] + (LOADING_RANGE[1] - LOADING_RANGE[0]) * rng.next();
     const shift = (2 * rng.next() - 1) * THRESHOLD_SHIFT;
+    const crossFacet = DEMO_FACETS.findIndex((f) => f.name === DEMO_CROSS_LOADING.facet);
     const loading =
-      item.code === DEMO_OFF_DOMAIN_ITEM
-        ? DEMO_OFF_DOMAIN_LOADING
-        : item.code === DEMO_DOUBLE_NEGATIVE_ITEM
-          ? DEMO_DOUBLE_NEGATIVE_LOADING
-          : Math.round(drawn * 100) / 100;
+      item.code === DEMO_CROSS_LOADING_ITEM
+        ? DEMO_CROSS_LOADING.own
+        : item.code === DEMO_OFF_DOMAIN_ITEM
+          ? DEMO_OFF_DOMAIN_LOADING
+          : item.code === DEMO_DOUBLE_NEGATIVE_ITEM
+            ? DEMO_DOUBLE_NEGATIVE_LOADING
+            : Math.round(drawn * 100) / 100;
     return {
       code: item.code,
       facet,
       loading,
       ownLoading: item.code === DEMO_OFF_DOMAIN_ITEM ? DEMO_OFF_DOMAIN_OWN_LOADING : 0,
+      cross:
+        item.code === DEMO_CROSS_LOADING_ITEM
+          ? { facet: crossFacet, loading: DEMO_CROSS_LOADING.other }
+          : null,
       thresholds: BASE_THRESHOLDS.map((t) => Math.round((t + shift) * 100) / 100),
       keying: item.keying,
     };
@@ -234,12 +250,31 @@ function shuffle<T>(rng: Rng, values: T[]): T[] {
 const SCALE_MIN = 1;
 const SCALE_MAX = 5;
 
-function answer(item: DemoItemTruth, factors: number[], own: number, rng: Rng): number {
-  const unique = Math.sqrt(Math.max(0, 1 - item.loading ** 2 - item.ownLoading ** 2));
-  const latent = item.loading * factors[item.facet] + item.ownLoading * own + unique * rng.normal();
+/**
+ * An item's answer from the factors, the off-domain factor and the item's own unique draw `e`
+ * (standard normal): the latent response scaled so its variance is 1, cut at the item's thresholds.
+ * The pilot and the validation wave share it, so both samples come from one population.
+ */
+export function demoAnswer(item: DemoItemTruth, factors: number[], own: number, e: number): number {
+  const cross = item.cross;
+  const common = cross
+    ? item.loading ** 2 +
+      cross.loading ** 2 +
+      2 * item.loading * cross.loading * DEMO_FACTOR_CORRELATIONS[item.facet][cross.facet]
+    : item.loading ** 2;
+  const unique = Math.sqrt(Math.max(0, 1 - common - item.ownLoading ** 2));
+  const latent =
+    item.loading * factors[item.facet] +
+    (cross ? cross.loading * factors[cross.facet] : 0) +
+    item.ownLoading * own +
+    unique * e;
   let point = SCALE_MIN;
   for (const t of item.thresholds) if (latent > t) point++;
   return item.keying === 'reverse' ? SCALE_MIN + SCALE_MAX - point : point;
+}
+
+function answer(item: DemoItemTruth, factors: number[], own: number, rng: Rng): number {
+  return demoAnswer(item, factors, own, rng.normal());
 }
 
 function drawFactors(rng: Rng, chol: number[][]): number[] {

@@ -9,7 +9,7 @@ import {
   DEMO_ITEM_TRUTH,
   DEMO_MISSING_CODE,
   DEMO_PILOT_SEED,
-  type DemoItemTruth,
+  demoAnswer,
 } from './pilot.ts';
 
 /** The validation wave: a new sample of the demo population, drawn with its own seed. */
@@ -36,8 +36,6 @@ export const DEMO_TRIPS_LATER = { column: 'trips_next_4wk', reliability: 0.7 } a
 
 const MISSING_SHARE = 0.003;
 const DIARY_NOT_RETURNED = 0.12;
-const SCALE_MIN = 1;
-const SCALE_MAX = 5;
 
 function poisson(rng: Rng, mean: number): number {
   const limit = Math.exp(-mean);
@@ -48,12 +46,6 @@ function poisson(rng: Rng, mean: number): number {
     p *= rng.next();
   }
   return k;
-}
-
-function point(item: DemoItemTruth, latent: number): number {
-  let p = SCALE_MIN;
-  for (const t of item.thresholds) if (latent > t) p++;
-  return item.keying === 'reverse' ? SCALE_MIN + SCALE_MAX - p : p;
 }
 
 /** Standard deviation of the mean of the four facet factors under their correlations. */
@@ -87,10 +79,9 @@ export function generateDemoValidation(seed = DEMO_VALIDATION_SEED): { csv: stri
     const own = rng.normal();
     const shared = rng.normal();
     const answers = items.map((item) => {
-      const unique = Math.sqrt(Math.max(0, 1 - item.loading ** 2 - item.ownLoading ** 2));
       const planted = item.code === DEMO_PLANTED_RESIDUAL.a || item.code === DEMO_PLANTED_RESIDUAL.b;
       const e = planted ? Math.sqrt(1 - rc) * rng.normal() + Math.sqrt(rc) * shared : rng.normal();
-      const value = point(item, item.loading * factors[item.facet] + item.ownLoading * own + unique * e);
+      const value = demoAnswer(item, factors, own, e);
       return rng.next() < MISSING_SHARE ? DEMO_MISSING_CODE : value;
     });
     const noisyG = g + DEMO_GROUP_MODEL.noise * rng.normal();

@@ -14,6 +14,7 @@ import { type OneFactorFit, omegaTotal } from './reliability/omega.ts';
 import { type MeasurementError, measurementError } from './reliability/sem.ts';
 import { oddEvenSplitHalf, type SplitHalf } from './reliability/split-half.ts';
 import { checkBounds, type ResponseMatrix, type ScaleBounds } from './scoring.ts';
+import { guttmanLambda2, guttmanLambdas } from './factor/guttman.ts';
 import { ENGINE_VERSION } from './version.ts';
 import { ruleThreshold } from './methods/index.ts';
 
@@ -93,6 +94,13 @@ export interface ItemAnalysis {
   /** From a one-factor model of the varying items' correlations (`items`, in loading order); null when fewer than three vary. */
   omegaTotal: (Coefficient & { items: string[]; fit: OneFactorFit }) | null;
   splitHalf: SplitHalf | null;
+  /**
+   * Guttman's λ₂ and λ₆ from the covariances of the items that vary (registry ids
+   * `reliability.guttman-lambda2`, `reliability.guttman-lambda6`); null when fewer than two vary or
+   * (λ₆) the covariance matrix is singular. Absent from analyses stored before they were added.
+   */
+  lambda2?: Coefficient | null;
+  lambda6?: Coefficient | null;
   /** SEM and MDC95 of the sum score from alpha; null when alpha is above 1 (a non-PSD pairwise matrix). */
   measurementError: MeasurementError | null;
   warnings: string[];
@@ -272,6 +280,21 @@ export function analyseItems(input: ItemAnalysisInput): ItemAnalysis {
     warnings.push(error.message);
   }
 
+  let lambda2: Coefficient | null = null;
+  let lambda6: Coefficient | null = null;
+  if (varying.length >= 2) {
+    const c = varying.map((i) => varying.map((j) => moments.covariance[i][j]));
+    try {
+      lambda2 = { value: guttmanLambda2(c) };
+      const g = guttmanLambdas(c);
+      if (Number.isFinite(g.lambda6)) lambda6 = { value: g.lambda6 };
+      else warnings.push("Guttman's λ₆ is not reported: the item covariance matrix is singular");
+    } catch (error) {
+      if (!(error instanceof EngineError)) throw error;
+      warnings.push(`Guttman's λ₆ is not reported: ${error.message}`);
+    }
+  }
+
   const feldtN = missing === 'pairwise' ? moments.minPairN : n;
   const alphaCI = feldtInterval(alphaValue, feldtN, k, level);
 
@@ -324,6 +347,8 @@ export function analyseItems(input: ItemAnalysisInput): ItemAnalysis {
     bootstrapCI,
     omegaTotal: omega,
     splitHalf,
+    lambda2,
+    lambda6,
     measurementError: sem,
     warnings,
   };
@@ -412,6 +437,8 @@ export function itemAnalysisMethods(a: ItemAnalysis): string[] {
   if (a.bootstrapCI) ids.push('alpha.bootstrap-ci');
   if (a.omegaTotal) ids.push('omega.total', 'omega.one-factor-fit');
   if (a.splitHalf) ids.push('split-half.spearman-brown');
+  if (a.lambda2) ids.push('reliability.guttman-lambda2');
+  if (a.lambda6) ids.push('reliability.guttman-lambda6');
   if (a.measurementError) ids.push('sem.classical', 'sem.mdc95');
   if (a.n < FEW_RESPONDENTS) ids.push('reliability.few-respondents');
   return ids;

@@ -10,7 +10,7 @@ import { appendixRules } from './appendix/rules.ts';
 import { constructRules } from './construct/index.ts';
 import { itemsRules } from './items/index.ts';
 import { pilotRules } from './pilot/index.ts';
-import { purificationRules } from './purification.ts';
+import { purificationRules } from './purification/index.ts';
 import { reviewRules } from './review/index.ts';
 import { validityRules } from './validity/index.ts';
 import { RuleError } from './errors.ts';

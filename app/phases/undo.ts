@@ -5,7 +5,7 @@ import type { Study } from '../../db/study.ts';
 import { requireOpen } from './change.ts';
 import { RuleError } from './errors.ts';
 import { includeRespondents } from './pilot/index.ts';
-import { reverseDecision } from './purification.ts';
+import { reverseDecision } from './purification/index.ts';
 
 /**
  * "Undo the last change": never a deletion. The most recent change in the decision log is reversed
@@ -34,6 +34,8 @@ export const NOT_UNDOABLE: Record<string, string> = {
   'exclusions-reversed': 'to exclude these respondents again, exclude them with a new reason',
   'signed-off': 'a sign-off is lifted by reopening the phase, with a reason',
   reopened: 'a reopened phase is closed again by signing it off',
+  'facet-split':
+    'move the items back to the facet they came from (each move is reversed like any move), then retire the new facet in the Construct phase',
 };
 
 /** The last change in the log and whether undo can reverse it. */

@@ -1,5 +1,11 @@
 import { resampleProgress } from '../api/format.ts';
 import { simulateEigenvalues } from '../engine/factor/factor-count.ts';
+import { EngineError } from '../engine/errors.ts';
+import {
+  analyseItemFactors,
+  type ItemFactorAnalysis,
+  type ItemFactorRequest,
+} from '../engine/factor/item-factors.ts';
 import { polychoricMatrix } from '../engine/factor/polychoric.ts';
 import {
   analyseItems,
@@ -18,11 +24,17 @@ type AnalysisJobInput = Omit<ItemAnalysisInput, 'bootstrap'> & {
 /** A purification round: the whole item set, then each facet's items, with the same options. */
 export interface RoundJobInput extends AnalysisJobInput {
   facets: { facetId: number; items: string[] }[];
+  /** The factor analysis of the round's items; absent: none. */
+  factor?: ItemFactorRequest;
 }
 
 export interface RoundJobOutput {
   scale: ItemAnalysis;
   facets: { facetId: number; analysis: ItemAnalysis }[];
+  /** Absent in rounds stored before rounds ran a factor analysis; null when none was asked or possible. */
+  factor?: ItemFactorAnalysis | null;
+  /** Why the factor analysis could not run (e.g. an item without variance), in words. */
+  factorRefused?: string | null;
 }
 
 export type { JobContext } from './job-context.ts';
@@ -44,20 +56,46 @@ export const JOBS = {
     }),
   /** One purification round: the scale, then each facet (by id), as `analyseScaleAndFacets` does it. */
   'purification.round': (input: RoundJobInput, ctx: JobContext): RoundJobOutput => {
-    const { facets, ...common } = input;
+    const { facets, factor: factorRequest, ...common } = input;
+    // One progress scale over every stage: the bootstraps, then the polychoric pairs, then the
+    // parallel-analysis replications, each counted in its own units, so the bar never goes back.
+    const p = input.names.length;
+    const boot = (input.bootstrap?.resamples ?? 0) * (facets.length + 1);
+    const pairs = factorRequest?.correlation === 'polychoric' ? (p * (p - 1)) / 2 : 0;
+    const total = boot + pairs + (factorRequest?.iterations ?? 0);
     const result = analyseScaleAndFacets({
       ...common,
       facets: facets.map(({ facetId, items }) => ({ facet: facetId, items })),
       bootstrap: input.bootstrap && {
         ...input.bootstrap,
-        onProgress: (done: number, total: number) =>
+        onProgress: (done: number) =>
           ctx.progress(done, total, resampleProgress(done, input.bootstrap?.resamples ?? 0, facets.length)),
         shouldStop: () => ctx.shouldStop(),
       },
     });
+    let factor: ItemFactorAnalysis | null = null;
+    let factorRefused: string | null = null;
+    if (factorRequest) {
+      try {
+        factor = analyseItemFactors(input.names, input.data, factorRequest, {
+          onProgress: (done, stageTotal, stage) => {
+            const before = stage === 'parallel analysis' ? boot + pairs : boot;
+            const units = stage === 'parallel analysis' ? factorRequest.iterations : pairs;
+            const at = before + (stageTotal > 0 ? (done / stageTotal) * units : units);
+            ctx.progress(Math.round(at), total, `${stage}: ${done} of ${stageTotal}`);
+          },
+          shouldStop: () => ctx.shouldStop(),
+        });
+      } catch (error) {
+        if (!(error instanceof EngineError) || error.code === 'cancelled') throw error;
+        factorRefused = error.message;
+      }
+    }
     return {
       scale: result.scale,
       facets: result.facets.map(({ facet, analysis }) => ({ facetId: facet, analysis })),
+      factor,
+      factorRefused,
     };
   },
   /**

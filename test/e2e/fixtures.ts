@@ -44,7 +44,8 @@ export const test = base.extend<{ app: AppUnderTest; demoThrough: 'purification'
     );
     let output = '';
     const url = await new Promise<string>((resolve, reject) => {
-      const timer = setTimeout(() => reject(new Error(`the app did not start:\n${output}`)), 30_000);
+      // Starting creates the demo study, whose purification rounds run a factor analysis each.
+      const timer = setTimeout(() => reject(new Error(`the app did not start:\n${output}`)), 60_000);
       const onData = (chunk: Buffer) => {
         output += chunk.toString();
         const match = /open (http:\/\/127\.0\.0\.1:\d+\/#token=\S+)/.exec(output);

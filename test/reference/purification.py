@@ -75,6 +75,18 @@ def feldt(a, n, k, level=0.95):
     return 1 - (1 - a) * scipy.stats.f.ppf(1 - g / 2, df1, df2), 1 - (1 - a) * scipy.stats.f.ppf(g / 2, df1, df2)
 
 
+def guttman(x):
+    """Guttman (1945) lambda 2 and lambda 6 from the sample covariance matrix (divisor n - 1)."""
+    c = np.cov(x, rowvar=False, ddof=1)
+    k = c.shape[0]
+    v = c.sum()
+    l1 = 1 - np.trace(c) / v
+    off = c - np.diag(np.diag(c))
+    l2 = l1 + np.sqrt(k / (k - 1) * (off**2).sum()) / v
+    l6 = 1 - (1 / np.diag(np.linalg.inv(c))).sum() / v
+    return float(l2), float(l6)
+
+
 def round_values(codes, answers, keep_rows, items):
     cols = [codes.index(c) for c in items]
     x = answers[np.ix_(keep_rows, cols)].copy()
@@ -101,10 +113,13 @@ def round_values(codes, answers, keep_rows, items):
     for facet in FACETS:
         members = [j for j, c in enumerate(items) if c.startswith(facet) or (facet == "TR" and c == OFF_DOMAIN)]
         facets[facet] = float(alpha(x[:, members]))
+    lambda2, lambda6 = guttman(x)
     return {
         "n": int(n),
         "k": int(k),
         "alpha": float(a),
+        "lambda2": lambda2,
+        "lambda6": lambda6,
         "feldt": [float(lower), float(upper)],
         "items": per_item,
         "facetAlpha": facets,

@@ -2,7 +2,14 @@ import { z } from 'zod';
 import {
   decideItem,
   decideItems,
+  mergeFacets,
+  splitFacet,
+  CORRELATIONS,
+  EXTRACTIONS,
   MAX_BOOTSTRAP_RESAMPLES,
+  MAX_PA_ITERATIONS,
+  MIN_PA_ITERATIONS,
+  ROTATIONS,
   MIN_BOOTSTRAP_RESAMPLES,
   type PreparedRound,
   prepareRound,
@@ -10,7 +17,7 @@ import {
   reverseDecision,
   roundDetail,
   storeRound,
-} from '../../phases/purification.ts';
+} from '../../phases/purification/index.ts';
 import { command } from '../define.ts';
 import { LongJob } from '../long-job.ts';
 import { id, text } from './schemas.ts';
@@ -27,6 +34,17 @@ const roundOptions = z.object({
   bootstrap: z
     .object({
       resamples: z.number().int().min(MIN_BOOTSTRAP_RESAMPLES).max(MAX_BOOTSTRAP_RESAMPLES).optional(),
+      seed: z.number().int().min(0).max(0xffff_ffff).optional(),
+    })
+    .nullable()
+    .optional(),
+  factor: z
+    .object({
+      factors: z.number().int().min(1).max(500).optional(),
+      extraction: z.enum(EXTRACTIONS).optional(),
+      rotation: z.enum(ROTATIONS).optional(),
+      correlation: z.enum(CORRELATIONS).optional(),
+      iterations: z.number().int().min(MIN_PA_ITERATIONS).max(MAX_PA_ITERATIONS).optional(),
       seed: z.number().int().min(0).max(0xffff_ffff).optional(),
     })
     .nullable()
@@ -86,6 +104,19 @@ export const purificationCommands = {
       ...reasons,
     }),
     (s, input) => decideItems(s.study, input),
+  ),
+  'purification.mergeFacets': command(
+    z.object({ fromFacetId: id, intoFacetId: id, ...reasons }),
+    (s, input) => mergeFacets(s.study, input),
+  ),
+  'purification.splitFacet': command(
+    z.object({
+      facetId: id,
+      itemCodes: z.array(text(40)).min(1, 'choose at least one item').max(500),
+      newFacet: z.object({ name: text(200), definition: text(10_000) }),
+      ...reasons,
+    }),
+    (s, input) => splitFacet(s.study, input),
   ),
   'purification.reverse': command(z.object({ decisionId: id, ...reasons }), (s, input) =>
     reverseDecision(s.study, input.decisionId, input),

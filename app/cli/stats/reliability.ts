@@ -67,6 +67,8 @@ export function reliabilityJson(loaded: LoadedItems, a: ItemAnalysis, seed: numb
         }
       : null,
     splitHalf: a.splitHalf,
+    lambda2: a.lambda2?.value ?? null,
+    lambda6: a.lambda6?.value ?? null,
     sdTotal: a.measurementError?.sdTotal ?? null,
     sem: a.measurementError?.sem ?? null,
     mdc95: a.measurementError?.mdc95 ?? null,
@@ -138,6 +140,10 @@ export function reliabilityTable(loaded: LoadedItems, a: ItemAnalysis): string {
       ),
     );
   }
+  lines.push(
+    row('Guttman’s λ₂', bounded(a.lambda2?.value), versus(a.lambda2?.value)),
+    row('Guttman’s λ₆', bounded(a.lambda6?.value), versus(a.lambda6?.value)),
+  );
   if (a.measurementError) {
     lines.push(
       row(

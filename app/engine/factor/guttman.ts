@@ -20,6 +20,25 @@ export interface GuttmanLambdas {
  * @example guttmanLambdas([[1, .5, .5], [.5, 1, .5], [.5, .5, 1]]).lambda2 // 0.75
  */
 export function guttmanLambdas(c: number[][]): GuttmanLambdas {
+  const { lambda1, lambda2, total } = lowerBoundsWithoutInverse(c);
+  const k = c.length;
+  const inv = inverse(c);
+  let errors = 0;
+  for (let i = 0; i < k; i++) errors += 1 / inv[i][i];
+  return { lambda1, lambda2, lambda6: 1 - errors / total };
+}
+
+/**
+ * Guttman's λ₂ alone (see guttmanLambdas), which needs no inverse and so exists for a singular C too.
+ *
+ * Cost: O(k²). Throws EngineError with fewer than two items, a non-square matrix or a non-positive
+ * total variance.
+ */
+export function guttmanLambda2(c: number[][]): number {
+  return lowerBoundsWithoutInverse(c).lambda2;
+}
+
+function lowerBoundsWithoutInverse(c: number[][]): { lambda1: number; lambda2: number; total: number } {
   const k = c.length;
   if (k < 2) throw new EngineError("Guttman's lambdas require at least two items", 'too-few-items');
   if (c.some((row) => row.length !== k))
@@ -36,9 +55,5 @@ export function guttmanLambdas(c: number[][]): GuttmanLambdas {
   }
   if (!(total > 0)) throw new EngineError("Guttman's lambdas require a positive sum-score variance");
   const lambda1 = 1 - trace / total;
-  const lambda2 = lambda1 + Math.sqrt((k / (k - 1)) * offSquares) / total;
-  const inv = inverse(c);
-  let errors = 0;
-  for (let i = 0; i < k; i++) errors += 1 / inv[i][i];
-  return { lambda1, lambda2, lambda6: 1 - errors / total };
+  return { lambda1, lambda2: lambda1 + Math.sqrt((k / (k - 1)) * offSquares) / total, total };
 }

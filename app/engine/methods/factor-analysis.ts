@@ -474,6 +474,16 @@ export const FACTOR_ANALYSIS_METHODS: RegistryEntry[] = [
   },
   {
     kind: 'rule',
+    id: 'rule.intended-facet',
+    name: 'Primary factor and intended facet',
+    wording:
+      'Each facet is matched to the factor its items load on most; an item whose largest loading lies on another factor than its facet’s is worth a look.',
+    thresholds: {},
+    commonPractice: true,
+    references: [],
+  },
+  {
+    kind: 'rule',
     id: 'rule.efa-sample-size',
     name: 'Sample size for factor analysis',
     wording: '100 respondents is poor, 200 fair, 300 good, 500 very good, 1000 or more excellent.',

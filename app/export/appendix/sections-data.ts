@@ -4,7 +4,12 @@ import { currentExclusions, listDatasets } from '../../../db/repos/datasets.ts';
 import type { Study } from '../../../db/study.ts';
 import { currentPilotDataset } from '../../phases/analysis-data.ts';
 import { ROLE_LABEL, screeningView } from '../../phases/pilot/index.ts';
-import { decisionViews, RULES_OF_THUMB, roundDetail, roundSummaries } from '../../phases/purification.ts';
+import {
+  decisionViews,
+  RULES_OF_THUMB,
+  roundDetail,
+  roundSummaries,
+} from '../../phases/purification/index.ts';
 import { renderAnalyses } from './analyses.ts';
 import { alphaAcrossRounds } from './figures.ts';
 import { em, type Inline } from './model.ts';

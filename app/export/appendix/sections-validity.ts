@@ -5,7 +5,7 @@ import { listDatasets } from '../../../db/repos/datasets.ts';
 import type { Study } from '../../../db/study.ts';
 import { type InstrumentForm, instrumentForm } from '../../phases/appendix/instrument-form.ts';
 import { RuleError } from '../../phases/errors.ts';
-import { roundDetail, roundSummaries } from '../../phases/purification.ts';
+import { roundDetail, roundSummaries } from '../../phases/purification/index.ts';
 import { em } from './model.ts';
 import { recognised, renderAnalyses } from './analyses.ts';
 import { criteriaTable, groupsTable, hypothesesTable, latestRelations } from './relations.ts';

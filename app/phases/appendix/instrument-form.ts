@@ -10,7 +10,7 @@ import { listRounds, type RoundRecord } from '../../../db/repos/purification.ts'
 import type { Study } from '../../../db/study.ts';
 import { changeInPhase } from '../change.ts';
 import { RuleError } from '../errors.ts';
-import { purificationRules } from '../purification.ts';
+import { purificationRules } from '../purification/index.ts';
 
 /**
  * The final instrument's form: which items it prints (the purification phase's retained set), in

@@ -10,7 +10,7 @@ import { type ScreeningOptions, screenRespondents } from '../../engine/screening
 import { reverseScore, type ScaleBounds } from '../../engine/scoring.ts';
 import { JOBS } from '../../workers/jobs.ts';
 import { RuleError } from '../errors.ts';
-import { distributionOf, flagItem } from '../purification.ts';
+import { distributionOf, type ItemFactorRequestStored, roundResults } from '../purification/index.ts';
 import { VALIDITY_RERUNS } from '../validity/rerun.ts';
 import { InputsGone, type RerunKind } from './rerun-kind.ts';
 
@@ -25,16 +25,36 @@ function storedDataset(study: Study, datasetId: unknown) {
 
 interface StoredRoundInputs {
   dataset: { id: number; excludedRespondents: number[] };
-  items: { code: string; keying: 'forward' | 'reverse' }[];
+  items: { itemId?: number; code: string; facetId?: number | null; keying: 'forward' | 'reverse' }[];
   reverseKeyed: string[];
   bounds: ScaleBounds;
-  facets: { facetId: number; items: string[] }[];
+  facets: { facetId: number; name?: string; items: string[] }[];
 }
 
 interface StoredRoundOptions {
   missing: MissingMethod;
   ciLevel: number;
   bootstrap: { resamples: number; seed: number } | null;
+  /** Absent in rounds stored before rounds ran a factor analysis. */
+  factor?: ItemFactorRequestStored | null;
+}
+
+/**
+ * A round stored before rounds ran a factor analysis and reported Guttman's lambdas: its re-run is
+ * compared without those parts, which the round never had.
+ */
+function withoutFactorParts(results: Record<string, unknown>): Record<string, unknown> {
+  const { factor: _f, factorRefused: _r, correspondence: _c, factorNote: _n, ...rest } = results;
+  const strip = (a: Record<string, unknown>) => {
+    const { lambda2: _l2, lambda6: _l6, ...other } = a;
+    return other;
+  };
+  const scale = strip(rest.scale as Record<string, unknown>);
+  const facets = (rest.facets as { facetId: number; analysis: Record<string, unknown> }[]).map((f) => ({
+    ...f,
+    analysis: strip(f.analysis),
+  }));
+  return { ...rest, scale, facets };
 }
 
 /**
@@ -78,6 +98,7 @@ const purificationRound: RerunKind = {
         facets: inputs.facets
           .filter((f) => f.items.length >= 2)
           .map(({ facetId, items }) => ({ facetId, items })),
+        ...(options.factor ? { factor: options.factor } : {}),
       },
       { progress: () => undefined, shouldStop: () => false },
     );
@@ -88,9 +109,22 @@ const purificationRound: RerunKind = {
         inputs.bounds,
       );
     });
-    const flags: Record<string, ReturnType<typeof flagItem>> = {};
-    for (const item of result.scale.items) flags[item.name] = flagItem(item, result.scale);
-    return { ...result, distributions, flags };
+    const stored = run.results as Record<string, unknown>;
+    const facetNames = new Map(inputs.facets.map((f) => [f.facetId, f.name ?? `facet ${f.facetId}`]));
+    const out = roundResults(
+      result,
+      inputs.items.map((it) => ({
+        itemId: it.itemId ?? 0,
+        code: it.code,
+        facetId: it.facetId ?? null,
+        keying: it.keying,
+      })),
+      facetNames,
+      distributions,
+      (stored.factorNote as string | null | undefined) ?? null,
+    );
+    if (!('factor' in stored)) return withoutFactorParts(out as unknown as Record<string, unknown>);
+    return out;
   },
 };
 

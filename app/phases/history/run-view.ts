@@ -40,7 +40,7 @@ const ECHOED = new Set(['inputs', 'engineVersion']);
  * Single values of the results, shallowest first, by path, up to `max`: a list gives its length;
  * the echo of the inputs and maps with one entry per item or respondent (over 20 keys) are left out.
  */
-function headline(results: unknown, max = 16): RunView['resultsSummary'] {
+function headline(results: unknown, max = 32): RunView['resultsSummary'] {
   const out: RunView['resultsSummary'] = [];
   let level: [string, unknown][] = [['', results]];
   for (let depth = 0; depth < 4 && level.length > 0 && out.length < max; depth++) {

@@ -6,6 +6,8 @@ import { PhaseControls, SignOffAside } from '../../shared/phase-controls.tsx';
 import { useQuery } from '../../shared/use-command.ts';
 import { AlphaIfDeletedChart, DistributionChart, ItemTotalChart } from './charts.tsx';
 import { DecisionPanel } from './DecisionPanel.tsx';
+import { FacetDecision } from './FacetDecision.tsx';
+import { FactorPanel } from './FactorPanel.tsx';
 import { bounded, plural } from '../../../app/api/format.ts';
 import { BatchDecision } from './BatchDecision.tsx';
 import { HistoryPanel } from './HistoryPanel.tsx';
@@ -98,6 +100,7 @@ export function PurificationScreen() {
               nextNumber={(latest?.number ?? 0) + 1}
               items={next.items.length}
               disabled={locked || next.items.length < 2}
+              facets={new Set(data.items.filter((it) => it.status === 'in').map((it) => it.facetId)).size}
               running={data.running[0]}
               onStored={stored}
             />
@@ -209,6 +212,8 @@ function RoundView(props: {
           />
         </Panel>
         {detail.isLatest && !props.locked && <BatchDecision detail={detail} decisions={props.decisions} />}
+        <FactorPanel detail={detail} />
+        {detail.isLatest && !props.locked && <FacetDecision detail={detail} facets={props.facets} />}
         <Panel title="Charts">
           <div className="chart-pair">
             <AlphaIfDeletedChart rows={detail.rows} alpha={detail.scale.alpha.value} />

@@ -47,7 +47,11 @@ export function ReliabilityPanel({ detail }: { detail: RoundDetail }) {
           <dd>{scale.alphaStandardized ? bounded(scale.alphaStandardized.value) : '—'}</dd>
         </div>
         <div>
-          <dt title="From a one-factor model">{STAT_LABELS.omegaTotal}</dt>
+          <dt
+            title={`From a one-factor model of the ${scale.omegaTotal?.items.length ?? scale.k} items that vary`}
+          >
+            {STAT_LABELS.omegaTotal} <span className="model-note">one factor</span>
+          </dt>
           <dd>
             {scale.omegaTotal ? (
               <>
@@ -75,6 +79,16 @@ export function ReliabilityPanel({ detail }: { detail: RoundDetail }) {
           <dt title="Odd–even split-half correlation stepped up with Spearman–Brown">Split-half (S–B)</dt>
           <dd>{bounded(scale.splitHalf?.spearmanBrown)}</dd>
         </div>
+        <div>
+          <dt title="Guttman’s lower bound λ₂ from the item covariances">Guttman’s λ₂</dt>
+          <dd>{scale.lambda2 === undefined ? 'not in this round' : bounded(scale.lambda2?.value)}</dd>
+        </div>
+        <div>
+          <dt title="Guttman’s λ₆: each item’s error variance from its regression on the other items">
+            Guttman’s λ₆
+          </dt>
+          <dd>{scale.lambda6 === undefined ? 'not in this round' : bounded(scale.lambda6?.value)}</dd>
+        </div>
       </dl>
 
       <table className="data-table facet-table">
@@ -86,7 +100,9 @@ export function ReliabilityPanel({ detail }: { detail: RoundDetail }) {
             <th className="num">α</th>
             <th>{level}% CI (Feldt)</th>
             <th>Criterion</th>
-            <th className="num">ω total</th>
+            <th className="num" title="From a one-factor model of the facet's own items">
+              ω total (one factor)
+            </th>
             <th>Note</th>
           </tr>
         </thead>

@@ -7,6 +7,8 @@ import { TaskProgress } from '../../shared/task-progress.tsx';
 import { useMutation } from '../../shared/use-command.ts';
 
 const DEFAULT_RESAMPLES = 1000;
+const ROTATIONS = ['oblimin', 'promax', 'geomin', 'varimax', 'quartimax', 'none'] as const;
+type Rotation = (typeof ROTATIONS)[number];
 
 /**
  * Runs the next round in a worker: the options that are stored with it, a progress bar with
@@ -16,6 +18,8 @@ export function RoundRunner(props: {
   nextNumber: number;
   items: number;
   disabled: boolean;
+  /** Facets among the next round's items: the default number of factors. */
+  facets: number;
   /** A round started earlier and not yet collected (after a reload or a visit elsewhere). */
   running: { taskId: string; round: number } | undefined;
   onStored(round: RoundSummary): void;
@@ -25,6 +29,11 @@ export function RoundRunner(props: {
   const [bootstrap, setBootstrap] = useState(true);
   const [resamples, setResamples] = useState(DEFAULT_RESAMPLES);
   const [seed, setSeed] = useState('');
+  const [factorAnalysis, setFactorAnalysis] = useState(true);
+  const [factors, setFactors] = useState('');
+  const [extraction, setExtraction] = useState<'paf' | 'minres' | 'ml'>('ml');
+  const [rotation, setRotation] = useState<Rotation>('oblimin');
+  const [correlation, setCorrelation] = useState<'pearson' | 'polychoric'>('pearson');
   const [task, setTask] = useState<{ id: string; round: number } | undefined>(
     props.running && { id: props.running.taskId, round: props.running.round },
   );
@@ -40,6 +49,14 @@ export function RoundRunner(props: {
       const started = await call('purification.startRound', {
         missing,
         bootstrap: bootstrap ? { resamples, seed: seed.trim() === '' ? undefined : Number(seed) } : null,
+        factor: factorAnalysis
+          ? {
+              factors: factors.trim() === '' ? undefined : Number(factors),
+              extraction,
+              rotation,
+              correlation,
+            }
+          : null,
       });
       setTask({ id: started.taskId, round: started.round });
     } catch (e) {
@@ -102,6 +119,62 @@ export function RoundRunner(props: {
                 onChange={(e) => setSeed(e.target.value)}
                 title="Blank: the round number, so a rerun repeats the resamples"
               />
+            </label>
+          </>
+        )}
+      </div>
+      <div className="runner-options factor-options">
+        <label className="check">
+          <input
+            type="checkbox"
+            checked={factorAnalysis}
+            onChange={(e) => setFactorAnalysis(e.target.checked)}
+          />
+          Factor analysis
+        </label>
+        {factorAnalysis && (
+          <>
+            <label>
+              Factors
+              <input
+                type="number"
+                min={1}
+                value={factors}
+                placeholder={String(Math.max(1, props.facets))}
+                onChange={(e) => setFactors(e.target.value)}
+                title="Blank: as many factors as facets; the round shows every count rule beside the choice"
+              />
+            </label>
+            <label>
+              Extraction
+              <select
+                value={extraction}
+                onChange={(e) => setExtraction(e.target.value as 'paf' | 'minres' | 'ml')}
+              >
+                <option value="ml">maximum likelihood</option>
+                <option value="paf">principal axis</option>
+                <option value="minres">minimum residual</option>
+              </select>
+            </label>
+            <label>
+              Rotation
+              <select value={rotation} onChange={(e) => setRotation(e.target.value as Rotation)}>
+                {ROTATIONS.map((r) => (
+                  <option key={r} value={r}>
+                    {r === 'none' ? 'none (unrotated)' : r}
+                  </option>
+                ))}
+              </select>
+            </label>
+            <label>
+              Correlations
+              <select
+                value={correlation}
+                onChange={(e) => setCorrelation(e.target.value as 'pearson' | 'polychoric')}
+              >
+                <option value="pearson">Pearson</option>
+                <option value="polychoric">polychoric</option>
+              </select>
             </label>
           </>
         )}

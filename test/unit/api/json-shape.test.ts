@@ -43,6 +43,7 @@ beforeAll(() => {
   tmp = tempDir('scalewright-json-');
   session = new Session(TEST_ACTOR, 'test');
   session.create(path.join(tmp.dir, 'demo.scalewright'), 'Demo');
+  // The whole demo: the test reopens validity and purification to run their analyses and decisions.
   fillDemoStudy(session.study);
 });
 
@@ -212,6 +213,19 @@ describe('every command output is plain JSON data', () => {
     const last = await call<{ seq: number; undoable: boolean }>('log.lastChange');
     expect(last.undoable).toBe(true);
     await call('log.undo', { seq: last.seq, reason: 'Reversal was a slip.' });
+    const facets = (await call<{ facets: { id: number; name: string }[] }>('purification.view')).facets;
+    const byName = (name: string) => facets.find((f) => f.name === name)?.id as number;
+    const split = await call<{ facetId: number }>('purification.splitFacet', {
+      facetId: byName('Route planning'),
+      itemCodes: ['RP01', 'RP03'],
+      newFacet: { name: 'Route finding', definition: 'Finding the way on a trip (test).' },
+      domainRationale: 'Two kinds of planning (test).',
+    });
+    await call('purification.mergeFacets', {
+      fromFacetId: split.facetId,
+      intoFacetId: byName('Route planning'),
+      domainRationale: 'One kind after all (test).',
+    });
   });
 
   it('construct: reopened, edited, signed off again', async () => {

@@ -4,7 +4,11 @@ import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { dispatch } from '../../../app/api/dispatch.ts';
 import { Session } from '../../../app/api/session.ts';
 import { addFacet } from '../../../app/phases/construct/index.ts';
-import type { RoundDetail, RoundSummary } from '../../../app/phases/purification.ts';
+import {
+  FACTOR_DEFAULTS,
+  type RoundDetail,
+  type RoundSummary,
+} from '../../../app/phases/purification/index.ts';
 import type { TaskStatus } from '../../../app/workers/tasks.ts';
 import { listRounds } from '../../../db/repos/purification.ts';
 import { insertFixturePool, responsesCsv, storeCsv } from '../../helpers/study-data.ts';
@@ -74,7 +78,8 @@ describe('purification through the command table', () => {
     const during = await ok<{ running: { taskId: string; round: number }[] }>('purification.view', {});
     expect(during.running).toEqual([{ taskId: started.taskId, round: 1 }]);
     const status = await waitUntilFinished(started.taskId);
-    expect(status).toMatchObject({ state: 'done', total: 400 * 5 });
+    // One progress scale: 400 resamples for the scale and four facets, then the parallel analysis.
+    expect(status).toMatchObject({ state: 'done', total: 400 * 5 + FACTOR_DEFAULTS.iterations });
     const round = await ok<RoundSummary>('purification.collectRound', { taskId: started.taskId });
     expect(round).toMatchObject({ number: 1, n: fixture.round1WithStraightLiners.n });
     expect(round.alpha).toBeCloseTo(fixture.round1WithStraightLiners.alpha, 9);

@@ -2,7 +2,7 @@ import { createElement } from 'react';
 import { renderToStaticMarkup } from 'react-dom/server';
 import { describe, expect, it } from 'vitest';
 import { sourceNoteLines, sourceNotes } from '../../../app/api/source-notes.ts';
-import { RULES_OF_THUMB } from '../../../app/phases/purification.ts';
+import { RULES_OF_THUMB } from '../../../app/phases/purification/index.ts';
 import { SourceNotes } from '../../../renderer/shared/source-notes.tsx';
 
 // The sources quoted below are the registry's own entries (app/engine/methods/); the check is that

@@ -4,7 +4,7 @@ import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { dispatch } from '../../../app/api/dispatch.ts';
 import { Session } from '../../../app/api/session.ts';
 import { addFacet } from '../../../app/phases/construct/index.ts';
-import { runRound } from '../../../app/phases/purification.ts';
+import { runRound } from '../../../app/phases/purification/index.ts';
 import type { LastChange } from '../../../app/phases/undo.ts';
 import type { LogEntry } from '../../../db/decision-log.ts';
 import { setPhaseStatus } from '../../../db/repos/phase-state.ts';

@@ -10,7 +10,7 @@ import { buildAppendix } from '../../../app/export/appendix/index.ts';
 import type { Figure, Table } from '../../../app/export/appendix/model.ts';
 import { analysisData, currentPilotDataset } from '../../../app/phases/analysis-data.ts';
 import { recordRun } from '../../../app/phases/change.ts';
-import { roundSummaries } from '../../../app/phases/purification.ts';
+import { roundSummaries } from '../../../app/phases/purification/index.ts';
 import { listFacets } from '../../../db/repos/construct.ts';
 import { listItems } from '../../../db/repos/items.ts';
 import { Study } from '../../../db/study.ts';

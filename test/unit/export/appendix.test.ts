@@ -11,7 +11,7 @@ import type { AppendixDocument, Table } from '../../../app/export/appendix/model
 import { renderMarkdown } from '../../../app/export/appendix/markdown.ts';
 import { currentPilotDataset } from '../../../app/phases/analysis-data.ts';
 import { screeningView } from '../../../app/phases/pilot/index.ts';
-import { roundSummaries } from '../../../app/phases/purification.ts';
+import { roundSummaries } from '../../../app/phases/purification/index.ts';
 import { loadDatasetFile } from '../../../db/repos/datasets.ts';
 import { Study } from '../../../db/study.ts';
 import { runCli } from '../../helpers/cli.ts';

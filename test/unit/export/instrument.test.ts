@@ -10,10 +10,10 @@ import { fillDemoStudy } from '../../../app/demo/index.ts';
 import { intraclassCorrelations, iccMeasurementError } from '../../../app/engine/icc.ts';
 import { instrumentFiles } from '../../../app/export/instrument/index.ts';
 import { recordRun } from '../../../app/phases/change.ts';
-import { decideItem } from '../../../app/phases/purification.ts';
+import { decideItem } from '../../../app/phases/purification/index.ts';
 import { analysisData } from '../../../app/phases/analysis-data.ts';
 import { setInstrumentForm } from '../../../app/phases/appendix/instrument-form.ts';
-import type { RoundResults } from '../../../app/phases/purification.ts';
+import type { RoundResults } from '../../../app/phases/purification/index.ts';
 import { runCliHere } from '../../helpers/cli.ts';
 import { TEST_ACTOR, tempDir } from '../../helpers/tmp.ts';
 
@@ -208,7 +208,7 @@ describe('the files of the demo study', () => {
     expect(latin.startsWith('%PDF-')).toBe(true);
     expect(latin).toMatch(/DejaVuSerif/);
     const pages = latin.match(/\/Type \/Page\b(?!s)/g)?.length;
-    // 30 items at about 19 per A4 page: two pages of items, then the researcher's page.
+    // The demo keeps 29 items; at about 19 per A4 page that is two pages of items, then the researcher's page.
     expect(pages).toBe(3);
   });
 

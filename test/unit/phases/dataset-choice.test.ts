@@ -14,7 +14,7 @@ import {
   withdrawDataset,
 } from '../../../app/phases/pilot/index.ts';
 import { readDataFile } from '../../../app/import/read-data-file.ts';
-import { purificationView, roundSummaries, runRound } from '../../../app/phases/purification.ts';
+import { purificationView, roundSummaries, runRound } from '../../../app/phases/purification/index.ts';
 import { listDatasetChoices, listDatasets } from '../../../db/repos/datasets.ts';
 import type { Study } from '../../../db/study.ts';
 import { createStudyWithPool } from '../../helpers/study-data.ts';

@@ -62,9 +62,13 @@ describe('stats reliability (spawned CLI)', () => {
     const out = JSON.parse(run.stdout);
     expect(out.n).toBe(7);
     expect(out.k).toBe(5);
-    for (const key of ['alpha', 'alphaStandardized', 'meanInterItemR', 'omegaTotal']) {
+    for (const key of ['alpha', 'alphaStandardized', 'meanInterItemR', 'omegaTotal', 'lambda2']) {
       expect(typeof out[key]).toBe('number');
     }
+    // repair1 reversed equals traffic1 in every complete row: the covariance matrix is singular, so
+    // Guttman's λ₆ (which needs its inverse) is not defined, and a warning says why.
+    expect(out.lambda6).toBeNull();
+    expect(out.warnings.join('\n')).toMatch(/Guttman's λ₆ is not reported: .*singular/);
     expect(out.alphaCI).toMatchObject({ method: 'feldt', level: 0.95 });
     expect(out.alphaCI.lower).toBeLessThan(out.alpha);
     expect(out.bootstrapCI).toMatchObject({ method: 'percentile bootstrap', resamples: 200, seed: 5 });
