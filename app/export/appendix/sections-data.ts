@@ -232,7 +232,7 @@ export function purificationSection(w: Writer, study: Study): void {
 
 function factorEvidence(w: Writer, study: Study): void {
   w.heading(3, 'Factor-count evidence and exploratory factor analysis');
-  const runs = listRuns(study, { phase: 'purification' }).filter((r) => r.kind !== 'purification-round');
+  const runs = listRuns(study, { phase: 'purification' });
   if (renderAnalyses(w, runs, ['dimensionality', 'efa']) === 0) {
     w.notYet(
       'factor-count evidence',
