@@ -20,8 +20,8 @@ test('imports the demo pilot file through the wizard, screens it and excludes th
   await page.goto(app.url);
   await page.locator('.sidebar a[href="#/phase/pilot"]').click();
   await expect(page.locator('h1')).toHaveText('Pilot data');
-  // The demo imported and screened the same file already and signed the phase off.
-  await expect(page.locator('.dataset-table tbody tr')).toHaveCount(2);
+  // The demo imported and screened the same file already (with its validation and retest files) and signed the phase off.
+  await expect(page.locator('.dataset-table tbody tr')).toHaveCount(3);
   await page.getByRole('button', { name: 'Reopen phase…' }).click();
   await page
     .locator('#note-pilot')
