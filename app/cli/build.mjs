@@ -1,5 +1,7 @@
-// Builds the command line into one JavaScript file, app/cli/dist/main.mjs, so that a command starts as
-// a plain Node process instead of transpiling TypeScript on every call. `npm install`/`npm ci` run it
+// Builds the command line into JavaScript, app/cli/dist/main.mjs and the chunks it loads, so that a
+// command starts as a plain Node process instead of transpiling TypeScript on every call. The build is
+// split: main.mjs holds only the dispatcher, and each command's code is a chunk loaded when that
+// command runs (see the loaders in app/cli/main.ts), so a command's start-up reads only its own code. `npm install`/`npm ci` run it
 // (the `prepare` script); the launcher (bin.mjs) calls `ensureCliBuilt` first, which rebuilds only when
 // a source file the bundle was made from has changed, so stale code never runs silently.
 //
@@ -66,6 +68,8 @@ export async function buildCli() {
     outdir: CLI_DIST,
     outExtension: { '.js': '.mjs' },
     bundle: true,
+    splitting: true,
+    chunkNames: 'chunk-[hash]',
     platform: 'node',
     format: 'esm',
     target: 'node20',
@@ -87,6 +91,7 @@ export async function buildCli() {
     fs.writeFileSync(temporary, file.contents);
     fs.renameSync(temporary, file.path);
   }
+  removeOldChunks(result.outputFiles.map((file) => path.basename(file.path)));
   const own = Object.keys(result.metafile.inputs).filter((f) => !f.includes('node_modules'));
   const files = [
     ...own.map((f) => path.relative(root, path.resolve(process.cwd(), f))),
@@ -97,6 +102,24 @@ export async function buildCli() {
   const temporary = `${MANIFEST}.${process.pid}.tmp`;
   fs.writeFileSync(temporary, `${JSON.stringify({ inputs }, null, 1)}\n`);
   fs.renameSync(temporary, MANIFEST);
+}
+
+/** An old build's chunks are kept this long, for a command that started on it and still loads them. */
+const OLD_CHUNK_GRACE_MS = 60 * 60 * 1000;
+
+/** Removes chunks the new build no longer has, once they are older than OLD_CHUNK_GRACE_MS. */
+function removeOldChunks(current) {
+  const keep = new Set(current);
+  const now = Date.now();
+  for (const name of fs.readdirSync(CLI_DIST)) {
+    if (!name.startsWith('chunk-') || keep.has(name)) continue;
+    const file = path.join(CLI_DIST, name);
+    try {
+      if (now - fs.statSync(file).mtimeMs > OLD_CHUNK_GRACE_MS) fs.rmSync(file, { force: true });
+    } catch {
+      // Removed by another build meanwhile.
+    }
+  }
 }
 
 /**

@@ -10,8 +10,6 @@ import {
   helpText,
   parseCommand,
 } from './command.ts';
-import { PROJECT_COMMANDS } from './project.ts';
-import { STATS_ANALYSES } from './stats/index.ts';
 import { type CliContext, DataError, type StatsAnalysis, UsageError } from './types.ts';
 
 const RUN_AS = 'Run from the project root as: npm run -s cli -- <command> [options]';
@@ -37,19 +35,60 @@ function statsCommand(analysis: StatsAnalysis): CliCommand {
   };
 }
 
-/** Every command, by group and name. */
-export const COMMANDS: Record<'stats' | 'project', Record<string, CliCommand>> = {
-  stats: Object.fromEntries(Object.entries(STATS_ANALYSES).map(([name, a]) => [name, statsCommand(a)])),
-  project: Object.fromEntries(PROJECT_COMMANDS.map((c) => [c.name.replace(/^project /, ''), c])),
+type Group = 'stats' | 'project';
+
+const stats = (load: () => Promise<StatsAnalysis>) => async () => statsCommand(await load());
+
+/**
+ * Every command, by group and name, in the order the help lists them, each as the loader of its
+ * module: a command reads only its own code (and what that imports), so `stats reliability` never
+ * loads the study file, the exports or the validity phase, and the bundle's split keeps it that way.
+ */
+const LOADERS: Record<Group, Record<string, () => Promise<CliCommand>>> = {
+  stats: {
+    reliability: stats(async () => (await import('./stats/reliability.ts')).reliability),
+    content: stats(async () => (await import('./stats/content.ts')).content),
+    cfa: stats(async () => (await import('./stats/cfa.ts')).cfa),
+    icc: stats(async () => (await import('./stats/icc.ts')).icc),
+    dimensionality: stats(async () => (await import('./stats/dimensionality.ts')).dimensionality),
+    efa: stats(async () => (await import('./stats/efa.ts')).efa),
+    polychoric: stats(async () => (await import('./stats/polychoric.ts')).polychoric),
+  },
+  project: {
+    new: async () => (await import('./project.ts')).newCommand,
+    status: async () => (await import('./project.ts')).statusCommand,
+    import: async () => (await import('./project-import.ts')).importCommand,
+    datasets: async () => (await import('./project-datasets.ts')).datasetsCommand,
+    use: async () => (await import('./project-datasets.ts')).useCommand,
+    reopen: async () => (await import('./project.ts')).reopenCommand,
+    signoff: async () => (await import('./project.ts')).signoffCommand,
+    instrument: async () => (await import('./project-instrument.ts')).instrumentCommand,
+    verify: async () => (await import('./project.ts')).verifyCommand,
+    export: async () => (await import('./project-export.ts')).exportCommand,
+  },
 };
 
-function allCommands(): CommandSpec[] {
-  return [...Object.values(COMMANDS.stats), ...Object.values(COMMANDS.project)];
+/** The commands of one group, loaded, in the help's order. */
+async function groupCommands(group: Group): Promise<CliCommand[]> {
+  return Promise.all(Object.values(LOADERS[group]).map((load) => load()));
+}
+
+/** Every command, loaded (the help texts and the tests of the command table use this). */
+export async function loadCommands(): Promise<Record<Group, Record<string, CliCommand>>> {
+  const entries = async (group: Group) => {
+    const commands = await groupCommands(group);
+    return Object.fromEntries(Object.keys(LOADERS[group]).map((name, i) => [name, commands[i]]));
+  };
+  return { stats: await entries('stats'), project: await entries('project') };
+}
+
+async function allCommands(): Promise<CommandSpec[]> {
+  return [...(await groupCommands('stats')), ...(await groupCommands('project'))];
 }
 
 /** The top-level help: every command with its usage and what it does. */
-export function topLevelHelp(): string {
-  return commandList('usage: scalewright <command> [options]', allCommands(), [
+export async function topLevelHelp(): Promise<string> {
+  return commandList('usage: scalewright <command> [options]', await allCommands(), [
     'Every command answers --help with its options.',
     RUN_AS,
   ]);
@@ -62,27 +101,27 @@ function write(text: string): void {
 export async function runCli(argv: string[], ctx: CliContext): Promise<number> {
   const [group, name, ...rest] = argv;
   if (group === undefined || group === '--help' || group === '-h' || group === 'help') {
-    write(topLevelHelp());
+    write(await topLevelHelp());
     return group === undefined ? 2 : 0;
   }
   try {
     if (group !== 'stats' && group !== 'project') {
       throw new UsageError(`unknown command "${group}"; run with --help to see the commands`);
     }
-    const commands = COMMANDS[group];
+    const loaders = LOADERS[group];
     if (name === undefined || name === '--help' || name === '-h') {
       if (name !== undefined) {
-        write(commandList(`usage: scalewright ${group} <command> [options]`, Object.values(commands)));
+        write(commandList(`usage: scalewright ${group} <command> [options]`, await groupCommands(group)));
         return 0;
       }
-      throw new UsageError(`${group} needs a command: one of ${Object.keys(commands).join(', ')}`);
+      throw new UsageError(`${group} needs a command: one of ${Object.keys(loaders).join(', ')}`);
     }
-    const command = commands[name];
-    if (!command) {
+    if (!Object.hasOwn(loaders, name)) {
       throw new UsageError(
-        `unknown ${group} command "${name}"; choose one of ${Object.keys(commands).join(', ')}`,
+        `unknown ${group} command "${name}"; choose one of ${Object.keys(loaders).join(', ')}`,
       );
     }
+    const command = await loaders[name]();
     if (asksForHelp(rest)) {
       write(helpText(command));
       return 0;

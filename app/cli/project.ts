@@ -17,10 +17,6 @@ import {
 import type { ChecklistItem } from '../phases/types.ts';
 import { type CliCommand, type OptionSpec, type ParsedArgs, stringValue } from './command.ts';
 import { resolveUserPath } from './files.ts';
-import { datasetsCommand, useCommand } from './project-datasets.ts';
-import { exportCommand } from './project-export.ts';
-import { importCommand } from './project-import.ts';
-import { instrumentCommand } from './project-instrument.ts';
 import { cut, formatTable, LINE_WIDTH, wrapIndented } from './table.ts';
 import { type CliContext, DataError, UsageError } from './types.ts';
 
@@ -192,7 +188,7 @@ async function phaseAction(
   }
 }
 
-const newCommand: CliCommand = {
+export const newCommand: CliCommand = {
   name: 'project new',
   summary: 'create a study file',
   args: [STUDY_FILE],
@@ -220,7 +216,7 @@ const newCommand: CliCommand = {
   },
 };
 
-const statusCommand: CliCommand = {
+export const statusCommand: CliCommand = {
   name: 'project status',
   summary:
     'phases with their states, what they hold, open gates, and signed-off phases that need review because an earlier phase changed since',
@@ -275,7 +271,7 @@ const statusCommand: CliCommand = {
   },
 };
 
-const signoffCommand: CliCommand = {
+export const signoffCommand: CliCommand = {
   name: 'project signoff',
   summary:
     'sign a phase off (a logged decision); refused, with the checklist, while any of its items is unmet. A signed-off phase that needs review is signed off again in place, the reason saying why it is still valid',
@@ -293,7 +289,7 @@ const signoffCommand: CliCommand = {
   run: (values, ctx) => phaseAction(values, ctx, 'signoff'),
 };
 
-const reopenCommand: CliCommand = {
+export const reopenCommand: CliCommand = {
   name: 'project reopen',
   summary: 'reopen a signed-off phase so it can change (a logged decision)',
   args: [STUDY_FILE],
@@ -310,7 +306,7 @@ const reopenCommand: CliCommand = {
   run: (values, ctx) => phaseAction(values, ctx, 'reopen'),
 };
 
-const verifyCommand: CliCommand = {
+export const verifyCommand: CliCommand = {
   name: 'project verify',
   summary:
     "check the file's integrity, the decision log's hash chain, every stored data file and analysis run, and the content against the last log row; re-run every stored analysis from its stored inputs; exit 1 on any break",
@@ -408,17 +404,3 @@ const verifyCommand: CliCommand = {
     }
   },
 };
-
-/** Every `project` command, in the order the help lists them. */
-export const PROJECT_COMMANDS: CliCommand[] = [
-  newCommand,
-  statusCommand,
-  importCommand,
-  datasetsCommand,
-  useCommand,
-  reopenCommand,
-  signoffCommand,
-  instrumentCommand,
-  verifyCommand,
-  exportCommand,
-];

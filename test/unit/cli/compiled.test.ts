@@ -1,12 +1,29 @@
 import { spawnSync } from 'node:child_process';
-import { mkdtempSync, readFileSync, rmSync, statSync, utimesSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, readdirSync, readFileSync, rmSync, statSync, utimesSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { ROOT, runCli } from '../../helpers/cli.ts';
 
 const LAUNCHER = path.join(ROOT, 'app', 'cli', 'bin.mjs');
-const BUNDLE = path.join(ROOT, 'app', 'cli', 'dist', 'main.mjs');
+const DIST = path.join(ROOT, 'app', 'cli', 'dist');
+
+/** The compiled code: the dispatcher, main.mjs, and the chunks it loads. */
+function compiledText(): string {
+  const files = readdirSync(DIST).filter((f) => f.endsWith('.mjs'));
+  return files.map((f) => readFileSync(path.join(DIST, f), 'utf8')).join('\n');
+}
+
+/** The files `import` reaches from a compiled file without running any command (static imports only). */
+function staticClosure(file: string, seen = new Set<string>()): Set<string> {
+  if (seen.has(file)) return seen;
+  seen.add(file);
+  const text = readFileSync(path.join(DIST, file), 'utf8');
+  for (const m of text.matchAll(/^(?:import|export)\b[^;]*?from\s*"\.\/([^"]+)"/gm))
+    staticClosure(m[1], seen);
+  for (const m of text.matchAll(/^import\s*"\.\/([^"]+)"/gm)) staticClosure(m[1], seen);
+  return seen;
+}
 const dir = mkdtempSync(path.join(tmpdir(), 'scalewright-compiled-'));
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
 
@@ -65,11 +82,11 @@ describe('the compiled command line', () => {
     expect(stamp.mtimeMs).toBe(statSync(source).mtimeMs);
     const again = runCompiled(['--help'], { SCALEWRIGHT_BUILD_LOG: '1' });
     expect(again.stderr).toBe('');
-    expect(readFileSync(BUNDLE, 'utf8')).toContain('formatTable');
+    expect(compiledText()).toContain('formatTable');
   });
 
   it('writes the final instrument with pdfkit kept outside the bundle and the fonts found from it', () => {
-    expect(readFileSync(BUNDLE, 'utf8')).toMatch(/from "pdfkit"|require\("pdfkit"\)/);
+    expect(compiledText()).toMatch(/from "pdfkit"|import\("pdfkit"\)|require\("pdfkit"\)/);
     expect(runCompiled(['project', 'new', 'demo.scalewright', '--demo']).code).toBe(0);
     const run = runCompiled(['project', 'instrument', 'demo.scalewright', '--out', 'instrument', '--json']);
     expect(run.stderr).toBe('');
@@ -79,5 +96,28 @@ describe('the compiled command line', () => {
     expect(pdf).toMatch(/DejaVuSerif/);
     const value = JSON.parse(run.stdout) as { files: { name: string; bytes: number }[] };
     expect(value.files.map((f) => f.name)).toContain('questionnaire.pdf');
+  });
+
+  it('starts a command with its own code only: the dispatcher loads no command, and stats reliability no study file, export or pdfkit', () => {
+    const dispatcher = staticClosure('main.mjs');
+    const text = (files: Set<string>) =>
+      [...files].map((f) => readFileSync(path.join(DIST, f), 'utf8')).join('\n');
+    expect(text(dispatcher)).not.toContain('// app/cli/stats/');
+    expect(text(dispatcher)).not.toContain('// db/study.ts');
+    const main = readFileSync(path.join(DIST, 'main.mjs'), 'utf8');
+    const chunk = main.match(/reliability: stats\(async \(\) => \(await import\("\.\/([^"]+)"\)\)/)?.[1];
+    expect(chunk, 'the reliability loader in main.mjs').toBeDefined();
+    const reliability = text(staticClosure(chunk as string));
+    expect(reliability).toContain('// app/engine/reliability.ts');
+    for (const absent of [
+      '// db/study.ts',
+      '// app/export/',
+      '// app/phases/',
+      '"pdfkit"',
+      '"docx"',
+      'node_modules/zod/',
+    ]) {
+      expect(reliability, absent).not.toContain(absent);
+    }
   });
 });

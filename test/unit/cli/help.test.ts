@@ -1,8 +1,9 @@
 import { describe, expect, it } from 'vitest';
-import { COMMANDS } from '../../../app/cli/main.ts';
+import { loadCommands } from '../../../app/cli/main.ts';
 import { formatTable } from '../../../app/cli/table.ts';
 import { runCli, runCliHere } from '../../helpers/cli.ts';
 
+const COMMANDS = await loadCommands();
 const EVERY_COMMAND = Object.values(COMMANDS).flatMap((group) => Object.values(group));
 
 function widest(text: string): number {
