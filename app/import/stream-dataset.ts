@@ -10,6 +10,7 @@ import {
   type EncodedDataset,
   FIELD_EMPTY,
   FIELD_OTHER,
+  type FieldRows,
   numericColumns,
 } from './dataset.ts';
 import { sniffRecords } from './detect-format.ts';
@@ -24,7 +25,8 @@ import {
 } from './parse-table.ts';
 import { TableError } from './table-error.ts';
 
-export interface StreamDatasetOptions extends DatasetOptions {
+/** How streamRecords reads a delimited file; anything left out is detected. */
+export interface StreamRecordsOptions {
   fileName?: string;
   /** Overrides delimiter detection (one character or "tab"). */
   delimiter?: string;
@@ -44,6 +46,42 @@ export interface StreamDatasetOptions extends DatasetOptions {
    * file is read as UTF-8 or Windows-1252 (every other encoding still goes through papaparse).
    */
   plainText?: boolean;
+}
+
+export interface StreamDatasetOptions extends DatasetOptions, StreamRecordsOptions {}
+
+/**
+ * What receives a delimited file's data records as streamRecords reads them, in file order: the
+ * import's DatasetAssembler, or the command line's item columns (app/cli/stats/data.ts). A record is
+ * given either as strings already fitted to the header's width, or, in a plain-text file, as field
+ * offsets into the bytes with its single digits taken out (FieldRows); both say the same.
+ */
+export interface RecordSink {
+  addRows(records: readonly (readonly string[])[], rowNumbers: readonly number[]): void;
+  addFieldRows(rows: FieldRows): void;
+  /** Data records received so far (reported as progress). */
+  readonly n: number;
+}
+
+/**
+ * Starts the sink once the header is read: `header` is checked (checkHeader); `sniffed` holds the
+ * records of the file's first SNIFF_BYTES characters, header first, for choices made from the start
+ * of the file (the decimal mark); a warning pushed to `warnings` is reported with the reader's own.
+ */
+export type StartSink<S extends RecordSink> = (header: string[], sniffed: string[][], warnings: string[]) => S;
+
+/** A delimited file read through a sink, with what the reader found on the way. */
+export interface StreamedRecords<S extends RecordSink> {
+  sink: S;
+  header: string[];
+  delimiter: string;
+  quoteChar: string;
+  encoding: Encoding;
+  byteLength: number;
+  /** SHA-256 of the original bytes, lowercase hex. */
+  sha256: string;
+  /** Decoding, delimiter, header and blank-row notes, and the sink's own from `start`, in that order. */
+  warnings: string[];
 }
 
 /** A dataset read from a stream, with what storage needs to keep beside it. */
@@ -66,7 +104,7 @@ interface Format {
   sniffText: string;
 }
 
-function detectFormat(prefix: Uint8Array, complete: boolean, options: StreamDatasetOptions): Format {
+function detectFormat(prefix: Uint8Array, complete: boolean, options: StreamRecordsOptions): Format {
   const label = options.fileName ? `file "${options.fileName}"` : 'the file';
   const choice = chooseEncoding(prefix, complete, options.encoding, options.fileName);
   const warnings = [...choice.warnings];
@@ -208,26 +246,22 @@ function listRows(rows: number[]): string {
 }
 
 /**
- * Reads a delimited file from a stream of byte chunks straight into a dataset in the compact column
- * layout, without holding the file's rows as strings: the first chunk(s), at least SNIFF_BYTES, decide
- * encoding, delimiter and quote, and the numeric columns of the first SNIFF_BYTES characters decide the
- * decimal mark (a file whose decimals all come later is read with the point, and its decimal commas
- * are then listed as problems); then
- * papaparse parses chunk by chunk and each record goes to a DatasetAssembler. Same rules and messages
- * as parseTable + buildDataset, except that the first ragged row stops the import (later ones are not
- * counted). With the option plainText (a file isPlainText accepts, read as UTF-8 or Windows-1252) the
- * records are split from the bytes without papaparse, and only cells that are not a single digit
- * become strings; the outcome is the same. Also computes the SHA-256 and byte length, and hands each
- * raw chunk to `onBytes`.
- * `mapping` may be a function of the checked header (for instance proposeMapping's result).
- * Cost O(file size) time; memory O(columns × rows) in the compact layout plus one chunk.
- * Throws TableError for the same bad files as parseTable, and for a bad mapping (see resolveMapping).
+ * Reads a delimited file from a stream of byte chunks into a sink, without holding the file's rows as
+ * strings: the first chunk(s), at least SNIFF_BYTES, decide encoding, delimiter and quote; then
+ * papaparse parses chunk by chunk and the data records go to the sink, fitted to the header (blank rows
+ * skipped and noted). With the option plainText (a file isPlainText accepts, read as UTF-8 or
+ * Windows-1252) the records are split from the bytes without papaparse, and only cells that are not a
+ * single digit become strings; the records are the same. Also computes the SHA-256 and byte length,
+ * and hands each raw chunk to `onBytes`. Same rules and messages as parseTable, except that the first
+ * ragged row stops the reading (later ones are not counted).
+ * Cost O(file size) time; memory that of the sink plus one chunk.
+ * Throws TableError for the same bad files as parseTable, and whatever the sink throws.
  */
-export async function streamDataset(
+export async function streamRecords<S extends RecordSink>(
   source: AsyncIterable<Uint8Array>,
-  mapping: ColumnMapping | ((header: string[]) => ColumnMapping),
-  options: StreamDatasetOptions = {},
-): Promise<StreamedDataset> {
+  start: StartSink<S>,
+  options: StreamRecordsOptions = {},
+): Promise<StreamedRecords<S>> {
   const label = options.fileName ? `file "${options.fileName}"` : 'the file';
   const maxBytes = options.maxBytes ?? DEFAULT_MAX_BYTES;
   const hash = createHash('sha256');
@@ -289,7 +323,7 @@ export async function streamDataset(
   const warnings = [...format.warnings];
   let header: string[] | undefined;
   let rawWidth = 0;
-  let assembler: DatasetAssembler | undefined;
+  let assembler: S | undefined;
   let record = 0;
   let pendingBlank: number[] = [];
   const blankInside: number[] = [];
@@ -301,20 +335,13 @@ export async function streamDataset(
     const checked = checkHeader(rawHeader, warnings, headerRow);
     header = checked;
     rawWidth = rawHeader.length;
-    const columnMapping = typeof mapping === 'function' ? mapping(checked) : mapping;
     const sniffed = sniffRecords(
       format.sniffText.slice(0, SNIFF_BYTES),
       format.delimiter,
       format.quoteChar,
       Number.POSITIVE_INFINITY,
     );
-    const mark = chooseDecimalMark(
-      sniffed.slice(1),
-      numericColumns(checked, columnMapping),
-      options.decimalMark,
-      warnings,
-    );
-    assembler = new DatasetAssembler(checked, columnMapping, mark, options, options.expectedRows);
+    assembler = start(checked, sniffed, warnings);
   };
 
   const onRows = (rows: string[][], errors: Papa.ParseError[]) => {
@@ -484,18 +511,48 @@ export async function streamDataset(
   else await readWithPapaparse();
 
   if (!header || !assembler) throw new TableError(`${label} has no header row`);
-  const dataset = assembler.finish();
   if (leadingBlank > 0) warnings.push(`skipped ${leadingBlank} blank line(s) before the header`);
   if (blankInside.length > 0) warnings.push(`skipped blank row(s) ${listRows(blankInside)}`);
   if (trimmed > 0) warnings.push(`ignored empty trailing fields in ${trimmed} row(s)`);
-  dataset.warnings.unshift(...warnings);
   return {
-    ...dataset,
+    sink: assembler,
     header,
     delimiter: format.delimiter,
     quoteChar: format.quoteChar,
     encoding: format.encoding,
     byteLength,
     sha256: hash.digest('hex'),
+    warnings,
   };
+}
+
+/**
+ * Reads a delimited file from a stream of byte chunks straight into a dataset in the compact column
+ * layout (streamRecords into a DatasetAssembler): the numeric columns of the first SNIFF_BYTES
+ * characters decide the decimal mark (a file whose decimals all come later is read with the point, and
+ * its decimal commas are then listed as problems). Same rules and messages as parseTable +
+ * buildDataset, except that the first ragged row stops the import (later ones are not counted).
+ * `mapping` may be a function of the checked header (for instance proposeMapping's result).
+ * Cost O(file size) time; memory O(columns × rows) in the compact layout plus one chunk.
+ * Throws TableError for the same bad files as parseTable, and for a bad mapping (see resolveMapping).
+ */
+export async function streamDataset(
+  source: AsyncIterable<Uint8Array>,
+  mapping: ColumnMapping | ((header: string[]) => ColumnMapping),
+  options: StreamDatasetOptions = {},
+): Promise<StreamedDataset> {
+  const read = await streamRecords(
+    source,
+    (header, sniffed, warnings) => {
+      const columnMapping = typeof mapping === 'function' ? mapping(header) : mapping;
+      const columns = numericColumns(header, columnMapping);
+      const mark = chooseDecimalMark(sniffed.slice(1), columns, options.decimalMark, warnings);
+      return new DatasetAssembler(header, columnMapping, mark, options, options.expectedRows);
+    },
+    options,
+  );
+  const { sink, warnings, ...format } = read;
+  const dataset = sink.finish();
+  dataset.warnings.unshift(...warnings);
+  return { ...dataset, ...format };
 }
