@@ -2,6 +2,7 @@ import { EngineError } from './errors.ts';
 import { clampCorrelation, pairwiseMoments } from './covariance.ts';
 import { covarianceMatrix } from './linalg.ts';
 import { EPSILON, mean, meanAndVariance } from './numeric.ts';
+import { itemColumns, type Responses, respondentCount, responseRows } from './responses.ts';
 import type { ResponseMatrix, ScaleBounds } from './scoring.ts';
 
 /** Descriptive statistics of one item over its answered values. */
@@ -46,44 +47,8 @@ export const ZERO_VARIANCE = EPSILON;
  * Throws EngineError when an item has fewer than two answered values, when a value is not finite,
  * or when the names do not match the columns.
  */
-export function itemDescriptives(
-  names: string[],
-  data: ResponseMatrix,
-  bounds?: ScaleBounds,
-): ItemDescriptives[] {
-  return descriptivesOfColumns(names, responseColumns(names, data), bounds);
-}
-
-/**
- * The responses as one column per item (NaN for a missing answer), checking that every row has one
- * answer per item and every answer is a finite number.
- *
- * Cost: O(n·k). Throws EngineError naming the respondent (1-based) and the item.
- */
-export function responseColumns(names: readonly string[], data: ResponseMatrix): Float64Array[] {
-  const k = names.length;
-  const n = data.length;
-  const columns = Array.from({ length: k }, () => new Float64Array(n));
-  for (let r = 0; r < n; r++) {
-    const row = data[r];
-    if (row.length !== k) {
-      throw new EngineError(
-        `respondent ${r + 1} has ${row.length} answers but there are ${k} items`,
-        'shape',
-      );
-    }
-    for (let c = 0; c < k; c++) {
-      const x = row[c];
-      if (x === null) columns[c][r] = Number.NaN;
-      else if (Number.isFinite(x)) columns[c][r] = x;
-      else {
-        throw new EngineError(
-          `respondent ${r + 1}, item "${names[c]}": the value ${x} is not a finite number`,
-        );
-      }
-    }
-  }
-  return columns;
+export function itemDescriptives(names: string[], data: Responses, bounds?: ScaleBounds): ItemDescriptives[] {
+  return descriptivesOfColumns(names, itemColumns(names, data), bounds);
 }
 
 /** The present (non-NaN) values of a column, in row order. */
@@ -201,8 +166,10 @@ export interface ItemMoments {
   n: number;
   /** Respondents left out (listwise: incomplete; pairwise: no answer at all). */
   dropped: number;
-  /** The analysed rows (listwise: complete cases only). */
-  rows: ResponseMatrix;
+  /** The analysed rows (listwise: complete cases only), built when first asked for. */
+  rows(): ResponseMatrix;
+  /** Missing answers of each item among all the respondents given (analysed or not). */
+  missingAll: number[];
   /** The analysed rows as one column per item, NaN for a missing answer. */
   columns: Float64Array[];
   /** Pairwise: each column's answered values with the mean and variance its SD came from. */
@@ -233,24 +200,33 @@ export interface ItemMoments {
  * Throws EngineError when fewer than two respondents remain, when two items share fewer than two
  * respondents (pairwise), or when the rows do not match the item count.
  */
-export function itemMoments(names: string[], data: ResponseMatrix, method: MissingMethod): ItemMoments {
+export function itemMoments(names: string[], data: Responses, method: MissingMethod): ItemMoments {
   const k = names.length;
-  for (let r = 0; r < data.length; r++) {
-    if (data[r].length !== k) {
-      throw new EngineError(
-        `respondent ${r + 1} has ${data[r].length} answers but there are ${k} items`,
-        'shape',
-      );
+  const total = respondentCount(data);
+  const all = itemColumns(names, data);
+  // answers[r]: the answers respondent r gave; listwise keeps those with all k, pairwise those with any.
+  const answers = new Int32Array(total);
+  const missingAll = all.map((column) => {
+    let missing = 0;
+    for (let r = 0; r < total; r++) {
+      if (!Number.isNaN(column[r])) answers[r]++;
+      else missing++;
     }
-  }
-  const all = responseColumns(names, data);
+    return missing;
+  });
   const keep: number[] = [];
-  for (let r = 0; r < data.length; r++) {
-    const row = data[r];
-    if (method === 'listwise' ? row.every((x) => x !== null) : row.some((x) => x !== null)) keep.push(r);
+  for (let r = 0; r < total; r++) {
+    if (method === 'listwise' ? answers[r] === k : answers[r] > 0) keep.push(r);
   }
-  const rows = keep.length === data.length ? data : keep.map((r) => data[r]);
-  const n = rows.length;
+  const n = keep.length;
+  let rowsKept: ResponseMatrix | undefined;
+  const rows = (): ResponseMatrix => {
+    if (rowsKept === undefined) {
+      const matrix = responseRows(data);
+      rowsKept = n === total ? matrix : keep.map((r) => matrix[r]);
+    }
+    return rowsKept;
+  };
   if (n < 2) {
     const which =
       method === 'listwise' ? 'complete respondents (listwise deletion)' : 'respondents with answers';
@@ -259,10 +235,9 @@ export function itemMoments(names: string[], data: ResponseMatrix, method: Missi
       'too-few-respondents',
     );
   }
-  const columns =
-    keep.length === data.length ? all : all.map((column) => Float64Array.from(keep, (r) => column[r]));
+  const columns = n === total ? all : all.map((column) => Float64Array.from(keep, (r) => column[r]));
   if (method === 'listwise') {
-    const covariance = covarianceMatrix(rows as number[][]);
+    const covariance = covarianceMatrix(rows() as number[][]);
     const sds = covariance.map((row, i) => Math.sqrt(Math.max(0, row[i])));
     const varies = sds.map((s) => s > ZERO_VARIANCE);
     const means = columns.map((column) => mean(column));
@@ -276,8 +251,9 @@ export function itemMoments(names: string[], data: ResponseMatrix, method: Missi
     return {
       method,
       n,
-      dropped: data.length - n,
+      dropped: total - n,
       rows,
+      missingAll,
       columns,
       means,
       sds,
@@ -342,8 +318,9 @@ export function itemMoments(names: string[], data: ResponseMatrix, method: Missi
   return {
     method,
     n,
-    dropped: data.length - n,
+    dropped: total - n,
     rows,
+    missingAll,
     columns,
     summaries,
     means,

@@ -1,11 +1,7 @@
-import {
-  CholeskyDecomposition,
-  EigenvalueDecomposition,
-  LuDecomposition,
-  Matrix,
-  SingularValueDecomposition,
-} from 'ml-matrix';
+import { CholeskyDecomposition, Matrix, SingularValueDecomposition } from 'ml-matrix';
 import { EngineError } from './errors.ts';
+import { type LuFactors, luFactor, luSingular, luSolve } from './lu.ts';
+import { tridiagonalQl } from './symmetric-eigen.ts';
 import {
   columnsFromRows,
   correlationFromCovariance,
@@ -70,8 +66,8 @@ function checkSymmetric(a: number[][], fn: string): number {
  * Symmetric eigendecomposition A = V·diag(λ)·Vᵀ.
  *
  * Source: Householder tridiagonalisation followed by the implicit QL algorithm (Bowdler, Martin,
- * Reinsch & Wilkinson 1968, the tred2/tql2 procedures of the Handbook for Automatic Computation, as
- * implemented in ml-matrix). Eigenvalues are returned in descending order; vectors[i][j] is
+ * Reinsch & Wilkinson 1968, the tred2/tql2 procedures of the Handbook for Automatic Computation, in
+ * the arithmetic order of ml-matrix's decomposition: see tridiagonalQl). Eigenvalues are returned in descending order; vectors[i][j] is
  * component i of the eigenvector for values[j] (eigenvectors are columns), each with unit length and
  * signed so that its component of largest magnitude is positive (the first such on ties).
  *
@@ -81,18 +77,19 @@ function checkSymmetric(a: number[][], fn: string): number {
  */
 export function symmetricEigen(a: number[][]): { values: number[]; vectors: number[][] } {
   const n = checkSymmetric(a, 'eigendecomposition');
-  const evd = new EigenvalueDecomposition(new Matrix(a), { assumeSymmetric: true });
-  const raw = evd.realEigenvalues;
-  const v = evd.eigenvectorMatrix;
-  const order = raw.map((_, i) => i).sort((i, j) => raw[j] - raw[i]);
+  const flat = new Float64Array(n * n);
+  for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) flat[i * n + j] = a[i][j];
+  const { values: raw, vectors: rows } = tridiagonalQl(flat, n);
+  const order = Array.from(raw, (_, i) => i).sort((i, j) => raw[j] - raw[i]);
   const values = order.map((i) => raw[i]);
   const vectors: number[][] = Array.from({ length: n }, () => new Array<number>(n).fill(0));
   for (let col = 0; col < n; col++) {
-    const src = order[col];
+    // Row `src` of `rows` is the eigenvector of raw[src].
+    const at = order[col] * n;
     let pivot = 0;
-    for (let i = 1; i < n; i++) if (Math.abs(v.get(i, src)) > Math.abs(v.get(pivot, src))) pivot = i;
-    const sign = v.get(pivot, src) < 0 ? -1 : 1;
-    for (let i = 0; i < n; i++) vectors[i][col] = sign * v.get(i, src);
+    for (let i = 1; i < n; i++) if (Math.abs(rows[at + i]) > Math.abs(rows[at + pivot])) pivot = i;
+    const sign = rows[at + pivot] < 0 ? -1 : 1;
+    for (let i = 0; i < n; i++) vectors[i][col] = sign * rows[at + i];
   }
   return { values, vectors };
 }
@@ -108,17 +105,22 @@ function oneNorm(a: ArrayLike<ArrayLike<number>>, n: number): number {
 }
 
 /**
- * LU factors with partial pivoting (ml-matrix's LuDecomposition, the Doolittle/Crout form of Golub &
- * Van Loan 2013, §3.4), checked: an exactly zero pivot, or a reciprocal 1-norm condition number
- * 1/(‖A‖₁‖A⁻¹‖₁) below SINGULAR_RCOND (an answer with almost no correct digits), is "matrix is singular".
- * Returns the decomposition and A⁻¹ (needed for the condition number anyway).
+ * LU factors with partial pivoting (luFactor: the Doolittle/Crout form of Golub & Van Loan 2013,
+ * §3.4, in ml-matrix's arithmetic order), checked: an exactly zero pivot, or a reciprocal 1-norm
+ * condition number 1/(‖A‖₁‖A⁻¹‖₁) below SINGULAR_RCOND (an answer with almost no correct digits), is
+ * "matrix is singular". Returns the factors and A⁻¹ (needed for the condition number anyway).
  */
-function checkedLu(a: number[][], fn: string): { lu: LuDecomposition; inv: Matrix } {
+function checkedLu(a: number[][], fn: string): { lu: LuFactors; inv: number[][] } {
   const n = checkSquare(a, fn);
-  const lu = new LuDecomposition(new Matrix(a));
-  if (lu.isSingular()) throw new EngineError('matrix is singular (a pivot is exactly zero)', 'singular');
-  const inv = lu.solve(Matrix.eye(n));
-  const rcond = 1 / (oneNorm(a, n) * oneNorm(inv.to2DArray(), n));
+  const flat = new Float64Array(n * n);
+  for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) flat[i * n + j] = a[i][j];
+  const lu = luFactor(flat, n);
+  if (luSingular(lu)) throw new EngineError('matrix is singular (a pivot is exactly zero)', 'singular');
+  const eye = new Float64Array(n * n);
+  for (let i = 0; i < n; i++) eye[i * n + i] = 1;
+  const x = luSolve(lu, eye, n);
+  const inv = Array.from({ length: n }, (_, i) => Array.from(x.subarray(i * n, (i + 1) * n)));
+  const rcond = 1 / (oneNorm(a, n) * oneNorm(inv, n));
   if (!(rcond >= SINGULAR_RCOND)) {
     throw new EngineError(
       `matrix is singular (reciprocal condition number ${rcond.toExponential(2)})`,
@@ -138,16 +140,16 @@ function checkedLu(a: number[][], fn: string): { lu: LuDecomposition; inv: Matri
  * @example inverse([[4, 7], [2, 6]]) // [[0.6, -0.7], [-0.2, 0.4]]
  */
 export function inverse(a: number[][]): number[][] {
-  return checkedLu(a, 'inverse').inv.to2DArray();
+  return checkedLu(a, 'inverse').inv;
 }
 
-function checkRightHandSide(b: number[] | number[][], rows: number, fn: string): Matrix {
+function checkRightHandSide(b: number[] | number[][], rows: number, fn: string): number[][] {
   const matrix = Array.isArray(b[0]) ? (b as number[][]) : (b as number[]).map((x) => [x]);
   const shape = checkRectangular(matrix, fn);
   if (shape.rows !== rows) {
     throw new EngineError(`${fn} requires a right-hand side with ${rows} rows, got ${shape.rows}`, 'shape');
   }
-  return new Matrix(matrix);
+  return matrix;
 }
 
 /**
@@ -166,8 +168,10 @@ export function solve(a: number[][], b: number[] | number[][]): number[] | numbe
   const n = checkSquare(a, 'solve');
   const rhs = checkRightHandSide(b, n, 'solve');
   const { lu } = checkedLu(a, 'solve');
-  const x = lu.solve(rhs);
-  return Array.isArray(b[0]) ? x.to2DArray() : x.getColumn(0);
+  const m = rhs[0].length;
+  const x = luSolve(lu, Float64Array.from(rhs.flat()), m);
+  const rows = Array.from({ length: n }, (_, i) => Array.from(x.subarray(i * m, (i + 1) * m)));
+  return Array.isArray(b[0]) ? rows : rows.map((row) => row[0]);
 }
 
 /**
@@ -233,7 +237,7 @@ export function choleskySolve(a: number[][], b: number[] | number[][]): number[]
   const fn = 'Cholesky solve';
   const n = checkSymmetric(a, fn);
   const rhs = checkRightHandSide(b, n, fn);
-  const x = checkedCholesky(a, fn).solve(rhs);
+  const x = checkedCholesky(a, fn).solve(new Matrix(rhs));
   return Array.isArray(b[0]) ? x.to2DArray() : x.getColumn(0);
 }
 

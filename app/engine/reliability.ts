@@ -13,7 +13,8 @@ import { type FeldtInterval, feldtInterval } from './reliability/feldt.ts';
 import { type OneFactorFit, omegaTotal } from './reliability/omega.ts';
 import { type MeasurementError, measurementError } from './reliability/sem.ts';
 import { oddEvenSplitHalf, type SplitHalf } from './reliability/split-half.ts';
-import { checkBounds, type ResponseMatrix, type ScaleBounds } from './scoring.ts';
+import { type Responses, respondentCount, responseRows } from './responses.ts';
+import { checkBounds, type ScaleBounds } from './scoring.ts';
 import { guttmanLambda2, guttmanLambdas } from './factor/guttman.ts';
 import { ENGINE_VERSION } from './version.ts';
 import { ruleThreshold } from './methods/index.ts';
@@ -39,7 +40,8 @@ export interface BootstrapRequest {
 export interface ItemAnalysisInput {
   names: string[];
   /** Rows = respondents, columns = items, already reverse-scored; null = missing. */
-  data: ResponseMatrix;
+  /** By respondent or by item (see responses.ts). */
+  data: Responses;
   missing: MissingMethod;
   /** Confidence level of the Feldt (and bootstrap) interval; default DEFAULT_CI_LEVEL. */
   ciLevel?: number;
@@ -115,9 +117,9 @@ function checkInput(input: ItemAnalysisInput): number {
     if (seen.has(name)) throw new EngineError(`item "${name}" is listed twice`, 'item');
     seen.add(name);
   }
-  if (data.length < 2) {
+  if (respondentCount(data) < 2) {
     throw new EngineError(
-      `alpha requires at least two respondents (got ${data.length})`,
+      `alpha requires at least two respondents (got ${respondentCount(data)})`,
       'too-few-respondents',
     );
   }
@@ -144,13 +146,6 @@ function assertFiniteResult(value: unknown, path: string): void {
   } else if (value !== null && typeof value === 'object') {
     for (const [key, v] of Object.entries(value)) assertFiniteResult(v, `${path}.${key}`);
   }
-}
-
-/** Missing answers in column c of the rows. */
-function countMissing(data: ResponseMatrix, c: number): number {
-  let count = 0;
-  for (let r = 0; r < data.length; r++) if (data[r][c] === null) count++;
-  return count;
 }
 
 function fmt(x: number): string {
@@ -185,7 +180,7 @@ export function analyseItems(input: ItemAnalysisInput): ItemAnalysis {
 
   if (missing === 'listwise' && moments.dropped > 0) {
     warnings.push(
-      `listwise deletion left out ${moments.dropped} of ${data.length} respondents with missing answers`,
+      `listwise deletion left out ${moments.dropped} of ${respondentCount(data)} respondents with missing answers`,
     );
   }
   if (n < FEW_RESPONDENTS) {
@@ -222,7 +217,7 @@ export function analyseItems(input: ItemAnalysisInput): ItemAnalysis {
   const items: ItemResult[] = descriptives.map((d, i) => ({
     ...d,
     // Rows left out of the analysis (an unanswered or, listwise, incomplete row) count as well.
-    missing: d.missing + (missing === 'pairwise' ? moments.dropped : countMissing(data, i)),
+    missing: d.missing + (missing === 'pairwise' ? moments.dropped : moments.missingAll[i]),
     correctedItemTotal: corrected[i],
     alphaIfDeleted: ifDeleted[i],
   }));
@@ -300,7 +295,7 @@ export function analyseItems(input: ItemAnalysisInput): ItemAnalysis {
 
   let bootstrapCI: BootstrapInterval | null = null;
   if (input.bootstrap) {
-    bootstrapCI = bootstrapAlpha(names, moments.rows, missing, {
+    bootstrapCI = bootstrapAlpha(names, moments.rows(), missing, {
       resamples: input.bootstrap.resamples,
       seed: input.bootstrap.seed,
       level,
@@ -331,7 +326,7 @@ export function analyseItems(input: ItemAnalysisInput): ItemAnalysis {
     missingData: {
       method: missing,
       description: MISSING_METHOD_TEXT[missing],
-      respondents: data.length,
+      respondents: respondentCount(data),
       analysed: n,
       dropped: moments.dropped,
       minPairN: moments.minPairN,
@@ -393,7 +388,7 @@ export function analyseScaleAndFacets<K extends string | number = string>(
   const each = input.bootstrap?.resamples ?? 0;
   const total = each * (plan.length + 1);
   let offset = 0;
-  const analyse = (names: string[], data: ResponseMatrix): ItemAnalysis => {
+  const analyse = (names: string[], data: Responses): ItemAnalysis => {
     const start = offset;
     offset += each;
     const bootstrap = input.bootstrap;
@@ -408,8 +403,8 @@ export function analyseScaleAndFacets<K extends string | number = string>(
     });
   };
   const scale = analyse(input.names, input.data);
-  const rows =
-    input.missing === 'listwise' ? input.data.filter((row) => row.every((x) => x !== null)) : input.data;
+  const matrix = responseRows(input.data);
+  const rows = input.missing === 'listwise' ? matrix.filter((row) => row.every((x) => x !== null)) : matrix;
   return {
     scale,
     facets: plan.map(({ facet, names, columns }) => ({

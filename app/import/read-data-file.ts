@@ -10,7 +10,7 @@ import {
 import type { ColumnMapping } from './mapping.ts';
 import type { DecimalMark, MissingCodes } from './numbers.ts';
 import { type ParsedTable, parseTable } from './parse-table.ts';
-import { isPlainText, streamDataset } from './stream-dataset.ts';
+import { bytePieces, isPlainText, streamDataset } from './stream-dataset.ts';
 import { TableError } from './table-error.ts';
 import { readWorkbook } from './workbook.ts';
 import type { JobContext } from '../workers/job-context.ts';
@@ -21,12 +21,7 @@ import type { JobContext } from '../workers/job-context.ts';
  * (or the command line) confirms it; see storeImport in app/phases/pilot/import-actions.ts.
  */
 
-/**
- * Bytes handed to the streaming reader at a time: small enough to cancel and report progress often.
- * Also the fastest of 256 KiB, 1 MiB and 4 MiB on the import bench (test/bench/import-store.ts), and
- * the leanest: larger pieces raised the resident memory of a 13 MB import from 2× to 6× and 11× the file.
- */
-export const READ_CHUNK_BYTES = 256 * 1024;
+export { READ_CHUNK_BYTES } from './stream-dataset.ts';
 
 /** Delimited text (CSV, TSV, semicolons, pipes) or an .xlsx workbook. */
 export type DataFileKind = 'delimited' | 'workbook';
@@ -130,15 +125,14 @@ function cancelled(fileName: string): EngineError {
 }
 
 /** The file's bytes in READ_CHUNK_BYTES pieces (views, not copies), stopping when asked to. */
-async function* chunksOf(
+function chunksOf(
   bytes: Uint8Array,
   fileName: string,
   control?: Pick<JobContext, 'shouldStop'>,
 ): AsyncGenerator<Uint8Array> {
-  for (let at = 0; at < bytes.length; at += READ_CHUNK_BYTES) {
+  return bytePieces(bytes, () => {
     if (control?.shouldStop()) throw cancelled(fileName);
-    yield bytes.subarray(at, at + READ_CHUNK_BYTES);
-  }
+  });
 }
 
 async function readWorkbookFile(request: ReadRequest, control?: JobContext): Promise<ImportRead> {

@@ -25,6 +25,24 @@ import {
 } from './parse-table.ts';
 import { TableError } from './table-error.ts';
 
+/**
+ * Bytes handed to the streaming reader at a time: small enough to cancel and report progress often.
+ * Also the fastest of 256 KiB, 1 MiB and 4 MiB on the import bench (test/bench/import-store.ts), and
+ * the leanest: larger pieces raised the resident memory of a 13 MB import from 2× to 6× and 11× the file.
+ */
+export const READ_CHUNK_BYTES = 256 * 1024;
+
+/**
+ * A file's bytes, read whole, as the stream streamRecords takes: READ_CHUNK_BYTES pieces (views, not
+ * copies), `beforeEach` called before each (it may throw to stop the reading). Cost O(1) per piece.
+ */
+export async function* bytePieces(bytes: Uint8Array, beforeEach?: () => void): AsyncGenerator<Uint8Array> {
+  for (let at = 0; at < bytes.length; at += READ_CHUNK_BYTES) {
+    beforeEach?.();
+    yield bytes.subarray(at, at + READ_CHUNK_BYTES);
+  }
+}
+
 /** How streamRecords reads a delimited file; anything left out is detected. */
 export interface StreamRecordsOptions {
   fileName?: string;
@@ -68,7 +86,11 @@ export interface RecordSink {
  * records of the file's first SNIFF_BYTES characters, header first, for choices made from the start
  * of the file (the decimal mark); a warning pushed to `warnings` is reported with the reader's own.
  */
-export type StartSink<S extends RecordSink> = (header: string[], sniffed: string[][], warnings: string[]) => S;
+export type StartSink<S extends RecordSink> = (
+  header: string[],
+  sniffed: string[][],
+  warnings: string[],
+) => S;
 
 /** A delimited file read through a sink, with what the reader found on the way. */
 export interface StreamedRecords<S extends RecordSink> {

@@ -15,9 +15,12 @@ import {
 } from '../engine/reliability.ts';
 import { readDataFileJob } from '../import/read-data-file.ts';
 import type { JobContext } from './job-context.ts';
+import type { ResponseMatrix } from '../engine/scoring.ts';
 import { cfaJob, invarianceJob } from './validity.ts';
 
-type AnalysisJobInput = Omit<ItemAnalysisInput, 'bootstrap'> & {
+type AnalysisJobInput = Omit<ItemAnalysisInput, 'bootstrap' | 'data'> & {
+  /** By respondent: a round's rows, as they cross to the worker thread. */
+  data: ResponseMatrix;
   bootstrap?: { resamples: number; seed: number };
 };
 

@@ -1,13 +1,14 @@
-import { sha256Hex } from '../../import/sha256.ts';
 import type { MissingMethod } from '../../engine/item-stats.ts';
+import { byItem, type ResponseColumns, responseRows } from '../../engine/responses.ts';
 import { DEFAULT_SEED } from '../../engine/rng.ts';
-import { type ResponseMatrix, reverseScore, type ScaleBounds } from '../../engine/scoring.ts';
+import type { ResponseMatrix, ScaleBounds } from '../../engine/scoring.ts';
 import { chooseDecimalMark } from '../../import/dataset.ts';
-import { type DecimalMark, parseNumber } from '../../import/numbers.ts';
-import { columnLabel, parseTable, TableError } from '../../import/parse-table.ts';
-import { losesPrecision, outOfRangeMessage, precisionWarning } from '../../import/numbers.ts';
+import type { DecimalMark } from '../../import/numbers.ts';
+import { TableError } from '../../import/parse-table.ts';
+import { bytePieces, isPlainText, type StreamedRecords, streamRecords } from '../../import/stream-dataset.ts';
 import type { OptionSpecs } from '../command.ts';
 import { readUserFile } from '../files.ts';
+import { ItemColumnsSink } from './item-columns.ts';
 import { type CliContext, DataError, type OptionValues, UsageError } from '../types.ts';
 
 /** Options every `stats` analysis on a data file takes; an analysis adds its own. */
@@ -40,7 +41,7 @@ export const COMMON_STATS_OPTIONS: OptionSpecs = {
     type: 'string',
     value: 'point|comma',
     description:
-      "the file's decimal mark (default: detected from the first 500 data rows, as an import does)",
+      "the file's decimal mark (default: detected from the file's first 64 KiB, as an import does)",
   },
   seed: {
     type: 'string',
@@ -64,8 +65,10 @@ export interface LoadedItems {
   /** Data rows in the file (header excluded). */
   rows: number;
   names: string[];
-  /** One row per data row of the file, one column per item; null = missing. Reverse keys applied. */
-  data: ResponseMatrix;
+  /** One column per item, one value per data row of the file; NaN = missing. Reverse keys applied. */
+  answers: ResponseColumns;
+  /** The same answers by row (null = missing), built when first asked for. */
+  readonly data: ResponseMatrix;
   /** 1-based file row of each entry of `data` (the header is row 1). */
   rowNumbers: number[];
   reverse: string[];
@@ -83,12 +86,7 @@ export interface LoadOptions {
   names?: { list: string[]; from: string };
 }
 
-/** Distinct cell texts whose reading is remembered (bounds the memory on a file of measurements). */
-const DISTINCT_CELLS_KEPT = 10_000;
-
 const NUMBER = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
-const DECIMAL_COMMA = /^[+-]?\d+,\d+$/;
-const DECIMAL_POINT = /^[+-]?\d+\.\d+$/;
 
 /** --decimal-mark point|comma; absent, the mark is detected (chooseDecimalMark). */
 function decimalMarkOption(values: OptionValues): DecimalMark | undefined {
@@ -173,11 +171,14 @@ function boundsOption(values: OptionValues): ScaleBounds | null {
 }
 
 /**
- * The shared loader of every `stats` analysis: reads --data with parseTable, picks the --items columns
- * (or another option's), turns empty cells and --missing-codes into missing values, parses numbers
- * with one decimal mark for the file (detected as the import detects it, or --decimal-mark), a cell
- * written with the other mark being an error named by row and column, checks values against
- * --min/--max when given, and applies --reverse as min + max − x.
+ * The shared loader of every `stats` analysis: reads --data as an import reads a delimited file
+ * (streamRecords: encoding, delimiter and quotes detected, blank rows skipped, ragged rows refused),
+ * picks the --items columns (or another option's), turns empty cells and --missing-codes into missing
+ * values, parses numbers with one decimal mark for the file (detected from the file's first 64 KiB as
+ * an import detects it, or --decimal-mark), a cell written with the other mark being an error named by
+ * row and column, checks values against --min/--max when given, and applies --reverse as
+ * min + max − x. The answers come as one column per item (`answers`), read from the bytes without a
+ * string per cell; `data` gives them by row when an analysis asks for it.
  *
  * Throws UsageError (exit 2) for a missing --data or items option, a malformed option, --reverse
  * without --min/--max, or a reversed name not among the items; DataError (exit 1) naming file, row and
@@ -216,105 +217,61 @@ export async function loadItemData(
   const numericCodes = missingCodes.filter((c) => NUMBER.test(c)).map(Number);
 
   const bytes = await readUserFile(file, 'data file', ctx);
-  const sha256 = sha256Hex(bytes);
-  let table: ReturnType<typeof parseTable>;
+  let read: StreamedRecords<ItemColumnsSink>;
   try {
-    table = parseTable(bytes, { fileName: file });
+    read = await streamRecords(
+      bytePieces(bytes),
+      (header, sniffed, warnings) => {
+        const columns = names.map((name) => {
+          const index = header.indexOf(name);
+          if (index >= 0) return index;
+          const folded = header.find((h) => h.toLowerCase() === name.toLowerCase());
+          const hint = folded ? ` (did you mean "${folded}"?)` : '';
+          throw new DataError(
+            `${file}: no column named "${name}"${hint}; the columns are ${header.join(', ')}`,
+          );
+        });
+        // One rule for the decimal mark, over the same records, as the import of a data file into a study.
+        const mark = chooseDecimalMark(sniffed.slice(1), columns, decimalMarkOption(values), warnings);
+        return new ItemColumnsSink({ file, header, columns, mark, missingCodes, numericCodes, bounds });
+      },
+      { fileName: file, plainText: isPlainText(bytes) },
+    );
   } catch (error) {
     if (error instanceof TableError) throw new DataError(`${file}: ${error.message}`);
     throw error;
   }
-  const columns = names.map((name) => {
-    const index = table.header.indexOf(name);
-    if (index < 0) {
-      const folded = table.header.find((h) => h.toLowerCase() === name.toLowerCase());
-      const hint = folded ? ` (did you mean "${folded}"?)` : '';
-      throw new DataError(
-        `${file}: no column named "${name}"${hint}; the columns are ${table.header.join(', ')}`,
-      );
+  const { columns, rowNumbers, warnings: cellWarnings } = read.sink.finish();
+  if (reverse.length > 0 && bounds) {
+    const pivot = bounds.min + bounds.max;
+    for (const name of reverse) {
+      const column = columns[names.indexOf(name)];
+      for (let r = 0; r < column.length; r++) column[r] = pivot - column[r];
     }
-    return index;
-  });
-  const rowNumbers = table.rowNumbers ?? table.rows.map((_, i) => i + 2);
-  const warnings = [...table.warnings];
-  let rounded: { where: string; cell: string; value: number } | undefined;
-  let roundedCount = 0;
-  // One rule for the decimal mark, over the same rows, as the import of a data file into a study.
-  const mark = chooseDecimalMark(table.rows, columns, decimalMarkOption(values), warnings);
-  const other = mark === '.' ? DECIMAL_COMMA : DECIMAL_POINT;
-  /** Reads one cell; throws DataError naming file, row and column. */
-  const read = (
-    cellText: string | undefined,
-    r: number,
-    c: number,
-  ): { value: number | null; rounded: boolean } => {
-    const cell = (cellText ?? '').trim();
-    if (cell === '' || missingCodes.includes(cell)) return { value: null, rounded: false };
-    const value = parseNumber(cell, mark);
-    const where = () => `${file}, row ${rowNumbers[r]}, ${columnLabel(c, table.header)}`;
-    if (value === undefined) {
-      if (other.test(cell)) {
-        throw new DataError(
-          `${where()}: value "${cell}" uses the other decimal mark; this file is read with the decimal ` +
-            `${mark === '.' ? 'point' : 'comma'} (give --decimal-mark ${mark === '.' ? 'comma' : 'point'} if that is wrong)`,
-        );
-      }
-      throw new DataError(
-        `${where()}: value "${cell}" is not a number ` +
-          '(leave the cell empty or list it in --missing-codes if it marks a missing answer)',
-      );
-    }
-    const range = outOfRangeMessage(cell, value);
-    if (range !== undefined) throw new DataError(`${where()}: ${range}`);
-    const roundedHere = losesPrecision(cell, value);
-    if (roundedHere && rounded === undefined) rounded = { where: where(), cell, value };
-    if (numericCodes.includes(value)) return { value: null, rounded: roundedHere };
-    if (bounds && (value < bounds.min || value > bounds.max)) {
-      throw new DataError(
-        `${where()}: value ${cell} lies outside the declared bounds ${bounds.min}–${bounds.max} ` +
-          '(--min/--max); list it in --missing-codes if it marks a missing answer',
-      );
-    }
-    return { value, rounded: roundedHere };
-  };
-  // What a cell reads as depends on its text alone, so each distinct text is read once (a Likert file
-  // holds a handful); its first occurrence, in row order, is the one a message or warning names.
-  const known = new Map<string | undefined, { value: number | null; rounded: boolean }>();
-  // One-character cells (a Likert answer) are looked up by their character code, without hashing.
-  const byCode: ({ value: number | null; rounded: boolean } | undefined)[] = new Array(128);
-  const raw: ResponseMatrix = new Array(table.rows.length);
-  for (let r = 0; r < table.rows.length; r++) {
-    const row = table.rows[r];
-    const values: (number | null)[] = new Array(columns.length);
-    for (let j = 0; j < columns.length; j++) {
-      const cellText = row[columns[j]];
-      const code = cellText !== undefined && cellText.length === 1 ? cellText.charCodeAt(0) : 128;
-      let got = code < 128 ? byCode[code] : known.get(cellText);
-      if (got === undefined) {
-        got = read(cellText, r, columns[j]);
-        if (code < 128) byCode[code] = got;
-        else if (known.size < DISTINCT_CELLS_KEPT) known.set(cellText, got);
-      }
-      if (got.rounded) roundedCount++;
-      values[j] = got.value;
-    }
-    raw[r] = values;
   }
-  if (rounded !== undefined)
-    warnings.push(precisionWarning(rounded.where, rounded.cell, rounded.value, roundedCount - 1));
-  if (mark === ',') warnings.push('read with the decimal comma (detected, or given with --decimal-mark)');
-  const data = reverse.length > 0 && bounds ? reverseScore(raw, names, reverse, bounds) : raw;
+  const answers = byItem(columns);
+  let rows: ResponseMatrix | undefined;
   return {
     file,
-    sha256,
-    rows: table.rows.length,
+    sha256: read.sha256,
+    rows: answers.n,
     names,
-    data,
+    answers,
+    get data() {
+      rows ??= responseRows(answers);
+      return rows;
+    },
     rowNumbers,
     reverse,
     bounds,
     missing,
     missingCodes,
-    warnings,
+    warnings: [
+      ...read.warnings,
+      ...cellWarnings,
+      ...(read.sink.mark === ','
+        ? ['read with the decimal comma (detected, or given with --decimal-mark)']
+        : []),
+    ],
   };
 }

@@ -226,7 +226,7 @@ export const reliability: StatsAnalysis = {
     try {
       analysis = analyseItems({
         names: loaded.names,
-        data: loaded.data,
+        data: loaded.answers,
         missing: loaded.missing,
         ciLevel,
         bootstrap: resamples === undefined ? undefined : { resamples, seed },

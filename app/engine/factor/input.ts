@@ -65,7 +65,7 @@ export function correlationInput(
       warnings,
     };
   }
-  const poly = polychoricMatrix(items, moments.rows, control);
+  const poly = polychoricMatrix(items, moments.rows(), control);
   return {
     kind,
     missing,

@@ -1,0 +1,189 @@
+import { FIELD_EMPTY, type FieldRows } from '../../import/dataset.ts';
+import {
+  type DecimalMark,
+  losesPrecision,
+  outOfRangeMessage,
+  parseNumber,
+  precisionWarning,
+} from '../../import/numbers.ts';
+import { columnLabel } from '../../import/parse-table.ts';
+import type { RecordSink } from '../../import/stream-dataset.ts';
+import type { ScaleBounds } from '../../engine/scoring.ts';
+import { DataError } from '../types.ts';
+
+/** Distinct cell texts whose reading is remembered (bounds the memory on a file of measurements). */
+const DISTINCT_CELLS_KEPT = 10_000;
+
+const DECIMAL_COMMA = /^[+-]?\d+,\d+$/;
+const DECIMAL_POINT = /^[+-]?\d+\.\d+$/;
+
+/** What a cell's text reads as: its value (null = missing), and whether the double rounds the text. */
+interface Reading {
+  value: number | null;
+  rounded: boolean;
+}
+
+/** How the cells of the item columns are read. */
+export interface CellRules {
+  /** The file as the user named it (messages name it). */
+  file: string;
+  header: readonly string[];
+  /** Header index of each item column, in the order of the items. */
+  columns: readonly number[];
+  mark: DecimalMark;
+  /** Cell texts that mean "no answer" (an empty cell always does). */
+  missingCodes: readonly string[];
+  /** The numeric missing codes as numbers: a value equal to one is missing too. */
+  numericCodes: readonly number[];
+  bounds: ScaleBounds | null;
+}
+
+/**
+ * The command line's sink for streamRecords: the item columns of a data file read straight into one
+ * Float64Array per item (NaN for a missing answer), without a string per cell or a row per respondent.
+ * A cell is read by its text alone, so each distinct text is read once (a Likert file holds a
+ * handful), at its first occurrence in file order, which is the one a message or warning names; a
+ * single digit the reader took out of a plain-text file is looked up without becoming a string.
+ * Cost O(cells). Throws DataError naming file, row and column for a value that is not a number, uses
+ * the other decimal mark, or lies outside the declared bounds.
+ */
+export class ItemColumnsSink implements RecordSink {
+  private values: Float64Array[];
+  private rows: Int32Array;
+  private count = 0;
+  /** One-character cells (a Likert answer) by character code; longer ones by text. */
+  private readonly byCode: (Reading | undefined)[] = new Array(128);
+  private readonly known = new Map<string, Reading>();
+  private rounded: { where: string; cell: string; value: number } | undefined;
+  private roundedCount = 0;
+
+  constructor(private readonly rules: CellRules) {
+    this.values = rules.columns.map(() => new Float64Array(1024));
+    this.rows = new Int32Array(1024);
+  }
+
+  get n(): number {
+    return this.count;
+  }
+
+  /** The decimal mark the cells are read with. */
+  get mark(): DecimalMark {
+    return this.rules.mark;
+  }
+
+  addRows(records: readonly (readonly string[])[], rowNumbers: readonly number[]): void {
+    const { columns } = this.rules;
+    for (let i = 0; i < records.length; i++) {
+      const at = this.nextRow(rowNumbers[i]);
+      const record = records[i];
+      for (let j = 0; j < columns.length; j++) {
+        this.values[j][at] = this.readText(record[columns[j]] ?? '', rowNumbers[i], columns[j]);
+      }
+    }
+  }
+
+  addFieldRows(rows: FieldRows): void {
+    const { columns, header } = this.rules;
+    const width = header.length;
+    for (let i = 0; i < rows.n; i++) {
+      const row = rows.rowNumbers[i];
+      const at = this.nextRow(row);
+      for (let j = 0; j < columns.length; j++) {
+        const c = columns[j];
+        const digit = rows.digits[i * width + c];
+        let value: number;
+        if (digit >= 0) {
+          const code = 0x30 + digit;
+          const got = this.byCode[code] ?? this.first(String.fromCharCode(code), row, c, code);
+          if (got.rounded) this.roundedCount++;
+          value = got.value ?? Number.NaN;
+        } else if (digit === FIELD_EMPTY) {
+          value = this.readText('', row, c);
+        } else {
+          const base = i * (width + 1);
+          value = this.readText(rows.text(rows.starts[base + c], rows.starts[base + c + 1] - 1), row, c);
+        }
+        this.values[j][at] = value;
+      }
+    }
+  }
+
+  /** The columns, one per item, and the file row of each respondent, once every record is in. */
+  finish(): { columns: Float64Array[]; rowNumbers: number[]; warnings: string[] } {
+    const warnings: string[] = [];
+    if (this.rounded !== undefined) {
+      const { where, cell, value } = this.rounded;
+      warnings.push(precisionWarning(where, cell, value, this.roundedCount - 1));
+    }
+    return {
+      columns: this.values.map((v) => v.slice(0, this.count)),
+      rowNumbers: Array.from(this.rows.subarray(0, this.count)),
+      warnings,
+    };
+  }
+
+  /** Makes room for one more respondent and returns its index. */
+  private nextRow(rowNumber: number): number {
+    if (this.count === this.rows.length) {
+      const grow = <T extends Float64Array | Int32Array>(a: T, make: (n: number) => T): T => {
+        const bigger = make(a.length * 2);
+        bigger.set(a);
+        return bigger;
+      };
+      this.rows = grow(this.rows, (n) => new Int32Array(n));
+      this.values = this.values.map((v) => grow(v, (n) => new Float64Array(n)));
+    }
+    this.rows[this.count] = rowNumber;
+    return this.count++;
+  }
+
+  /** The value of a cell given as text (NaN = missing), read once per distinct text. */
+  private readText(text: string, row: number, column: number): number {
+    const code = text.length === 1 ? text.charCodeAt(0) : 128;
+    const got =
+      (code < 128 ? this.byCode[code] : this.known.get(text)) ?? this.first(text, row, column, code);
+    if (got.rounded) this.roundedCount++;
+    return got.value ?? Number.NaN;
+  }
+
+  /** Reads a text met for the first time, at file row `row`, header column `column`, and remembers it. */
+  private first(text: string, row: number, column: number, code: number): Reading {
+    const got = this.read(text, row, column);
+    if (code < 128) this.byCode[code] = got;
+    else if (this.known.size < DISTINCT_CELLS_KEPT) this.known.set(text, got);
+    return got;
+  }
+
+  private read(text: string, row: number, column: number): Reading {
+    const { file, header, mark, missingCodes, numericCodes, bounds } = this.rules;
+    const cell = text.trim();
+    if (cell === '' || missingCodes.includes(cell)) return { value: null, rounded: false };
+    const value = parseNumber(cell, mark);
+    const where = () => `${file}, row ${row}, ${columnLabel(column, header)}`;
+    if (value === undefined) {
+      const other = mark === '.' ? DECIMAL_COMMA : DECIMAL_POINT;
+      if (other.test(cell)) {
+        throw new DataError(
+          `${where()}: value "${cell}" uses the other decimal mark; this file is read with the decimal ` +
+            `${mark === '.' ? 'point' : 'comma'} (give --decimal-mark ${mark === '.' ? 'comma' : 'point'} if that is wrong)`,
+        );
+      }
+      throw new DataError(
+        `${where()}: value "${cell}" is not a number ` +
+          '(leave the cell empty or list it in --missing-codes if it marks a missing answer)',
+      );
+    }
+    const range = outOfRangeMessage(cell, value);
+    if (range !== undefined) throw new DataError(`${where()}: ${range}`);
+    const rounded = losesPrecision(cell, value);
+    if (rounded && this.rounded === undefined) this.rounded = { where: where(), cell, value };
+    if (numericCodes.includes(value)) return { value: null, rounded };
+    if (bounds && (value < bounds.min || value > bounds.max)) {
+      throw new DataError(
+        `${where()}: value ${cell} lies outside the declared bounds ${bounds.min}–${bounds.max} ` +
+          '(--min/--max); list it in --missing-codes if it marks a missing answer',
+      );
+    }
+    return { value, rounded };
+  }
+}

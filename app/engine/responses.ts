@@ -1,0 +1,108 @@
+import { EngineError } from './errors.ts';
+import type { ResponseMatrix } from './scoring.ts';
+
+/**
+ * Answers held by item: one Float64Array per item, NaN for a missing answer, every column one value per
+ * respondent. The form the moment computations work in; a reader that builds it directly (the command
+ * line's data loader) spares the engine a matrix of boxed rows.
+ */
+export interface ResponseColumns {
+  readonly kind: 'columns';
+  /** Respondents (the length of every column). */
+  readonly n: number;
+  readonly columns: readonly Float64Array[];
+}
+
+/** Answers by respondent (a ResponseMatrix, null for missing) or by item (ResponseColumns). */
+export type Responses = ResponseMatrix | ResponseColumns;
+
+/**
+ * Wraps columns as ResponseColumns. Cost O(k).
+ * Throws EngineError when the columns differ in length.
+ */
+export function byItem(columns: readonly Float64Array[]): ResponseColumns {
+  const n = columns[0]?.length ?? 0;
+  columns.forEach((column, c) => {
+    if (column.length !== n) {
+      throw new EngineError(
+        `the answers of item ${c + 1} hold ${column.length} values but those of item 1 hold ${n}`,
+        'shape',
+      );
+    }
+  });
+  return { kind: 'columns', n, columns };
+}
+
+export function isByItem(data: Responses): data is ResponseColumns {
+  return !Array.isArray(data);
+}
+
+/** Respondents in the answers. Cost O(1). */
+export function respondentCount(data: Responses): number {
+  return isByItem(data) ? data.n : data.length;
+}
+
+/**
+ * The answers as one column per item (NaN for a missing answer), checking that every respondent has
+ * one answer per item and every answer is a finite number. Columns given are returned as they are
+ * (after the same checks), never copied.
+ *
+ * Cost: O(n·k). Throws EngineError naming the respondent (1-based) and the item.
+ */
+export function itemColumns(names: readonly string[], data: Responses): Float64Array[] {
+  const k = names.length;
+  if (isByItem(data)) {
+    if (data.columns.length !== k) {
+      throw new EngineError(`the answers hold ${data.columns.length} items but ${k} are named`, 'shape');
+    }
+    data.columns.forEach((column, c) => {
+      for (let r = 0; r < column.length; r++) {
+        const x = column[r];
+        if (x - x !== 0 && !Number.isNaN(x)) {
+          throw new EngineError(
+            `respondent ${r + 1}, item "${names[c]}": the value ${x} is not a finite number`,
+          );
+        }
+      }
+    });
+    return data.columns.slice();
+  }
+  const n = data.length;
+  const columns = Array.from({ length: k }, () => new Float64Array(n));
+  for (let r = 0; r < n; r++) {
+    const row = data[r];
+    if (row.length !== k) {
+      throw new EngineError(
+        `respondent ${r + 1} has ${row.length} answers but there are ${k} items`,
+        'shape',
+      );
+    }
+    for (let c = 0; c < k; c++) {
+      const x = row[c];
+      if (x === null) columns[c][r] = Number.NaN;
+      else if (Number.isFinite(x)) columns[c][r] = x;
+      else {
+        throw new EngineError(
+          `respondent ${r + 1}, item "${names[c]}": the value ${x} is not a finite number`,
+        );
+      }
+    }
+  }
+  return columns;
+}
+
+/** The answers by respondent (null for a missing answer); a matrix given is returned as it is. Cost O(n·k). */
+export function responseRows(data: Responses): ResponseMatrix {
+  if (!isByItem(data)) return data;
+  const { n, columns } = data;
+  const rows: ResponseMatrix = new Array(n);
+  for (let r = 0; r < n; r++) {
+    const row: (number | null)[] = new Array(columns.length);
+    for (let c = 0; c < columns.length; c++) {
+      const x = columns[c][r];
+      row[c] = Number.isNaN(x) ? null : x;
+    }
+    rows[r] = row;
+  }
+  return rows;
+}
