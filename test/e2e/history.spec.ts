@@ -6,8 +6,8 @@ const DROPPED = 'TR09';
 /** The demo item revised after the first review round (app/demo/review.ts). */
 const REVISED = 'TR05';
 
-// Every stored analysis must re-run: the validity phase's run kinds have no re-run registered yet, so
-// the demo stops with purification open (as the unit tests of re-runs do).
+// The demo stops with purification open, which is quicker to make; every stored analysis of the full
+// demo re-runs too (the unit tests of re-runs check that).
 test.use({ demoThrough: 'purification' });
 
 test('the history: filter the log by an item, read its life story, open the stored run a decision rests on and re-run it', async ({

@@ -13,7 +13,8 @@ let session: Session;
 beforeAll(() => {
   tmp = tempDir();
   const file = path.join(tmp.dir, 'demo.scalewright');
-  // The demo up to purification: the validity phase's run kinds have no re-run registered yet.
+  // The demo up to purification, which is quicker to make; the full demo's runs, the validity
+  // phase's included, are re-run in test/unit/phases/history/validity-rerun.test.ts.
   Study.create(
     file,
     { actor: TEST_ACTOR, app: 'test' },
