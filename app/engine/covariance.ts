@@ -117,6 +117,81 @@ export function listwiseCovariance(columns: Columns): ListwiseMoments {
 const PAIRWISE_BLOCK_ROWS = 512;
 
 /**
+ * Adds to cross[j·p + k] (k ≤ j) the sum over r < rows of block[j·B + r]·block[k·B + r]: the
+ * cross-products of one block of rows. Two columns j against four columns k at a time, so that each
+ * loaded value serves several products (six loads for eight multiply–adds); every pair's terms are still
+ * summed in row order into a sum of their own, so the result does not depend on the blocking.
+ * Cost O(rows·p²/2).
+ */
+function blockCrossProducts(
+  block: Float64Array,
+  B: number,
+  rows: number,
+  p: number,
+  cross: Float64Array,
+): void {
+  const single = (j: number, k: number) => {
+    const a = j * B;
+    const b = k * B;
+    let s = 0;
+    for (let r = 0; r < rows; r++) s += block[a + r] * block[b + r];
+    cross[j * p + k] += s;
+  };
+  let j = 0;
+  for (; j + 1 < p; j += 2) {
+    const a0 = j * B;
+    const a1 = a0 + B;
+    const base0 = j * p;
+    const base1 = base0 + p;
+    let k = 0;
+    for (; k + 3 <= j; k += 4) {
+      const b0 = k * B;
+      const b1 = b0 + B;
+      const b2 = b1 + B;
+      const b3 = b2 + B;
+      let s00 = 0;
+      let s01 = 0;
+      let s02 = 0;
+      let s03 = 0;
+      let s10 = 0;
+      let s11 = 0;
+      let s12 = 0;
+      let s13 = 0;
+      for (let r = 0; r < rows; r++) {
+        const x0 = block[a0 + r];
+        const x1 = block[a1 + r];
+        const y0 = block[b0 + r];
+        const y1 = block[b1 + r];
+        const y2 = block[b2 + r];
+        const y3 = block[b3 + r];
+        s00 += x0 * y0;
+        s01 += x0 * y1;
+        s02 += x0 * y2;
+        s03 += x0 * y3;
+        s10 += x1 * y0;
+        s11 += x1 * y1;
+        s12 += x1 * y2;
+        s13 += x1 * y3;
+      }
+      cross[base0 + k] += s00;
+      cross[base0 + k + 1] += s01;
+      cross[base0 + k + 2] += s02;
+      cross[base0 + k + 3] += s03;
+      cross[base1 + k] += s10;
+      cross[base1 + k + 1] += s11;
+      cross[base1 + k + 2] += s12;
+      cross[base1 + k + 3] += s13;
+    }
+    for (; k <= j; k++) {
+      single(j, k);
+      single(j + 1, k);
+    }
+    single(j + 1, j + 1);
+  }
+  if (j < p) for (let k = 0; k <= j; k++) single(j, k);
+}
+
+/**
  * Pairwise-deletion moments from the missing masks: each value is shifted by its column's mean over
  * the column's present cases (x − x̄ⱼ, which keeps the sums below free of cancellation) and a missing
  * value counts as 0, so that the cross-products Σ dⱼdₖ over all rows are already sums over each pair's
@@ -206,39 +281,7 @@ export function pairwiseMoments(columns: Columns): PairwiseMoments {
       total[j] += t;
       squares[j] += q;
     }
-    // Four pairs at a time: each value of column j is loaded once for four products.
-    for (let j = 0; j < p; j++) {
-      const a = j * B;
-      const base = j * p;
-      let k = 0;
-      for (; k + 3 <= j; k += 4) {
-        const b0 = k * B;
-        const b1 = b0 + B;
-        const b2 = b1 + B;
-        const b3 = b2 + B;
-        let s0 = 0;
-        let s1 = 0;
-        let s2 = 0;
-        let s3 = 0;
-        for (let r = 0; r < rows; r++) {
-          const x = block[a + r];
-          s0 += x * block[b0 + r];
-          s1 += x * block[b1 + r];
-          s2 += x * block[b2 + r];
-          s3 += x * block[b3 + r];
-        }
-        cross[base + k] += s0;
-        cross[base + k + 1] += s1;
-        cross[base + k + 2] += s2;
-        cross[base + k + 3] += s3;
-      }
-      for (; k <= j; k++) {
-        const b = k * B;
-        let s = 0;
-        for (let r = 0; r < rows; r++) s += block[a + r] * block[b + r];
-        cross[base + k] += s;
-      }
-    }
+    blockCrossProducts(block, B, rows, p, cross);
     for (let m = 0; m < missing; m++) {
       const r = missingRow[m];
       const k = missingColumn[m];

@@ -57,9 +57,14 @@ export class ItemColumnsSink implements RecordSink {
   private rounded: { where: string; cell: string; value: number } | undefined;
   private roundedCount = 0;
 
-  constructor(private readonly rules: CellRules) {
-    this.values = rules.columns.map(() => new Float64Array(1024));
-    this.rows = new Int32Array(1024);
+  /** `expectedRows` sizes the columns once (a guess is fine: they grow when it is short). */
+  constructor(
+    private readonly rules: CellRules,
+    expectedRows = 1024,
+  ) {
+    const size = Math.max(16, Math.ceil(expectedRows));
+    this.values = rules.columns.map(() => new Float64Array(size));
+    this.rows = new Int32Array(size);
   }
 
   get n(): number {
@@ -116,7 +121,7 @@ export class ItemColumnsSink implements RecordSink {
       warnings.push(precisionWarning(where, cell, value, this.roundedCount - 1));
     }
     return {
-      columns: this.values.map((v) => v.slice(0, this.count)),
+      columns: this.values.map((v) => v.subarray(0, this.count)),
       rowNumbers: Array.from(this.rows.subarray(0, this.count)),
       warnings,
     };
