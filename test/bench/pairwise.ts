@@ -76,11 +76,14 @@ function main(): void {
     const cli = () => timed('npm', ['--prefix', ROOT, 'run', '-s', 'cli', '--', ...args], dir);
     // The same command through the launcher alone: what npm adds is the difference.
     const launcher = () => timed(process.execPath, [join(ROOT, 'app', 'cli', 'bin.mjs'), ...args], dir);
+    // npm's own start, running a script that does nothing of ours (npm's built-in `env`).
+    const npmAlone = () => timed('npm', ['--prefix', ROOT, 'run', '-s', 'env'], dir);
     const numpy = hasNumpy(PYTHON);
     const py = () => timed(PYTHON, [join(ROOT, 'test', 'bench', 'pairwise_numpy.py'), csv], dir);
     const ours: Timed[] = [];
     const theirs: Timed[] = [];
     const bare: Timed[] = [];
+    const npmOnly: Timed[] = [];
     ours.push(cli());
     if (numpy) theirs.push(py());
     const first = { ours: ours[0].stdout, theirs: theirs[0]?.stdout };
@@ -89,11 +92,13 @@ function main(): void {
     for (let r = 0; r < REPEATS; r++) {
       ours.push(cli());
       bare.push(launcher());
+      npmOnly.push(npmAlone());
       if (numpy) theirs.push(py());
     }
     const label = `${RESPONDENTS.toLocaleString('en')} × ${ITEMS}, ${MISSING_SHARE * 100}% missing`;
     line(`stats reliability --missing pairwise, ${label}`, medians(ours));
     line('  the same through the launcher alone (node bin.mjs)', medians(bare));
+    line("  npm's own start (npm run -s env: none of our code)", medians(npmOnly));
     if (!numpy) {
       console.log(`  numpy not available at ${PYTHON}: comparison skipped`);
     } else {
