@@ -87,9 +87,12 @@ describe('the compiled command line', () => {
 
   it('writes the final instrument with pdfkit kept outside the bundle, loaded only to write, and the fonts found from it', () => {
     const bundle = compiledText();
-    // Imported where a PDF is written, so commands that never write one start without loading it.
-    expect(bundle).toMatch(/import\("pdfkit"\)/);
-    expect(bundle).not.toMatch(/from "pdfkit"|require\("pdfkit"\)/);
+    // Imported where a PDF or DOCX is written, so commands that write neither start without loading them.
+    for (const writer of ['pdfkit', 'docx']) {
+      expect(bundle).toContain(`import("${writer}")`);
+      expect(bundle).not.toContain(`from "${writer}"`);
+      expect(bundle).not.toContain(`require("${writer}")`);
+    }
     expect(runCompiled(['project', 'new', 'demo.scalewright', '--demo']).code).toBe(0);
     const run = runCompiled(['project', 'instrument', 'demo.scalewright', '--out', 'instrument', '--json']);
     expect(run.stderr).toBe('');
