@@ -56,8 +56,7 @@ export function fontDirectory(): string {
 }
 
 /** The four font files' bytes, by style; throws naming the file that cannot be read. */
-function readFonts(): Record<FontStyle, Buffer> {
-  const folder = fontDirectory();
+function readFonts(folder: string): Record<FontStyle, Buffer> {
   const out = {} as Record<FontStyle, Buffer>;
   for (const [style, file] of Object.entries(FONT_FILES) as [FontStyle, string][]) {
     const full = path.join(folder, file);
@@ -184,14 +183,15 @@ export async function createPdf(options: {
   margins?: PdfMargins;
   footer?: (page: number, pages: number) => string;
 }): Promise<PdfWriter> {
-  const fonts = readFonts();
+  const folder = fontDirectory();
+  const fonts = readFonts(folder);
   const { default: PDFDocument } = await import('pdfkit');
   const margins = options.margins ?? { top: 56, bottom: 70, left: 56, right: 56 };
   const doc = new PDFDocument({
     size: 'A4',
     margins,
     bufferPages: true,
-    font: path.join(fontDirectory(), FONT_FILES.regular),
+    font: path.join(folder, FONT_FILES.regular),
     info: {
       Title: options.title,
       ...(options.subject ? { Subject: options.subject } : {}),
