@@ -51,7 +51,8 @@ export interface LogBreak {
 
 export const GENESIS_HASH = '0'.repeat(64);
 
-interface LogRow {
+/** A decision_log row as the file stores it. */
+export interface LogRow {
   seq: number;
   at: string;
   actor_user: string;
@@ -160,7 +161,7 @@ export class DecisionLog {
     const rows = this.db
       .prepare(`SELECT * FROM decision_log WHERE ${where} ORDER BY seq DESC LIMIT @limit OFFSET @offset`)
       .all({ ...params, limit: filter.limit ?? -1, offset: filter.offset ?? 0 }) as LogRow[];
-    return { total, entries: rows.map(fromRow) };
+    return { total, entries: rows.map(entryFromRow) };
   }
 
   /** The distinct kinds of row the log holds, for filters. */
@@ -179,7 +180,7 @@ export class DecisionLog {
   /** The row at `seq`, if the log holds it. */
   row(seq: number): LogEntry | undefined {
     const raw = this.db.prepare('SELECT * FROM decision_log WHERE seq = ?').get(seq) as LogRow | undefined;
-    return raw ? fromRow(raw) : undefined;
+    return raw ? entryFromRow(raw) : undefined;
   }
 
   /** The latest row that recorded the content's root digest. */
@@ -221,7 +222,7 @@ export class DecisionLog {
     const row = this.db
       .prepare('SELECT * FROM decision_log WHERE phase = ? AND kind = ? ORDER BY seq DESC LIMIT 1')
       .get(phase, kind) as LogRow | undefined;
-    return row && fromRow(row);
+    return row && entryFromRow(row);
   }
 
   /** Rows after `seq` written by any of `phases`, leaving out the kinds in `exceptKinds`; oldest first. */
@@ -234,7 +235,7 @@ export class DecisionLog {
          ORDER BY seq`,
       )
       .all(seq, JSON.stringify(phases), JSON.stringify(exceptKinds)) as LogRow[];
-    return rows.map(fromRow);
+    return rows.map(entryFromRow);
   }
 
   count(): number {
@@ -251,7 +252,7 @@ export class DecisionLog {
     for (const raw of this.db
       .prepare('SELECT * FROM decision_log ORDER BY seq')
       .iterate() as Iterable<LogRow>) {
-      const row = fromRow(raw);
+      const row = entryFromRow(raw);
       if (row.seq !== expectedSeq) {
         breaks.push({ seq: row.seq, problem: `row ${expectedSeq} is missing (the log jumps to ${row.seq})` });
       }
@@ -310,11 +311,16 @@ function runText(run: Record<string, unknown>): string {
   return JSON.stringify(['id', ...RUN_PARTS].map((k) => [k, typeof run[k], String(run[k])]));
 }
 
-function rowHash(body: Omit<LogEntry, 'hash'>): string {
+/**
+ * A row's hash: SHA-256 over the previous row's hash and the row's canonical JSON (every field but
+ * the hash itself; absent digests left out). The one definition the chain is written and checked with.
+ */
+export function rowHash(body: Omit<LogEntry, 'hash'>): string {
   return crypto.createHash('sha256').update(body.prevHash).update(canonicalJson(body)).digest('hex');
 }
 
-function fromRow(row: LogRow): LogEntry {
+/** A stored row as a log entry (its detail parsed, absent digests left out). */
+export function entryFromRow(row: LogRow): LogEntry {
   return {
     seq: row.seq,
     at: row.at,

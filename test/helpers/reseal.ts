@@ -1,23 +1,6 @@
-import crypto from 'node:crypto';
 import Database from 'better-sqlite3';
-import { canonicalJson } from '../../db/canonical-json.ts';
 import { rootDigest, syncAllDigests } from '../../db/content-digest.ts';
-import { GENESIS_HASH, runDigest } from '../../db/decision-log.ts';
-
-interface RawRow {
-  seq: number;
-  at: string;
-  actor_user: string;
-  actor_name: string;
-  phase: string;
-  kind: string;
-  target: string;
-  rationale: string;
-  detail: string;
-  run_id: number | null;
-  state_digest: string | null;
-  run_digest: string | null;
-}
+import { entryFromRow, GENESIS_HASH, type LogRow, rowHash, runDigest } from '../../db/decision-log.ts';
 
 /**
  * Tampers with a study file the way a careful forger would: runs `edit` on the file, then
@@ -37,35 +20,19 @@ export function editAndReseal(file: string, edit: (db: Database.Database) => voi
         .prepare("SELECT name, sql FROM sqlite_master WHERE type = 'trigger' AND tbl_name = 'decision_log'")
         .all() as { name: string; sql: string }[];
       for (const t of triggers) db.exec(`DROP TRIGGER "${t.name}"`);
-      const rows = db.prepare('SELECT * FROM decision_log ORDER BY seq').all() as RawRow[];
+      const rows = db.prepare('SELECT * FROM decision_log ORDER BY seq').all() as LogRow[];
       const last = rows.at(-1)?.seq;
       let prevHash = GENESIS_HASH;
       const update = db.prepare(
         'UPDATE decision_log SET run_digest = ?, state_digest = ?, prev_hash = ?, hash = ? WHERE seq = ?',
       );
       for (const row of rows) {
-        const runDigestNow =
-          row.run_digest !== null && row.run_id !== null
-            ? (runDigest(db, row.run_id) ?? null)
-            : row.run_digest;
-        const stateDigest = row.seq === last && row.state_digest !== null ? rootDigest(db) : row.state_digest;
-        const body = {
-          seq: row.seq,
-          at: row.at,
-          actorUser: row.actor_user,
-          actorName: row.actor_name,
-          phase: row.phase,
-          kind: row.kind,
-          target: row.target,
-          rationale: row.rationale,
-          detail: JSON.parse(row.detail),
-          runId: row.run_id,
-          stateDigest: stateDigest ?? undefined,
-          runDigest: runDigestNow ?? undefined,
-          prevHash,
-        };
-        const hash = crypto.createHash('sha256').update(prevHash).update(canonicalJson(body)).digest('hex');
-        update.run(runDigestNow, stateDigest, prevHash, hash, row.seq);
+        const { hash: _old, ...body } = entryFromRow(row);
+        if (body.runDigest !== undefined && body.runId !== null) body.runDigest = runDigest(db, body.runId);
+        if (row.seq === last && body.stateDigest !== undefined) body.stateDigest = rootDigest(db);
+        body.prevHash = prevHash;
+        const hash = rowHash(body);
+        update.run(body.runDigest ?? null, body.stateDigest ?? null, prevHash, hash, row.seq);
         prevHash = hash;
       }
       db.prepare("UPDATE study_meta SET value = ? WHERE key = 'log_head'").run(`${last}:${prevHash}`);

@@ -1,5 +1,5 @@
 import type { Reference, RegistryEntry } from './types.ts';
-import { HARMAN_1976, MCDONALD_1999, recalled } from './references.ts';
+import { HARMAN_1976, MCDONALD_1999 } from './references.ts';
 
 /** Every reference below was written down from recall, not checked against the publication. */
 function ref(
@@ -270,7 +270,7 @@ export const FACTOR_ANALYSIS_METHODS: RegistryEntry[] = [
     kind: 'method',
     id: 'efa.paf',
     name: 'Iterated principal axis factoring',
-    references: [recalled(HARMAN_1976)],
+    references: [HARMAN_1976],
   },
   {
     kind: 'method',
@@ -352,7 +352,7 @@ export const FACTOR_ANALYSIS_METHODS: RegistryEntry[] = [
     kind: 'method',
     id: 'rotation.oblimin',
     name: 'Oblimin rotation by gradient projection',
-    references: [recalled(HARMAN_1976), JENNRICH_2002, BERNAARDS_JENNRICH_2005],
+    references: [HARMAN_1976, JENNRICH_2002, BERNAARDS_JENNRICH_2005],
   },
   {
     kind: 'method',
@@ -433,7 +433,7 @@ export const FACTOR_ANALYSIS_METHODS: RegistryEntry[] = [
     id: 'omega.hierarchical',
     name: 'Omega hierarchical',
     references: [
-      recalled(MCDONALD_1999),
+      MCDONALD_1999,
       ref(
         ['Zinbarg, R. E.', 'Revelle, W.', 'Yovel, I.', 'Li, W.'],
         2005,

@@ -1,13 +1,10 @@
 import type { Reference } from './types.ts';
 
 /**
- * References cited by more than one area of the registry, written once. An area that recalled a
- * reference rather than checking it marks its citation with `recalled`.
+ * References cited by more than one area of the registry, written once. Whether a reference's
+ * details were recalled rather than checked (`fromMemory`) is said here, on the reference itself, so
+ * every area cites it with the same mark.
  */
-
-export function recalled(reference: Reference): Reference {
-  return { ...reference, fromMemory: true };
-}
 
 export const HARMAN_1976: Reference = {
   authors: ['Harman, H. H.'],
@@ -15,6 +12,7 @@ export const HARMAN_1976: Reference = {
   title: 'Modern factor analysis',
   edition: '3rd',
   publisher: 'University of Chicago Press',
+  fromMemory: true,
 };
 
 export const LORD_NOVICK_1968: Reference = {
@@ -22,6 +20,7 @@ export const LORD_NOVICK_1968: Reference = {
   year: 1968,
   title: 'Statistical theories of mental test scores',
   publisher: 'Addison-Wesley',
+  fromMemory: true,
 };
 
 export const MCDONALD_1999: Reference = {
@@ -29,6 +28,7 @@ export const MCDONALD_1999: Reference = {
   year: 1999,
   title: 'Test theory: A unified treatment',
   publisher: 'Lawrence Erlbaum Associates',
+  fromMemory: true,
 };
 
 export const NUNNALLY_BERNSTEIN_1994: Reference = {

@@ -1,5 +1,5 @@
 import type { Reference, RegistryEntry } from './types.ts';
-import { LORD_NOVICK_1968, PEARSON_1896, SPEARMAN_1904, recalled } from './references.ts';
+import { LORD_NOVICK_1968, PEARSON_1896, SPEARMAN_1904 } from './references.ts';
 
 const JORESKOG_1969: Reference = {
   authors: ['Jöreskog, K. G.'],
@@ -21,6 +21,7 @@ const HU_BENTLER_1999: Reference = {
   issue: '1',
   pages: '1–55',
   doi: '10.1080/10705519909540118',
+  fromMemory: true,
 };
 const BROWNE_CUDECK_1993: Reference = {
   authors: ['Browne, M. W.', 'Cudeck, R.'],
@@ -180,7 +181,7 @@ export const VALIDITY_METHODS: RegistryEntry[] = [
     name: 'Fit index cut-offs',
     wording: 'Good fit: CFI and TLI at least .95, RMSEA at most .06, SRMR at most .08.',
     thresholds: { cfi: 0.95, tli: 0.95, rmsea: 0.06, srmr: 0.08 },
-    references: [{ ...HU_BENTLER_1999, fromMemory: true }],
+    references: [HU_BENTLER_1999],
   },
   {
     kind: 'rule',
@@ -454,7 +455,7 @@ export const VALIDITY_METHODS: RegistryEntry[] = [
     kind: 'method',
     id: 'icc.sem',
     name: 'Standard error of measurement from test–retest reliability',
-    references: [recalled(LORD_NOVICK_1968)],
+    references: [LORD_NOVICK_1968],
   },
   {
     kind: 'rule',

@@ -1,20 +1,4 @@
-import {
-  AlignmentType,
-  BorderStyle,
-  Document,
-  Footer,
-  HeadingLevel,
-  ImageRun,
-  Packer,
-  PageNumber,
-  Paragraph,
-  ShadingType,
-  Table,
-  TableCell,
-  TableRow,
-  TextRun,
-  WidthType,
-} from 'docx';
+import type { Paragraph, Table, TextRun } from 'docx';
 import { type AppendixDocument, type Block, type Inline, NOTICE_LABEL, type Notice } from './model.ts';
 import { figurePng } from './raster.ts';
 import { figureSvg } from './svg.ts';
@@ -28,16 +12,16 @@ import { figureSvg } from './svg.ts';
 const FONT = 'Times New Roman';
 const BODY = 22;
 const SMALL = 18;
-const RULE = { style: BorderStyle.SINGLE, size: 8, color: '000000' };
-const THIN = { style: BorderStyle.SINGLE, size: 4, color: '000000' };
-const NONE = { style: BorderStyle.NONE, size: 0, color: 'FFFFFF' };
 
-function runsOf(inlines: readonly Inline[], size = BODY): TextRun[] {
+/** The docx module, imported when a document is written (so the command line starts without it). */
+type Docx = typeof import('docx');
+
+function runsOf(d: Docx, inlines: readonly Inline[], size = BODY): TextRun[] {
   return inlines
     .filter((i) => i.text !== '')
     .map(
       (i) =>
-        new TextRun({
+        new d.TextRun({
           text: i.text,
           italics: i.em,
           bold: i.strong,
@@ -47,26 +31,26 @@ function runsOf(inlines: readonly Inline[], size = BODY): TextRun[] {
     );
 }
 
-function caption(label: string, text: string): Paragraph[] {
+function caption(d: Docx, label: string, text: string): Paragraph[] {
   return [
-    new Paragraph({
-      children: [new TextRun({ text: label, bold: true, font: FONT, size: BODY })],
+    new d.Paragraph({
+      children: [new d.TextRun({ text: label, bold: true, font: FONT, size: BODY })],
       spacing: { before: 240 },
       keepNext: true,
     }),
-    new Paragraph({
-      children: [new TextRun({ text, italics: true, font: FONT, size: BODY })],
+    new d.Paragraph({
+      children: [new d.TextRun({ text, italics: true, font: FONT, size: BODY })],
       spacing: { after: 80 },
       keepNext: true,
     }),
   ];
 }
 
-function note(inlines: readonly Inline[] | undefined): Paragraph[] {
+function note(d: Docx, inlines: readonly Inline[] | undefined): Paragraph[] {
   if (!inlines) return [];
   return [
-    new Paragraph({
-      children: runsOf([{ text: 'Note. ', em: true }, ...inlines], SMALL),
+    new d.Paragraph({
+      children: runsOf(d, [{ text: 'Note. ', em: true }, ...inlines], SMALL),
       spacing: { before: 60, after: 200 },
     }),
   ];
@@ -80,26 +64,28 @@ const SHADE: Record<Notice['tone'], string> = {
   break: 'FBEAEA',
 };
 
-const ALIGN = { left: AlignmentType.LEFT, right: AlignmentType.RIGHT, center: AlignmentType.CENTER } as const;
-
-function blockDocx(block: Block): (Paragraph | Table)[] {
+function blockDocx(d: Docx, block: Block): (Paragraph | Table)[] {
+  const RULE = { style: d.BorderStyle.SINGLE, size: 8, color: '000000' };
+  const THIN = { style: d.BorderStyle.SINGLE, size: 4, color: '000000' };
+  const NONE = { style: d.BorderStyle.NONE, size: 0, color: 'FFFFFF' };
+  const ALIGN = { left: d.AlignmentType.LEFT, right: d.AlignmentType.RIGHT, center: d.AlignmentType.CENTER };
   switch (block.kind) {
     case 'heading':
       return [
-        new Paragraph({
+        new d.Paragraph({
           text: block.text,
-          heading: block.level === 2 ? HeadingLevel.HEADING_1 : HeadingLevel.HEADING_2,
+          heading: block.level === 2 ? d.HeadingLevel.HEADING_1 : d.HeadingLevel.HEADING_2,
         }),
       ];
     case 'paragraph':
-      return [new Paragraph({ children: runsOf(block.inlines), spacing: { after: 120 } })];
+      return [new d.Paragraph({ children: runsOf(d, block.inlines), spacing: { after: 120 } })];
     case 'list':
       return block.items.map(
         (item, i) =>
-          new Paragraph({
+          new d.Paragraph({
             children: [
-              new TextRun({ text: block.ordered ? `${i + 1}.\t` : '•\t', font: FONT, size: BODY }),
-              ...runsOf(item),
+              new d.TextRun({ text: block.ordered ? `${i + 1}.\t` : '•\t', font: FONT, size: BODY }),
+              ...runsOf(d, item),
             ],
             indent: { left: 360, hanging: 360 },
             spacing: { after: 60 },
@@ -107,22 +93,23 @@ function blockDocx(block: Block): (Paragraph | Table)[] {
       );
     case 'notice':
       return [
-        new Paragraph({
+        new d.Paragraph({
           children: runsOf(
+            d,
             [{ text: `${NOTICE_LABEL[block.tone]}. `, strong: true }, ...block.inlines],
             SMALL + 1,
           ),
-          shading: { type: ShadingType.CLEAR, fill: SHADE[block.tone], color: 'auto' },
-          border: { left: { style: BorderStyle.SINGLE, size: 18, color: '888888', space: 6 } },
+          shading: { type: d.ShadingType.CLEAR, fill: SHADE[block.tone], color: 'auto' },
+          border: { left: { style: d.BorderStyle.SINGLE, size: 18, color: '888888', space: 6 } },
           spacing: { before: 120, after: 120 },
         }),
       ];
     case 'table': {
       const cell = (text: string, j: number, header: boolean) =>
-        new TableCell({
+        new d.TableCell({
           children: [
-            new Paragraph({
-              children: [new TextRun({ text, font: FONT, size: SMALL })],
+            new d.Paragraph({
+              children: [new d.TextRun({ text, font: FONT, size: SMALL })],
               alignment: ALIGN[block.columns[j]?.align ?? 'left'],
             }),
           ],
@@ -132,8 +119,8 @@ function blockDocx(block: Block): (Paragraph | Table)[] {
           margins: { top: 30, bottom: 30, left: 60, right: 60 },
         });
       const last = block.rows.length - 1;
-      const table = new Table({
-        width: { size: 100, type: WidthType.PERCENTAGE },
+      const table = new d.Table({
+        width: { size: 100, type: d.WidthType.PERCENTAGE },
         borders: {
           top: RULE,
           bottom: RULE,
@@ -143,18 +130,21 @@ function blockDocx(block: Block): (Paragraph | Table)[] {
           insideVertical: NONE,
         },
         rows: [
-          new TableRow({ tableHeader: true, children: block.columns.map((c, j) => cell(c.header, j, true)) }),
+          new d.TableRow({
+            tableHeader: true,
+            children: block.columns.map((c, j) => cell(c.header, j, true)),
+          }),
           ...block.rows.map(
             (r, i) =>
-              new TableRow({
+              new d.TableRow({
                 cantSplit: true,
                 children: r.map((text, j) => {
                   const c = cell(text, j, false);
                   return i === last
-                    ? new TableCell({
+                    ? new d.TableCell({
                         children: [
-                          new Paragraph({
-                            children: [new TextRun({ text, font: FONT, size: SMALL })],
+                          new d.Paragraph({
+                            children: [new d.TextRun({ text, font: FONT, size: SMALL })],
                             alignment: ALIGN[block.columns[j]?.align ?? 'left'],
                           }),
                         ],
@@ -167,11 +157,11 @@ function blockDocx(block: Block): (Paragraph | Table)[] {
           ),
         ],
       });
-      return [...caption(block.label, block.caption), table, ...note(block.note)];
+      return [...caption(d, block.label, block.caption), table, ...note(d, block.note)];
     }
     case 'figure': {
       const px = (pt: number) => Math.round((pt * 96) / 72);
-      const image = new ImageRun({
+      const image = new d.ImageRun({
         type: 'svg',
         data: Buffer.from(figureSvg(block), 'utf8'),
         fallback: { type: 'png', data: figurePng(block) },
@@ -183,16 +173,16 @@ function blockDocx(block: Block): (Paragraph | Table)[] {
         },
       });
       return [
-        ...caption(block.label, block.caption),
-        new Paragraph({ children: [image], alignment: AlignmentType.CENTER }),
-        ...note(block.note),
+        ...caption(d, block.label, block.caption),
+        new d.Paragraph({ children: [image], alignment: d.AlignmentType.CENTER }),
+        ...note(d, block.note),
       ];
     }
     case 'references':
       return block.entries.map(
         (entry) =>
-          new Paragraph({
-            children: runsOf(entry, BODY - 1),
+          new d.Paragraph({
+            children: runsOf(d, entry, BODY - 1),
             indent: { left: 480, hanging: 480 },
             spacing: { after: 100 },
           }),
@@ -202,7 +192,8 @@ function blockDocx(block: Block): (Paragraph | Table)[] {
 
 /** Renders the appendix as DOCX bytes. */
 export async function renderDocx(appendix: AppendixDocument): Promise<Uint8Array> {
-  const doc = new Document({
+  const d = await import('docx');
+  const doc = new d.Document({
     creator: 'Scalewright',
     title: appendix.title,
     description: 'Methods appendix rendered from a Scalewright study file',
@@ -223,13 +214,13 @@ export async function renderDocx(appendix: AppendixDocument): Promise<Uint8Array
     sections: [
       {
         footers: {
-          default: new Footer({
+          default: new d.Footer({
             children: [
-              new Paragraph({
-                alignment: AlignmentType.CENTER,
+              new d.Paragraph({
+                alignment: d.AlignmentType.CENTER,
                 children: [
-                  new TextRun({
-                    children: ['Page ', PageNumber.CURRENT, ' of ', PageNumber.TOTAL_PAGES],
+                  new d.TextRun({
+                    children: ['Page ', d.PageNumber.CURRENT, ' of ', d.PageNumber.TOTAL_PAGES],
                     size: 16,
                     font: FONT,
                   }),
@@ -239,17 +230,17 @@ export async function renderDocx(appendix: AppendixDocument): Promise<Uint8Array
           }),
         },
         children: [
-          new Paragraph({ text: appendix.title, heading: HeadingLevel.TITLE }),
+          new d.Paragraph({ text: appendix.title, heading: d.HeadingLevel.TITLE }),
           ...appendix.subtitle.map(
             (line) =>
-              new Paragraph({
-                children: [new TextRun({ text: line, size: SMALL, color: '555555', font: FONT })],
+              new d.Paragraph({
+                children: [new d.TextRun({ text: line, size: SMALL, color: '555555', font: FONT })],
               }),
           ),
-          ...appendix.blocks.flatMap(blockDocx),
+          ...appendix.blocks.flatMap((b) => blockDocx(d, b)),
         ],
       },
     ],
   });
-  return new Uint8Array(await Packer.toBuffer(doc));
+  return new Uint8Array(await d.Packer.toBuffer(doc));
 }

@@ -25,7 +25,7 @@ function answerCell(value: number): DrawnCell {
  * page for the researcher with the log head, the command that checks it, and the cautions.
  */
 export async function questionnairePdf(m: InstrumentModel): Promise<Buffer> {
-  const pdf = createPdf({
+  const pdf = await createPdf({
     title: m.title,
     subject: `Questionnaire, ${m.items.length} items`,
     footer: (page, pages) => `${m.title} · page ${page} of ${pages}`,
@@ -45,6 +45,7 @@ export async function questionnairePdf(m: InstrumentModel): Promise<Buffer> {
       })),
     ],
     headerSize: 7,
+    headerStyle: 'bold',
     rows: m.items.map((it): TableCell[] => [
       String(it.position),
       it.text,

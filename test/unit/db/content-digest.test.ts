@@ -6,7 +6,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { fillDemoStudy } from '../../../app/demo/index.ts';
 import { createRng } from '../../../app/engine/rng.ts';
 import { UNDIGESTED_TABLES } from '../../../db/content-digest.ts';
-import { canonicalJson } from '../../../db/canonical-json.ts';
+import { entryFromRow, GENESIS_HASH, type LogRow, rowHash } from '../../../db/decision-log.ts';
 import { Study } from '../../../db/study.ts';
 import { type IntegrityBreak, verifyStudy } from '../../../db/verify.ts';
 import { TEST_ACTOR, tempDir } from '../../helpers/tmp.ts';
@@ -305,37 +305,22 @@ describe('single-bit flips in content and analysis-run cells', () => {
 /** Rewrites log row `seq` and every later one with fresh hashes, as a forger would. */
 function rewriteChain(file: string, seq: number, rationale: string): void {
   tamper(file, (db) => {
-    const rows = db.prepare('SELECT * FROM decision_log WHERE seq >= ? ORDER BY seq').all(seq) as Record<
-      string,
-      unknown
-    >[];
+    const rows = db.prepare('SELECT * FROM decision_log WHERE seq >= ? ORDER BY seq').all(seq) as LogRow[];
     let prev =
       (db
         .prepare('SELECT hash FROM decision_log WHERE seq = ?')
         .pluck()
-        .get(seq - 1) as string) ?? '0'.repeat(64);
+        .get(seq - 1) as string) ?? GENESIS_HASH;
     const update = db.prepare('UPDATE decision_log SET rationale = ?, prev_hash = ?, hash = ? WHERE seq = ?');
     for (const row of rows) {
-      const body = {
-        seq: row.seq,
-        at: row.at,
-        actorUser: row.actor_user,
-        actorName: row.actor_name,
-        phase: row.phase,
-        kind: row.kind,
-        target: row.target,
-        rationale: row.seq === seq ? rationale : row.rationale,
-        detail: JSON.parse(row.detail as string),
-        runId: row.run_id,
-        stateDigest: row.state_digest ?? undefined,
-        runDigest: row.run_digest ?? undefined,
-        prevHash: prev,
-      };
-      const hash = crypto.createHash('sha256').update(prev).update(canonicalJson(body)).digest('hex');
+      const { hash: _old, ...body } = entryFromRow(row);
+      if (row.seq === seq) body.rationale = rationale;
+      body.prevHash = prev;
+      const hash = rowHash(body);
       update.run(body.rationale, prev, hash, row.seq);
       prev = hash;
     }
-    const last = rows[rows.length - 1].seq as number;
+    const last = rows[rows.length - 1].seq;
     db.prepare("UPDATE study_meta SET value = ? WHERE key = 'log_head'").run(`${last}:${prev}`);
   });
 }

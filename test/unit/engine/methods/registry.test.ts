@@ -49,6 +49,24 @@ describe('methods registry', () => {
     }
   });
 
+  it('cites each publication with the same details and the same from-memory mark wherever it is cited', () => {
+    const byWork = new Map<string, Set<string>>();
+    for (const entry of METHODS.values()) {
+      for (const ref of entry.references) {
+        const work = `${ref.authors.join('; ')} (${ref.year})`;
+        byWork.set(work, (byWork.get(work) ?? new Set()).add(formatReference(ref)));
+      }
+    }
+    // Works cited by several areas (written once, in references.ts).
+    for (const work of [
+      'Harman, H. H. (1976)',
+      'McDonald, R. P. (1999)',
+      'Lord, F. M.; Novick, M. R. (1968)',
+    ])
+      expect(byWork.get(work), work).toBeDefined();
+    for (const [work, forms] of byWork) expect([...forms], work).toHaveLength(1);
+  });
+
   it('renders the methods field once per id and refuses an unknown id', () => {
     expect(methodsField(['alpha.cronbach', 'alpha.cronbach'])).toHaveLength(1);
     expect(() => methodsField(['no.such'])).toThrow(/no entry "no.such"/);
