@@ -254,6 +254,7 @@ export async function loadItemData(
     throw error;
   }
   const { columns, rowNumbers, warnings: cellWarnings } = read.sink.finish();
+  if (rowNumbers.length === 0) throw new DataError(`${file}: the file has a header row but no data rows`);
   if (reverse.length > 0 && bounds) {
     const pivot = bounds.min + bounds.max;
     for (const name of reverse) {

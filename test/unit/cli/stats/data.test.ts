@@ -166,3 +166,12 @@ describe('loadItemData reads plain and quoted files alike', () => {
     ]);
   });
 });
+
+describe('loadItemData refuses a file without data rows', () => {
+  it('names the file and says what is missing', async () => {
+    const name = file('header-only.csv', 'id,a,b\n\n');
+    await expect(loadItemData({ data: name, items: 'a,b' }, ctx)).rejects.toThrow(
+      'header-only.csv: the file has a header row but no data rows',
+    );
+  });
+});
