@@ -1,8 +1,8 @@
 import { useState } from 'react';
 import type { RoundDetail } from '../../../app/api/contracts/purification.ts';
 import { plural } from '../../../app/api/format.ts';
-import { ErrorNote, Panel } from '../../shared/components.tsx';
 import { useMutation } from '../../shared/use-command.ts';
+import { ItemChecklist, ReasonsForm, useReasons } from './ReasonsForm.tsx';
 
 type Facet = { id: number; name: string; definition: string };
 
@@ -20,13 +20,11 @@ export function FacetDecision(props: { detail: RoundDetail; facets: Facet[] }) {
   const [chosen, setChosen] = useState<Set<string>>(new Set());
   const [name, setName] = useState('');
   const [definition, setDefinition] = useState('');
-  const [domain, setDomain] = useState('');
-  const [statistical, setStatistical] = useState('');
+  const reasons = useReasons();
   const [done, setDone] = useState<string | undefined>(undefined);
   if (props.facets.length < 1) return null;
   const itemsOf = (facetId: number | undefined) =>
     props.detail.rows.filter((r) => r.facetId === facetId && !r.droppedNow);
-  const busy = merge.busy || split.busy;
 
   async function submit() {
     setDone(undefined);
@@ -34,8 +32,8 @@ export function FacetDecision(props: { detail: RoundDetail; facets: Facet[] }) {
       const ids = await merge.run({
         fromFacetId: from,
         intoFacetId: into,
-        domainRationale: domain,
-        statisticalRationale: statistical,
+        domainRationale: reasons.domain,
+        statisticalRationale: reasons.statistical,
       });
       if (ids) setDone(`Merged: ${plural(ids.length, 'item')} moved. Run the next round to see the effect.`);
     } else if (mode === 'split' && from !== undefined) {
@@ -43,8 +41,8 @@ export function FacetDecision(props: { detail: RoundDetail; facets: Facet[] }) {
         facetId: from,
         itemCodes: [...chosen],
         newFacet: { name, definition },
-        domainRationale: domain,
-        statisticalRationale: statistical,
+        domainRationale: reasons.domain,
+        statisticalRationale: reasons.statistical,
       });
       if (out) {
         setDone(
@@ -56,102 +54,71 @@ export function FacetDecision(props: { detail: RoundDetail; facets: Facet[] }) {
   }
 
   return (
-    <Panel title="Merge or split facets">
-      <form
-        className="facet-decision"
-        onSubmit={(e) => {
-          e.preventDefault();
-          void submit();
-        }}
-      >
-        <div className="button-row">
-          <label className="inline-radio">
-            <input type="radio" checked={mode === 'merge'} onChange={() => setMode('merge')} /> Merge two
-            facets
-          </label>
-          <label className="inline-radio">
-            <input type="radio" checked={mode === 'split'} onChange={() => setMode('split')} /> Split a facet
-          </label>
-        </div>
-        <div className="runner-options">
+    <ReasonsForm
+      title="Merge or split facets"
+      className="facet-decision"
+      reasons={reasons}
+      domainField={{
+        id: 'facet-domain',
+        label: 'How the items’ content fits the facet they go to (required)',
+      }}
+      statisticalField={{ id: 'facet-statistics', label: 'What the factor analysis and reliabilities show' }}
+      submitLabel={mode === 'merge' ? 'Merge facets' : 'Split facet'}
+      disabled={merge.busy || split.busy}
+      onSubmit={submit}
+      done={done}
+      error={mode === 'merge' ? merge.error : split.error}
+    >
+      <div className="button-row">
+        <label className="inline-radio">
+          <input type="radio" checked={mode === 'merge'} onChange={() => setMode('merge')} /> Merge two facets
+        </label>
+        <label className="inline-radio">
+          <input type="radio" checked={mode === 'split'} onChange={() => setMode('split')} /> Split a facet
+        </label>
+      </div>
+      <div className="runner-options">
+        <label>
+          {mode === 'merge' ? 'Move every item of' : 'Split'}
+          <select value={from} onChange={(e) => setFrom(Number(e.target.value))}>
+            {props.facets.map((f) => (
+              <option key={f.id} value={f.id}>
+                {f.name} ({itemsOf(f.id).length})
+              </option>
+            ))}
+          </select>
+        </label>
+        {mode === 'merge' && (
           <label>
-            {mode === 'merge' ? 'Move every item of' : 'Split'}
-            <select value={from} onChange={(e) => setFrom(Number(e.target.value))}>
+            into
+            <select value={into} onChange={(e) => setInto(Number(e.target.value))}>
               {props.facets.map((f) => (
                 <option key={f.id} value={f.id}>
-                  {f.name} ({itemsOf(f.id).length})
+                  {f.name}
                 </option>
               ))}
             </select>
           </label>
-          {mode === 'merge' && (
-            <label>
-              into
-              <select value={into} onChange={(e) => setInto(Number(e.target.value))}>
-                {props.facets.map((f) => (
-                  <option key={f.id} value={f.id}>
-                    {f.name}
-                  </option>
-                ))}
-              </select>
-            </label>
-          )}
-        </div>
-        {mode === 'split' && (
-          <>
-            <ul className="batch-items">
-              {itemsOf(from).map((row) => (
-                <li key={row.code}>
-                  <label>
-                    <input
-                      type="checkbox"
-                      checked={chosen.has(row.code)}
-                      onChange={(e) => {
-                        const next = new Set(chosen);
-                        if (e.target.checked) next.add(row.code);
-                        else next.delete(row.code);
-                        setChosen(next);
-                      }}
-                    />{' '}
-                    <strong>{row.code}</strong> {row.text}
-                  </label>
-                </li>
-              ))}
-            </ul>
-            <div className="field">
-              <label htmlFor="split-name">Name of the new facet</label>
-              <input id="split-name" value={name} onChange={(e) => setName(e.target.value)} />
-            </div>
-            <div className="field">
-              <label htmlFor="split-definition">Its definition: what its items have in common</label>
-              <textarea
-                id="split-definition"
-                rows={2}
-                value={definition}
-                onChange={(e) => setDefinition(e.target.value)}
-              />
-            </div>
-          </>
         )}
-        <div className="field">
-          <label htmlFor="facet-domain">How the items’ content fits the facet they go to (required)</label>
-          <textarea id="facet-domain" rows={2} value={domain} onChange={(e) => setDomain(e.target.value)} />
-        </div>
-        <div className="field">
-          <label htmlFor="facet-statistics">What the factor analysis and reliabilities show</label>
-          <textarea
-            id="facet-statistics"
-            rows={2}
-            value={statistical}
-            onChange={(e) => setStatistical(e.target.value)}
-          />
-        </div>
-        <button type="submit" className="primary" disabled={busy}>
-          {mode === 'merge' ? 'Merge facets' : 'Split facet'}
-        </button>
-        {done && <p className="done-note">{done}</p>}
-        <ErrorNote message={mode === 'merge' ? merge.error : split.error} />
-      </form>
-    </Panel>
+      </div>
+      {mode === 'split' && (
+        <>
+          <ItemChecklist rows={itemsOf(from)} chosen={chosen} onChange={setChosen} />
+          <div className="field">
+            <label htmlFor="split-name">Name of the new facet</label>
+            <input id="split-name" value={name} onChange={(e) => setName(e.target.value)} />
+          </div>
+          <div className="field">
+            <label htmlFor="split-definition">Its definition: what its items have in common</label>
+            <textarea
+              id="split-definition"
+              rows={2}
+              value={definition}
+              onChange={(e) => setDefinition(e.target.value)}
+            />
+          </div>
+        </>
+      )}
+    </ReasonsForm>
   );
 }
