@@ -3,7 +3,7 @@ import type { RoundDetail, RoundFactorView } from '../../../app/api/contracts/pu
 import { bounded, NO_VALUE, plural, pValue, unbounded } from '../../../app/api/format.ts';
 import { Panel } from '../../shared/components.tsx';
 import { SourceNotes } from '../../shared/source-notes.tsx';
-import { ScreeChart } from './ScreeChart.tsx';
+import { ScreeChart } from './charts.tsx';
 
 const EXTRACTION_NAMES: Record<string, string> = {
   paf: 'principal axis',
