@@ -1,4 +1,4 @@
-import { useState } from 'react';
+import { type ReactNode, useState } from 'react';
 import { ErrorNote } from '../../shared/components.tsx';
 import { useMutation } from '../../shared/use-command.ts';
 import type { View } from './common.tsx';
@@ -6,44 +6,93 @@ import type { View } from './common.tsx';
 type MeasureRow = View['columns']['measures'][number];
 type GroupRow = View['columns']['groups'][number];
 
-/** How one criterion column is read: the relation it answers, when it was measured, its reliability. */
-export function MeasureForm({ row, view }: { row: MeasureRow; view: View }) {
-  const save = useMutation('validity.describeMeasure');
-  const s = row.setting;
-  const [relationId, setRelationId] = useState<number | null>(s?.relationId ?? null);
-  const [timing, setTiming] = useState<'concurrent' | 'predictive'>(s?.timing ?? 'concurrent');
-  const [reliability, setReliability] = useState(s?.reliability === null || !s ? '' : String(s.reliability));
+/**
+ * How one column of the validation data is read, as a form: the column, the planned relation it
+ * answers, the settings of its kind (children), why it is read this way, and the reason in force.
+ * The relation and the reason are kept here; `save` says whether the setting was stored.
+ */
+function ColumnForm(props: {
+  label: string;
+  column: string;
+  /** The planned relations this kind of column can answer, each with the words its option shows. */
+  relations: { id: number; text: string }[];
+  relationId: number | null;
+  whyPlaceholder: string;
+  /** The reason of the setting in force, if there is one. */
+  now: string | undefined;
+  busy: boolean;
+  error: string | undefined;
+  save(relationId: number | null, rationale: string): Promise<boolean>;
+  children: ReactNode;
+}) {
+  const [relationId, setRelationId] = useState(props.relationId);
   const [rationale, setRationale] = useState('');
-  const options = view.relations.filter((r) => r.kind !== 'known-groups');
   return (
     <form
       className="column-form"
-      aria-label={`Column ${row.column}`}
+      aria-label={props.label}
       onSubmit={async (e) => {
         e.preventDefault();
-        const ok = await save.run({
-          column: row.column,
-          relationId,
-          timing,
-          reliability: reliability.trim() === '' ? null : Number(reliability),
-          rationale,
-        });
-        if (ok !== undefined) setRationale('');
+        if (await props.save(relationId, rationale)) setRationale('');
       }}
     >
-      <strong className="item-code">{row.column}</strong>
+      <strong className="item-code">{props.column}</strong>
       <select
         aria-label="Relation it answers"
         value={relationId ?? ''}
         onChange={(e) => setRelationId(e.target.value === '' ? null : Number(e.target.value))}
       >
         <option value="">no planned relation</option>
-        {options.map((r) => (
+        {props.relations.map((r) => (
           <option key={r.id} value={r.id}>
-            {r.otherConstruct} ({r.kind})
+            {r.text}
           </option>
         ))}
       </select>
+      {props.children}
+      <input
+        aria-label="Why"
+        placeholder={props.whyPlaceholder}
+        value={rationale}
+        onChange={(e) => setRationale(e.target.value)}
+      />
+      <button type="submit" className="secondary" disabled={props.busy || rationale.trim() === ''}>
+        Save
+      </button>
+      {props.now !== undefined && <span className="muted setting-now">now: {props.now}</span>}
+      <ErrorNote message={props.error} />
+    </form>
+  );
+}
+
+/** How one criterion column is read: the relation it answers, when it was measured, its reliability. */
+export function MeasureForm({ row, view }: { row: MeasureRow; view: View }) {
+  const save = useMutation('validity.describeMeasure');
+  const s = row.setting;
+  const [timing, setTiming] = useState<'concurrent' | 'predictive'>(s?.timing ?? 'concurrent');
+  const [reliability, setReliability] = useState(s?.reliability === null || !s ? '' : String(s.reliability));
+  return (
+    <ColumnForm
+      label={`Column ${row.column}`}
+      column={row.column}
+      relations={view.relations
+        .filter((r) => r.kind !== 'known-groups')
+        .map((r) => ({ id: r.id, text: `${r.otherConstruct} (${r.kind})` }))}
+      relationId={s?.relationId ?? null}
+      whyPlaceholder="Why it is read this way"
+      now={s?.rationale}
+      busy={save.busy}
+      error={save.error}
+      save={async (relationId, rationale) =>
+        (await save.run({
+          column: row.column,
+          relationId,
+          timing,
+          reliability: reliability.trim() === '' ? null : Number(reliability),
+          rationale,
+        })) !== undefined
+      }
+    >
       <select
         aria-label="When it was measured"
         value={timing}
@@ -59,18 +108,7 @@ export function MeasureForm({ row, view }: { row: MeasureRow; view: View }) {
         value={reliability}
         onChange={(e) => setReliability(e.target.value)}
       />
-      <input
-        aria-label="Why"
-        placeholder="Why it is read this way"
-        value={rationale}
-        onChange={(e) => setRationale(e.target.value)}
-      />
-      <button type="submit" className="secondary" disabled={save.busy || rationale.trim() === ''}>
-        Save
-      </button>
-      {s && <span className="muted setting-now">now: {s.rationale}</span>}
-      <ErrorNote message={save.error} />
-    </form>
+    </ColumnForm>
   );
 }
 
@@ -79,35 +117,24 @@ export function GroupForm({ row, view }: { row: GroupRow; view: View }) {
   const save = useMutation('validity.describeGroups');
   const s = row.setting;
   const levels = row.levels.map((l) => l.name);
-  const [relationId, setRelationId] = useState<number | null>(s?.relationId ?? null);
   const [higher, setHigher] = useState(s?.higher ?? levels.at(-1) ?? '');
   const [lower, setLower] = useState(s?.lower ?? levels[0] ?? '');
-  const [rationale, setRationale] = useState('');
   return (
-    <form
-      className="column-form"
-      aria-label={`Group column ${row.column}`}
-      onSubmit={async (e) => {
-        e.preventDefault();
-        const ok = await save.run({ column: row.column, relationId, higher, lower, rationale });
-        if (ok !== undefined) setRationale('');
-      }}
+    <ColumnForm
+      label={`Group column ${row.column}`}
+      column={row.column}
+      relations={view.relations
+        .filter((r) => r.kind === 'known-groups')
+        .map((r) => ({ id: r.id, text: r.otherConstruct }))}
+      relationId={s?.relationId ?? null}
+      whyPlaceholder="Why these groups"
+      now={s?.rationale}
+      busy={save.busy}
+      error={save.error}
+      save={async (relationId, rationale) =>
+        (await save.run({ column: row.column, relationId, higher, lower, rationale })) !== undefined
+      }
     >
-      <strong className="item-code">{row.column}</strong>
-      <select
-        aria-label="Relation it answers"
-        value={relationId ?? ''}
-        onChange={(e) => setRelationId(e.target.value === '' ? null : Number(e.target.value))}
-      >
-        <option value="">no planned relation</option>
-        {view.relations
-          .filter((r) => r.kind === 'known-groups')
-          .map((r) => (
-            <option key={r.id} value={r.id}>
-              {r.otherConstruct}
-            </option>
-          ))}
-      </select>
       <select aria-label="Expected higher" value={higher} onChange={(e) => setHigher(e.target.value)}>
         {levels.map((l) => (
           <option key={l}>{l}</option>
@@ -119,17 +146,6 @@ export function GroupForm({ row, view }: { row: GroupRow; view: View }) {
           <option key={l}>{l}</option>
         ))}
       </select>
-      <input
-        aria-label="Why"
-        placeholder="Why these groups"
-        value={rationale}
-        onChange={(e) => setRationale(e.target.value)}
-      />
-      <button type="submit" className="secondary" disabled={save.busy || rationale.trim() === ''}>
-        Save
-      </button>
-      {s && <span className="muted setting-now">now: {s.rationale}</span>}
-      <ErrorNote message={save.error} />
-    </form>
+    </ColumnForm>
   );
 }
