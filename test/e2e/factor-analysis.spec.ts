@@ -9,16 +9,13 @@ test.use({ demoThrough: 'purification' });
 
 test('the factor analysis of a round shows the scree plot and loadings, flags the planted cross-loading item, and it is dropped with reasons', async ({
   page,
-  app,
+  purification,
 }) => {
-  // Each round runs its bootstrap and its factor analysis (with parallel analysis) in a worker.
-  test.setTimeout(180_000);
-  await page.goto(app.url);
-  await page.locator('.sidebar a[href="#/phase/purification"]').click();
+  await purification.open();
   await expect(page.locator('.round-tab')).toHaveCount(2);
 
   // Round 1 analysed every item: four factors by default (one per facet), evidence side by side.
-  await page.locator('.round-tab', { hasText: 'Round 1' }).click();
+  await purification.showRound(1);
   const panel = page.locator('.panel', { has: page.locator('h2', { hasText: 'Factor analysis, round 1' }) });
   await expect(panel).toBeVisible();
   await expect(panel.locator('.panel-head')).toContainText('4 factors');
@@ -33,19 +30,13 @@ test('the factor analysis of a round shows the scree plot and loadings, flags th
   await panel.screenshot({ path: path.join(SCREENSHOTS, 'factor-analysis-round1.png') });
 
   // Round 2 (latest): the demo dropped it. Restore it and run round 3, which flags it again.
-  await page.locator('.round-tab', { hasText: 'Round 2' }).click();
-  await expect(page.locator('.panel-head h2', { hasText: 'Reliability, round 2' })).toBeVisible();
-  await page
-    .locator('.departures tbody tr', { hasText: CROSS })
-    .getByRole('button', { name: 'Restore…' })
-    .click();
-  await page
-    .getByLabel(`Domain reason for reversing the drop of ${CROSS}`)
-    .fill('The team wants to see the item again in a round of its own before deciding for good.');
-  await page.locator('.departures').getByRole('button', { name: 'Restore', exact: true }).click();
+  await purification.showRound(2);
+  await purification.restore(
+    CROSS,
+    'The team wants to see the item again in a round of its own before deciding for good.',
+  );
   await expect(page.locator('.pending-note')).toContainText('1 decision since round 2: run round 3');
-  await page.getByRole('button', { name: 'Run round 3' }).click();
-  await expect(page.locator('.round-tab.active')).toContainText('Round 3', { timeout: 60_000 });
+  await purification.runRound(3);
   const panel3 = page.locator('.panel', { has: page.locator('h2', { hasText: 'Factor analysis, round 3' }) });
   const row3 = panel3.locator(`.loading-table tbody tr[data-code="${CROSS}"]`);
   await expect(row3.locator('.flag')).toContainText(['cross-loads']);
@@ -56,20 +47,12 @@ test('the factor analysis of a round shows the scree plot and loadings, flags th
   await expect(itemRow.locator('.flag')).toContainText(['cross-loads']);
 
   // Drop it with both reasons.
-  await page.getByRole('button', { name: `Item ${CROSS}` }).click();
-  const decision = page.locator('.decision-panel');
-  await expect(decision.locator('h2')).toContainText(`Item ${CROSS}`);
-  await page
-    .locator('#rationale-domain')
-    .fill(
+  await purification.openItem(CROSS);
+  await purification.drop(CROSS, {
+    domain:
       'Getting home after a breakdown mixes repairs with finding another route; it belongs to neither facet alone.',
-    );
-  await page
-    .locator('#rationale-statistics')
-    .fill('Cross-loads on the repairs and the route-planning factors in round 3.');
-  await page.getByRole('button', { name: 'Drop', exact: true }).click();
-  await expect(decision.locator('.done-note')).toContainText(`Dropped ${CROSS}.`);
-  await expect(page.locator('.item-table tbody tr.dropped')).toContainText(CROSS);
+    statistics: 'Cross-loads on the repairs and the route-planning factors in round 3.',
+  });
   await page.mouse.move(0, 0);
   await page.screenshot({ path: path.join(SCREENSHOTS, 'factor-analysis.png'), fullPage: true });
   await panel3.screenshot({ path: path.join(SCREENSHOTS, 'factor-analysis-round3.png') });

@@ -13,23 +13,11 @@ async function headlineAlpha(page: Page): Promise<number> {
   return Number(text.replace('\u2212', '-'));
 }
 
-async function runNextRound(page: Page, number: number): Promise<void> {
-  await page.getByRole('button', { name: `Run round ${number}` }).click();
-  // A round runs its bootstrap and its factor analysis in a worker: allow it the time. The round's own
-  // tab (the "Run round N" button also matches "Round N", so wait for the tab).
-  await expect(page.locator('.round-tab', { hasText: `Round ${number}` })).toBeVisible({ timeout: 120_000 });
-  await expect(page.locator('.round-tab.active')).toContainText(`Round ${number}`);
-  await expect(page.locator('.panel-head h2', { hasText: `Reliability, round ${number}` })).toBeVisible();
-}
-
 test('runs purification rounds on the demo: the weak item leaves with its reasons, alpha and the history follow', async ({
   page,
-  app,
+  purification,
 }) => {
-  // Each round runs its bootstrap and its factor analysis (with parallel analysis) in a worker.
-  test.setTimeout(180_000);
-  await page.goto(app.url);
-  await page.locator('.sidebar a[href="#/phase/purification"]').click();
+  await purification.open();
 
   // The demo's two rounds are there: the off-domain item left after round 1.
   await expect(page.locator('.round-tab')).toHaveCount(2);
@@ -46,8 +34,7 @@ test('runs purification rounds on the demo: the weak item leaves with its reason
   ).toBeVisible();
 
   // Round 1 shows the planted problem: a flagged, low corrected item-total, and alpha rises without it.
-  await page.locator('.round-tab', { hasText: 'Round 1' }).click();
-  await expect(page.locator('.panel-head h2', { hasText: 'Reliability, round 1' })).toBeVisible();
+  await purification.showRound(1);
   const odRow = page.locator('.item-table tbody tr', {
     has: page.getByRole('button', { name: `Item ${OFF_DOMAIN}` }),
   });
@@ -67,45 +54,30 @@ test('runs purification rounds on the demo: the weak item leaves with its reason
     .screenshot({ path: path.join(SCREENSHOTS, 'purification-reliability.png') });
 
   // Restore it (reversing the demo's drop) and run round 3: it is back, and alpha falls.
-  await page.locator('.round-tab', { hasText: 'Round 2' }).click();
-  await expect(page.locator('.panel-head h2', { hasText: 'Reliability, round 2' })).toBeVisible();
+  await purification.showRound(2);
   const alpha2 = await headlineAlpha(page);
-  await page
-    .locator('.departures tbody tr', { hasText: OFF_DOMAIN })
-    .getByRole('button', { name: 'Restore…' })
-    .click();
-  await page
-    .getByLabel(`Domain reason for reversing the drop of ${OFF_DOMAIN}`)
-    .fill('The team wants to see the item once more beside the traffic items before deciding for good.');
-  await page.locator('.departures').getByRole('button', { name: 'Restore', exact: true }).click();
+  await purification.restore(
+    OFF_DOMAIN,
+    'The team wants to see the item once more beside the traffic items before deciding for good.',
+  );
   await expect(page.locator('.pending-note')).toContainText('1 decision since round 2: run round 3');
-  await runNextRound(page, 3);
+  await purification.runRound(3);
   const alpha3 = await headlineAlpha(page);
   expect(alpha3).toBeLessThan(alpha2);
   await expect(page.locator('.history-table tbody tr').nth(2)).toContainText(`back: ${OFF_DOMAIN}`);
 
   // Drop it again from the workbench, with both reasons, beside the facet's definition.
-  await page.getByRole('button', { name: `Item ${OFF_DOMAIN}` }).click();
-  const panel = page.locator('.decision-panel');
-  await expect(panel.locator('h2')).toContainText(`Item ${OFF_DOMAIN}`);
+  const panel = await purification.openItem(OFF_DOMAIN);
   await expect(panel.locator('.facet-definition')).toContainText('Confidence in traffic');
-  await page
-    .locator('#rationale-domain')
-    .fill(
+  await purification.drop(OFF_DOMAIN, {
+    domain:
       'An opinion about cars in the city centre, not the respondent’s belief in their own riding among traffic; outside the construct.',
-    );
-  await page
-    .locator('#rationale-statistics')
-    .fill('Lowest corrected item-total r of the round; alpha rises without it.');
-  await page.getByRole('button', { name: 'Drop', exact: true }).click();
-  await expect(panel.locator('.done-note')).toContainText(
-    `Dropped ${OFF_DOMAIN}. The next round starts from this decision.`,
-  );
-  await expect(page.locator('.item-table tbody tr.dropped')).toContainText(OFF_DOMAIN);
+    statistics: 'Lowest corrected item-total r of the round; alpha rises without it.',
+  });
   await page.mouse.move(0, 0);
   await page.screenshot({ path: path.join(SCREENSHOTS, 'purification-decision.png') });
 
-  await runNextRound(page, 4);
+  await purification.runRound(4);
   const alpha4 = await headlineAlpha(page);
   expect(alpha4).toBeGreaterThan(alpha3);
   const rounds = page.locator('.history-table tbody tr');
