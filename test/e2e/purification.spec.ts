@@ -104,3 +104,83 @@ test('runs purification rounds on the demo: the weak item leaves with its reason
   await expect(latest.nth(1)).toContainText('Statistics: Lowest corrected item-total r');
   await expect(latest.nth(3)).toContainText('item restored');
 });
+
+test('several flagged items take one pair of reasons, and a facet is split and merged with its reasons', async ({
+  page,
+  purification,
+}) => {
+  await purification.open();
+  await expect(page.locator('.round-tab.active')).toContainText('Round 2');
+
+  // The flagged items of the latest round that wait for a decision, all ticked to start with.
+  const batch = page.locator('.panel', {
+    has: page.locator('h2', { hasText: 'One reason for several flagged items' }),
+  });
+  const boxes = batch.getByRole('checkbox');
+  await expect(boxes.first()).toBeChecked();
+  const waiting = await boxes.count();
+  expect(waiting).toBeGreaterThanOrEqual(4);
+
+  // Without reasons nothing is recorded, and the form says why.
+  await batch.getByRole('button', { name: `Record ${waiting} decisions` }).click();
+  await expect(batch.locator('.error-note')).toContainText('give a rationale for keeping item');
+  await expect(boxes).toHaveCount(waiting);
+
+  // Two of them kept, each with its own decision and the same reasons.
+  for (let i = 2; i < waiting; i++) await boxes.nth(i).uncheck();
+  const kept = [
+    (await batch.locator('.batch-items strong').nth(0).textContent()) ?? '',
+    (await batch.locator('.batch-items strong').nth(1).textContent()) ?? '',
+  ];
+  const domain = batch.getByLabel('How these items relate to the construct’s domain');
+  await domain.fill(
+    'Each asks about everyday riding the construct covers; the flag is about answers piling up.',
+  );
+  await batch.getByLabel('What the statistics show').fill('Item-total r above .40; only the ceiling flag.');
+  await batch.getByRole('button', { name: 'Record 2 decisions' }).click();
+  await expect(boxes).toHaveCount(waiting - 2);
+  await expect(domain).toHaveValue('');
+  await expect(batch.locator('.error-note')).toHaveCount(0);
+  await expect(batch.locator('.batch-items')).not.toContainText(kept[0]);
+
+  // A merge without the domain reason is refused; a split with its reasons moves the ticked items.
+  const facets = page.locator('.panel', { has: page.locator('h2', { hasText: 'Merge or split facets' }) });
+  await facets.getByRole('button', { name: 'Merge facets' }).click();
+  await expect(facets.locator('.error-note')).toContainText(
+    'say how the items’ content fits the facet they go to',
+  );
+  await facets.getByLabel('Split a facet').check();
+  const splitItems = facets.getByRole('checkbox');
+  await splitItems.nth(0).check();
+  await splitItems.nth(1).check();
+  await facets.getByLabel('Name of the new facet').fill('Riding beside heavy vehicles');
+  await facets
+    .getByLabel('Its definition: what its items have in common')
+    .fill('Belief in riding safely close to buses and lorries.');
+  const fits = facets.getByLabel('How the items’ content fits the facet they go to (required)');
+  await fits.fill('Both items are about large vehicles, which the other traffic items do not name.');
+  await facets
+    .getByLabel('What the factor analysis and reliabilities show')
+    .fill('The two items correlate more with each other than with the rest of their facet.');
+  await facets.getByRole('button', { name: 'Split facet' }).click();
+  await expect(facets.locator('.done-note')).toHaveText(
+    'Split: 2 items moved to “Riding beside heavy vehicles”. Run the next round to see the effect.',
+  );
+
+  // Merging moves every item still in the first facet into the second.
+  await facets.getByLabel('Merge two facets').check();
+  await fits.fill('The two facets ask about the same confidence in different words.');
+  await facets.getByRole('button', { name: 'Merge facets' }).click();
+  await expect(facets.locator('.done-note')).toHaveText(
+    /^Merged: \d+ items moved\. Run the next round to see the effect\.$/,
+  );
+  await expect(page.locator('.pending-note')).toBeVisible();
+
+  // The decisions are in the decision log, with their reasons.
+  await page.locator('.sidebar a[href="#/log"]').click();
+  const log = page.locator('.log-table');
+  await expect(log).toContainText('item kept');
+  await expect(log).toContainText('Domain: Each asks about everyday riding');
+  await expect(log).toContainText('facet split');
+  await expect(log).toContainText('Domain: The two facets ask about the same confidence');
+});

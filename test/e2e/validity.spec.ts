@@ -71,3 +71,46 @@ test('walks the validity phase on the demo: reopen, run the CFA again, acknowled
   await page.getByRole('button', { name: 'Sign off', exact: true }).click();
   await expect(side.locator('.badge')).toHaveText('Signed off');
 });
+
+test('a criterion column and a group column are described again, each with its reason', async ({
+  page,
+  app,
+}) => {
+  await page.goto(app.url);
+  await page.locator('.sidebar a[href="#/phase/validity"]').click();
+  await page.getByRole('button', { name: 'Reopen phase…' }).click();
+  await page.locator('#note-validity').fill('The criterion columns are read once more.');
+  await page.getByRole('button', { name: 'Reopen', exact: true }).click();
+  await page.getByRole('button', { name: 'Criteria and groups' }).click();
+
+  // A criterion column: its reliability changes, saved only with a reason.
+  const measure = page.locator('form[aria-label="Column gen_self_efficacy"]');
+  await expect(measure.getByLabel('Relation it answers')).toHaveValue(/\d+/);
+  const save = measure.getByRole('button', { name: 'Save' });
+  await expect(save).toBeDisabled();
+  await measure.getByLabel('Its reliability').fill('0.86');
+  await measure.getByLabel('Why').fill('The questionnaire’s newer manual reports .86 (demo).');
+  await save.click();
+  await expect(measure.locator('.setting-now')).toHaveText(
+    'now: The questionnaire’s newer manual reports .86 (demo).',
+  );
+  await expect(measure.getByLabel('Why')).toHaveValue('');
+  await expect(measure.getByLabel('Its reliability')).toHaveValue('0.86');
+
+  // A group column: which group should score higher, with its reason.
+  const group = page.locator('form[aria-label="Group column cyclist_type"]');
+  await expect(group.getByLabel('Expected higher')).toHaveValue('regular');
+  await group.getByLabel('Why').fill('Regular riders have more practice in traffic (demo).');
+  await group.getByRole('button', { name: 'Save' }).click();
+  await expect(group.locator('.setting-now')).toHaveText(
+    'now: Regular riders have more practice in traffic (demo).',
+  );
+
+  await page.locator('.sidebar a[href="#/log"]').click();
+  await expect(page.locator('.log-table')).toContainText(
+    'The questionnaire’s newer manual reports .86 (demo).',
+  );
+  await expect(page.locator('.log-table')).toContainText(
+    'Regular riders have more practice in traffic (demo).',
+  );
+});
