@@ -20,8 +20,8 @@ function ColumnForm(props: {
   whyPlaceholder: string;
   /** The reason of the setting in force, if there is one. */
   now: string | undefined;
-  busy: boolean;
-  error: string | undefined;
+  /** The save's state: running, and the message of its last refusal. */
+  saving: { busy: boolean; error?: string };
   save(relationId: number | null, rationale: string): Promise<boolean>;
   children: ReactNode;
 }) {
@@ -56,11 +56,11 @@ function ColumnForm(props: {
         value={rationale}
         onChange={(e) => setRationale(e.target.value)}
       />
-      <button type="submit" className="secondary" disabled={props.busy || rationale.trim() === ''}>
+      <button type="submit" className="secondary" disabled={props.saving.busy || rationale.trim() === ''}>
         Save
       </button>
       {props.now !== undefined && <span className="muted setting-now">now: {props.now}</span>}
-      <ErrorNote message={props.error} />
+      <ErrorNote message={props.saving.error} />
     </form>
   );
 }
@@ -81,8 +81,7 @@ export function MeasureForm({ row, view }: { row: MeasureRow; view: View }) {
       relationId={s?.relationId ?? null}
       whyPlaceholder="Why it is read this way"
       now={s?.rationale}
-      busy={save.busy}
-      error={save.error}
+      saving={save}
       save={async (relationId, rationale) =>
         (await save.run({
           column: row.column,
@@ -129,8 +128,7 @@ export function GroupForm({ row, view }: { row: GroupRow; view: View }) {
       relationId={s?.relationId ?? null}
       whyPlaceholder="Why these groups"
       now={s?.rationale}
-      busy={save.busy}
-      error={save.error}
+      saving={save}
       save={async (relationId, rationale) =>
         (await save.run({ column: row.column, relationId, higher, lower, rationale })) !== undefined
       }
