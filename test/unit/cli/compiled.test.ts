@@ -1,5 +1,5 @@
 import { spawnSync } from 'node:child_process';
-import { mkdtempSync, readdirSync, readFileSync, rmSync, statSync, utimesSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, rmSync, statSync, utimesSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
@@ -8,10 +8,21 @@ import { ROOT, runCli } from '../../helpers/cli.ts';
 const LAUNCHER = path.join(ROOT, 'app', 'cli', 'bin.mjs');
 const DIST = path.join(ROOT, 'app', 'cli', 'dist');
 
-/** The compiled code: the dispatcher, main.mjs, and the chunks it loads. */
+/**
+ * The current build: main.mjs and worker.mjs with every chunk they import or load on demand (a
+ * previous build's chunks may still lie beside them for a while).
+ */
 function compiledText(): string {
-  const files = readdirSync(DIST).filter((f) => f.endsWith('.mjs'));
-  return files.map((f) => readFileSync(path.join(DIST, f), 'utf8')).join('\n');
+  const seen = new Set<string>();
+  const visit = (file: string) => {
+    if (seen.has(file)) return;
+    seen.add(file);
+    const text = readFileSync(path.join(DIST, file), 'utf8');
+    for (const m of text.matchAll(/(?:from\s*|import\s*\(?\s*)"\.\/([^"]+\.mjs)"/g)) visit(m[1]);
+  };
+  visit('main.mjs');
+  visit('worker.mjs');
+  return [...seen].map((f) => readFileSync(path.join(DIST, f), 'utf8')).join('\n');
 }
 
 /** The files `import` reaches from a compiled file without running any command (static imports only). */
