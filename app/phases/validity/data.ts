@@ -96,6 +96,30 @@ export interface DataSource {
   role: DatasetRole;
   respondentsInFile: number;
   excluded: number;
+  /**
+   * The excluded respondents' positions in the file (0-based, ascending) when the run was made.
+   * Absent in runs stored before positions were kept: those are compared by count only.
+   */
+  excludedRows?: number[];
+}
+
+/** The current exclusions of a dataset as positions in the file, ascending. Cost O(e log e). */
+function excludedPositions(study: Study, datasetId: number): number[] {
+  return [...currentExclusions(study, datasetId).keys()].sort((a, b) => a - b);
+}
+
+/**
+ * How a dataset's exclusions differ from those a run stored with its source ("1 respondent excluded
+ * then, 2 now", or the same number but other respondents), or null when they are the same. A source
+ * stored before positions were kept is compared by count only. Cost O(e log e) for e exclusions.
+ */
+export function exclusionsChange(study: Study, source: DataSource): string | null {
+  const now = excludedPositions(study, source.datasetId);
+  if (now.length !== source.excluded)
+    return `${source.excluded} respondents excluded then, ${now.length} now`;
+  const then = source.excludedRows;
+  if (then === undefined || then.every((row, i) => row === now[i])) return null;
+  return `as many excluded then as now (${now.length}), but not the same respondents`;
 }
 
 /** The retained items' answers in a dataset, with the declared bounds and where they came from. */
@@ -108,6 +132,7 @@ export function itemAnswers(study: Study, dataset: DatasetSummary, codes: string
     role: dataset.role,
     respondentsInFile: data.provenance.respondentsInFile,
     excluded: data.provenance.excluded,
+    excludedRows: excludedPositions(study, dataset.id),
   };
   return { ...data, source, bounds: declaredBounds(study) };
 }

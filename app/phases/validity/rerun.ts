@@ -1,5 +1,5 @@
 import type { RunRecord } from '../../../db/repos/analysis-runs.ts';
-import { currentExclusions, type DatasetSummary, getDatasetSummary } from '../../../db/repos/datasets.ts';
+import { type DatasetSummary, getDatasetSummary } from '../../../db/repos/datasets.ts';
 import type { Study } from '../../../db/study.ts';
 import { completeCases } from '../../engine/cfa/model.ts';
 import { DEFAULT_ICC_LEVEL } from '../../engine/icc.ts';
@@ -7,7 +7,7 @@ import { cfaJob, invarianceJob } from '../../workers/validity.ts';
 import { declaredBounds } from '../analysis-data.ts';
 import { RuleError } from '../errors.ts';
 import { InputsGone, type RerunKind } from '../history/rerun-kind.ts';
-import { type DataSource, itemAnswers, sideColumns } from './data.ts';
+import { type DataSource, exclusionsChange, itemAnswers, sideColumns } from './data.ts';
 import { engineModel } from './model.ts';
 import { RELATIONS_LEVEL, type RelationsResults, relationsAnalysis, type ScoreRule } from './relations.ts';
 import { linkOccasions, occasion, retestAnalysis } from './retest.ts';
@@ -33,11 +33,9 @@ function storedDataset(study: Study, source: DataSource): DatasetSummary {
   if (!dataset) {
     throw new RuleError(`dataset ${source.datasetId} ("${source.datasetName}") is no longer in the study`);
   }
-  const excluded = currentExclusions(study, dataset.id).size;
-  if (excluded !== source.excluded) {
-    throw new InputsGone(
-      `the exclusions in "${dataset.name}" changed after this run (${source.excluded} respondents excluded then, ${excluded} now)`,
-    );
+  const change = exclusionsChange(study, source);
+  if (change !== null) {
+    throw new InputsGone(`the exclusions in "${dataset.name}" changed after this run (${change})`);
   }
   return dataset;
 }

@@ -12,7 +12,14 @@ import {
 } from '../../workers/validity.ts';
 import { recordRun, requireOpen } from '../change.ts';
 import { RuleError } from '../errors.ts';
-import { type DataSource, itemAnswers, PHASE, sideColumns, validationDataset } from './data.ts';
+import {
+  type DataSource,
+  exclusionsChange,
+  itemAnswers,
+  PHASE,
+  sideColumns,
+  validationDataset,
+} from './data.ts';
 import { engineModel, type MeasurementModel, modelInForce } from './model.ts';
 
 /** Smallest group an invariance test takes (common practice: a CFA per group needs cases). */
@@ -185,10 +192,8 @@ export function outOfDateReason(study: Study, inputs: StructureInputs): string |
     return `it ran on "${inputs.source.datasetName}"; the current validation data is "${dataset.name}"`;
   const model = modelInForce(study).model;
   if (canonicalJson(model) !== canonicalJson(inputs.model)) return 'the measurement model changed since';
-  const excluded = itemAnswers(study, dataset, inputs.items).source.excluded;
-  if (excluded !== inputs.source.excluded)
-    return `exclusions changed since (${inputs.source.excluded} then, ${excluded} now)`;
-  return null;
+  const change = exclusionsChange(study, inputs.source);
+  return change === null ? null : `exclusions changed since (${change})`;
 }
 
 export function storedRun<R>(study: Study, run: RunRecord): StoredRun<R> {

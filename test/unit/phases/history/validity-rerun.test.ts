@@ -5,9 +5,9 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { fillDemoStudy } from '../../../../app/demo/index.ts';
 import { RERUN_KINDS, rerunStoredRuns, verifyWithReruns } from '../../../../app/phases/history/index.ts';
 import { reopenPhase } from '../../../../app/phases/index.ts';
-import { excludeRespondents } from '../../../../app/phases/pilot/screening-actions.ts';
+import { excludeRespondents, includeRespondents } from '../../../../app/phases/pilot/screening-actions.ts';
 import type { RelationsResults } from '../../../../app/phases/validity/relations.ts';
-import type { RetestResults } from '../../../../app/phases/validity/retest.ts';
+import { type RetestResults, runRetest } from '../../../../app/phases/validity/retest.ts';
 import { canonicalJson } from '../../../../db/canonical-json.ts';
 import { Study } from '../../../../db/study.ts';
 import { verifyStudy } from '../../../../db/verify.ts';
@@ -272,6 +272,41 @@ describe('inputs that can no longer be rebuilt', () => {
       expect(report.breaks).toEqual([]);
       // The relations run read the validation data only, and still reproduces.
       expect(report.runs.find((r) => r.kind === 'relations')?.status).toBe('reproduced');
+    } finally {
+      study.close();
+    }
+  }, 60_000);
+
+  it('one exclusion swapped for another after a run (the same count) leaves its inputs gone, not a break', () => {
+    const file = copyOfFull();
+    const study = Study.open(file, { actor: TEST_ACTOR, app: 'test' });
+    try {
+      const retestId = (
+        study.db.prepare("SELECT id FROM dataset WHERE role = 'retest'").get() as { id: number }
+      ).id;
+      reopenPhase(study, 'pilot', 'One retest respondent answered for someone else');
+      reopenPhase(study, 'validity', 'The retest is run again without that respondent');
+      excludeRespondents(study, retestId, {
+        respondents: [0],
+        reason: 'Answered the retest on behalf of another respondent (demo).',
+      });
+      const runId = runRetest(study);
+      expect(rerunStoredRuns(study).runs.find((r) => r.runId === runId)?.status).toBe('reproduced');
+      includeRespondents(study, retestId, {
+        respondents: [0],
+        reason: 'The first exclusion was a mix-up (demo).',
+      });
+      excludeRespondents(study, retestId, {
+        respondents: [1],
+        reason: 'This one answered for someone else instead (demo).',
+      });
+      const report = rerunStoredRuns(study);
+      const swapped = report.runs.find((r) => r.runId === runId);
+      expect(swapped?.status).toBe('inputs-gone');
+      expect(swapped?.note).toMatch(
+        /exclusions in ".*" changed after this run \(as many excluded then as now \(1\), but not the same respondents\)/,
+      );
+      expect(report.breaks).toEqual([]);
     } finally {
       study.close();
     }
