@@ -92,9 +92,8 @@ export type StartSink<S extends RecordSink> = (
   warnings: string[],
 ) => S;
 
-/** A delimited file read through a sink, with what the reader found on the way. */
-export interface StreamedRecords<S extends RecordSink> {
-  sink: S;
+/** How a delimited file was read: its header, format and bytes. */
+export interface ReadFormat {
   header: string[];
   delimiter: string;
   quoteChar: string;
@@ -102,20 +101,17 @@ export interface StreamedRecords<S extends RecordSink> {
   byteLength: number;
   /** SHA-256 of the original bytes, lowercase hex. */
   sha256: string;
+}
+
+/** A delimited file read through a sink, with what the reader found on the way. */
+export interface StreamedRecords<S extends RecordSink> extends ReadFormat {
+  sink: S;
   /** Decoding, delimiter, header and blank-row notes, and the sink's own from `start`, in that order. */
   warnings: string[];
 }
 
 /** A dataset read from a stream, with what storage needs to keep beside it. */
-export interface StreamedDataset extends EncodedDataset {
-  header: string[];
-  delimiter: string;
-  quoteChar: string;
-  encoding: Encoding;
-  byteLength: number;
-  /** SHA-256 of the original bytes, lowercase hex. */
-  sha256: string;
-}
+export interface StreamedDataset extends EncodedDataset, ReadFormat {}
 
 interface Format {
   encoding: Encoding;

@@ -1,5 +1,6 @@
 import { LuDecomposition, Matrix } from 'ml-matrix';
 import { describe, expect, it } from 'vitest';
+import { createRng } from '../../../app/engine/rng.ts';
 import { luFactor, luSingular, luSolve } from '../../../app/engine/lu.ts';
 
 /**
@@ -9,12 +10,10 @@ import { luFactor, luSingular, luSolve } from '../../../app/engine/lu.ts';
  * linalg.test.ts; here they must reproduce ml-matrix's factors and solutions exactly, bit for bit.
  */
 
+/** Arbitrary test values in [−0.5, 0.5) from the engine's seeded generator (only their kinds matter). */
 function generator(seed: number): () => number {
-  let state = seed >>> 0;
-  return () => {
-    state = (Math.imul(state, 1664525) + 1013904223) >>> 0;
-    return state / 4294967296 - 0.5;
-  };
+  const rng = createRng(seed);
+  return () => rng.next() - 0.5;
 }
 
 function square(n: number, next: () => number): number[][] {

@@ -1,5 +1,6 @@
 import { EigenvalueDecomposition, Matrix } from 'ml-matrix';
 import { describe, expect, it } from 'vitest';
+import { createRng } from '../../../app/engine/rng.ts';
 import { tridiagonalQl } from '../../../app/engine/symmetric-eigen.ts';
 
 /**
@@ -9,13 +10,10 @@ import { tridiagonalQl } from '../../../app/engine/symmetric-eigen.ts';
  * here it must reproduce ml-matrix's decomposition exactly, bit for bit, on matrices of every kind.
  */
 
-/** A seeded generator for the test matrices (the values are arbitrary; only their kinds matter). */
+/** Arbitrary test values in [−0.5, 0.5) from the engine's seeded generator (only their kinds matter). */
 function generator(seed: number): () => number {
-  let state = seed >>> 0;
-  return () => {
-    state = (Math.imul(state, 1664525) + 1013904223) >>> 0;
-    return state / 4294967296 - 0.5;
-  };
+  const rng = createRng(seed);
+  return () => rng.next() - 0.5;
 }
 
 function symmetric(n: number, next: () => number): number[][] {

@@ -36,6 +36,18 @@ function copyOfFull(): string {
   return file;
 }
 
+/** Reopens the pilot phase and excludes the retest data's first respondent; returns the dataset id. */
+function excludeFirstRetestRespondent(study: Study): number {
+  const retestId = (study.db.prepare("SELECT id FROM dataset WHERE role = 'retest'").get() as { id: number })
+    .id;
+  reopenPhase(study, 'pilot', 'One retest respondent answered for someone else');
+  excludeRespondents(study, retestId, {
+    respondents: [0],
+    reason: 'Answered the retest on behalf of another respondent (demo).',
+  });
+  return retestId;
+}
+
 function withStudy<T>(file: string, read: (study: Study) => T): T {
   const study = Study.open(file, { actor: TEST_ACTOR, app: 'test', mode: 'read' });
   try {
@@ -252,17 +264,9 @@ describe('inputs that can no longer be rebuilt', () => {
   }, 60_000);
 
   it('an exclusion made after the retest run leaves its inputs gone, said plainly, not a break', () => {
-    const file = copyOfFull();
-    const study = Study.open(file, { actor: TEST_ACTOR, app: 'test' });
+    const study = Study.open(copyOfFull(), { actor: TEST_ACTOR, app: 'test' });
     try {
-      const retestId = (
-        study.db.prepare("SELECT id FROM dataset WHERE role = 'retest'").get() as { id: number }
-      ).id;
-      reopenPhase(study, 'pilot', 'One retest respondent answered for someone else');
-      excludeRespondents(study, retestId, {
-        respondents: [0],
-        reason: 'Answered the retest on behalf of another respondent (demo).',
-      });
+      excludeFirstRetestRespondent(study);
       const report = rerunStoredRuns(study);
       const retest = report.runs.find((r) => r.kind === 'retest');
       expect(retest?.status).toBe('inputs-gone');
@@ -278,18 +282,10 @@ describe('inputs that can no longer be rebuilt', () => {
   }, 60_000);
 
   it('one exclusion swapped for another after a run (the same count) leaves its inputs gone, not a break', () => {
-    const file = copyOfFull();
-    const study = Study.open(file, { actor: TEST_ACTOR, app: 'test' });
+    const study = Study.open(copyOfFull(), { actor: TEST_ACTOR, app: 'test' });
     try {
-      const retestId = (
-        study.db.prepare("SELECT id FROM dataset WHERE role = 'retest'").get() as { id: number }
-      ).id;
-      reopenPhase(study, 'pilot', 'One retest respondent answered for someone else');
+      const retestId = excludeFirstRetestRespondent(study);
       reopenPhase(study, 'validity', 'The retest is run again without that respondent');
-      excludeRespondents(study, retestId, {
-        respondents: [0],
-        reason: 'Answered the retest on behalf of another respondent (demo).',
-      });
       const runId = runRetest(study);
       expect(rerunStoredRuns(study).runs.find((r) => r.runId === runId)?.status).toBe('reproduced');
       includeRespondents(study, retestId, {
