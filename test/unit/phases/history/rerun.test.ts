@@ -1,6 +1,5 @@
 import fs from 'node:fs';
 import path from 'node:path';
-import type Database from 'better-sqlite3';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { fillDemoStudy } from '../../../../app/demo/index.ts';
 import {
@@ -26,6 +25,7 @@ import { Study } from '../../../../db/study.ts';
 import { verifyStudy } from '../../../../db/verify.ts';
 import { runCli } from '../../../helpers/cli.ts';
 import { editAndReseal } from '../../../helpers/reseal.ts';
+import { runIdOf, withStudy } from '../../../helpers/study-file.ts';
 import { TEST_ACTOR, tempDir } from '../../../helpers/tmp.ts';
 
 let tmp: ReturnType<typeof tempDir>;
@@ -48,19 +48,6 @@ function copyOfDemo(): string {
   const file = path.join(tmp.dir, `copy-${Math.random().toString(36).slice(2)}.scalewright`);
   fs.copyFileSync(demo, file);
   return file;
-}
-
-function withStudy<T>(file: string, read: (study: Study) => T): T {
-  const study = Study.open(file, { actor: TEST_ACTOR, app: 'test', mode: 'read' });
-  try {
-    return read(study);
-  } finally {
-    study.close();
-  }
-}
-
-function runIdOf(db: Database.Database, kind: string): number {
-  return (db.prepare('SELECT min(id) AS id FROM analysis_run WHERE kind = ?').get(kind) as { id: number }).id;
 }
 
 describe('compareResults', () => {

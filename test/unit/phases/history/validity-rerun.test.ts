@@ -13,6 +13,7 @@ import { Study } from '../../../../db/study.ts';
 import { verifyStudy } from '../../../../db/verify.ts';
 import { runCli } from '../../../helpers/cli.ts';
 import { editAndReseal } from '../../../helpers/reseal.ts';
+import { runIdOf, withStudy } from '../../../helpers/study-file.ts';
 import { TEST_ACTOR, tempDir } from '../../../helpers/tmp.ts';
 
 /**
@@ -46,19 +47,6 @@ function excludeFirstRetestRespondent(study: Study): number {
     reason: 'Answered the retest on behalf of another respondent (demo).',
   });
   return retestId;
-}
-
-function withStudy<T>(file: string, read: (study: Study) => T): T {
-  const study = Study.open(file, { actor: TEST_ACTOR, app: 'test', mode: 'read' });
-  try {
-    return read(study);
-  } finally {
-    study.close();
-  }
-}
-
-function runIdOf(db: Database.Database, kind: string): number {
-  return (db.prepare('SELECT min(id) AS id FROM analysis_run WHERE kind = ?').get(kind) as { id: number }).id;
 }
 
 /** Rewrites the stored results of the first run of a kind, and reseals the file. Returns the run id. */
