@@ -6,6 +6,7 @@ import { requireOpen } from './change.ts';
 import { RuleError } from './errors.ts';
 import { includeRespondents } from './pilot/index.ts';
 import { reverseDecision } from './purification/index.ts';
+import { type MeasurementModel, setMeasurementModel } from './validity/index.ts';
 
 /**
  * "Undo the last change": never a deletion. The most recent change in the decision log is reversed
@@ -22,6 +23,7 @@ const UNDOABLE: Record<string, string> = {
   'item-dropped': 'restores the item',
   'item-restored': 'drops the item again',
   'item-moved': 'moves the item back to the facet it came from',
+  'model-set': 'sets the measurement model back to the one before the change, residual covariances and all',
 };
 
 /** Kinds undo does not reverse, and why; anything not listed here is not undoable either. */
@@ -34,6 +36,14 @@ export const NOT_UNDOABLE: Record<string, string> = {
   'exclusions-reversed': 'to exclude these respondents again, exclude them with a new reason',
   'signed-off': 'a sign-off is lifted by reopening the phase, with a reason',
   reopened: 'a reopened phase is closed again by signing it off',
+  'measure-described':
+    'describe the column again in the Validity phase, with a reason; the earlier description stays on record',
+  'groups-described':
+    'describe the group column again in the Validity phase, with a reason; the earlier description stays on record',
+  'evidence-acknowledged':
+    'an acknowledgement lapses by itself when what its source shows changes; acknowledge it again then',
+  'relation-planned': 'edit or withdraw the planned relation in the Construct phase, with a reason',
+  'relation-edited': 'edit the relation again in the Construct phase, with a reason',
   'facet-split':
     'move the items back to the facet they came from (each move is reversed like any move), then retire the new facet in the Construct phase',
 };
@@ -119,6 +129,8 @@ export function undoLastChange(study: Study, request: { seq: number; reason: str
       reason,
       reversesRow: row.seq,
     });
+  } else if (row.kind === 'model-set') {
+    setMeasurementModel(study, d.before as MeasurementModel, `Undo: ${reason}`, { reversesRow: row.seq });
   } else {
     const last = listDecisions(study).at(-1);
     if (!last || last.itemId !== d.itemId || last.action !== d.action) {

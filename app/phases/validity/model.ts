@@ -130,7 +130,12 @@ function modelChanges(before: MeasurementModel, after: MeasurementModel): string
  * after. Refuses a signed-off phase, a model that does not fit the retained items, a residual
  * covariance without its own rationale, and a change that changes nothing.
  */
-export function setMeasurementModel(study: Study, model: MeasurementModel, rationale: string): number {
+export function setMeasurementModel(
+  study: Study,
+  model: MeasurementModel,
+  rationale: string,
+  options: { reversesRow?: number } = {},
+): number {
   const checked = checkModel(study, model);
   if (rationale.trim() === '') throw new RuleError('say why the measurement model changes');
   const before = modelInForce(study).model;
@@ -143,7 +148,12 @@ export function setMeasurementModel(study: Study, model: MeasurementModel, ratio
       kind: 'model-set',
       target: 'measurement model',
       rationale: rationale.trim(),
-      detail: { changes, before, after: checked },
+      detail: {
+        changes,
+        before,
+        after: checked,
+        ...(options.reversesRow === undefined ? {} : { reverses: options.reversesRow }),
+      },
     },
     () =>
       insertValidityDecision(study, {

@@ -13,6 +13,7 @@ import {
 import { importDemoValidation } from '../../../app/demo/validity.ts';
 import { editRelation } from '../../../app/phases/construct/index.ts';
 import { phaseOverview, reopenPhase } from '../../../app/phases/index.ts';
+import { lastChange, undoLastChange } from '../../../app/phases/undo.ts';
 import {
   acknowledgeSource,
   describeMeasure,
@@ -228,5 +229,22 @@ describe('the phase rules', () => {
         'x',
       ),
     ).toThrow(/reliability lies above 0 and at most 1/);
+  });
+
+  it('undo sets the measurement model back to the one before, with a row naming the row it reverses; that row is not undone again', () => {
+    importDemoValidation(study);
+    const before = modelInForce(study).model;
+    setMeasurementModel(study, { ...before, orthogonal: true }, 'Check uncorrelated facets');
+    const changed = study.log.list({ limit: 1 })[0];
+    const last = lastChange(study);
+    expect(last).toMatchObject({ seq: changed.seq, kind: 'model-set', undoable: true });
+    expect(last?.effect).toMatch(/measurement model back/);
+    undoLastChange(study, { seq: changed.seq, reason: 'Uncorrelated facets were a detour' });
+    expect(modelInForce(study).model).toEqual(before);
+    const undone = study.log.list({ limit: 1 })[0];
+    expect(undone).toMatchObject({ kind: 'model-set', rationale: 'Undo: Uncorrelated facets were a detour' });
+    expect(undone.detail.reverses).toBe(changed.seq);
+    expect(lastChange(study)?.undoable).toBe(false);
+    expect(() => undoLastChange(study, { seq: undone.seq, reason: 'again' })).toThrow(/already undid row/);
   });
 });
