@@ -20,12 +20,11 @@ import {
 } from '../../engine/cfa/model.ts';
 import { EngineError } from '../../engine/errors.ts';
 import { methodsField } from '../../engine/methods/index.ts';
-import { ENGINE_VERSION } from '../../engine/version.ts';
 import { parseTable } from '../../import/parse-table.ts';
 import { readUserFile } from '../files.ts';
 import { formatTable } from '../table.ts';
 import { type CliContext, DataError, type OptionValues, type StatsAnalysis, UsageError } from '../types.ts';
-import { commonStatsOptionsExcept, type LoadedItems, loadItemData } from './data.ts';
+import { commonStatsOptionsExcept, type LoadedItems, loadItemData, statsHead } from './data.ts';
 
 /** Widest line of the readable output. */
 const WIDTH = 100;
@@ -242,10 +241,7 @@ export function cfaJson(
   const first = new Map<string, number>();
   for (const l of fit.loadings) if (!first.has(l.item)) first.set(l.item, l.standardized);
   return {
-    analysis: 'cfa',
-    engineVersion: ENGINE_VERSION,
-    data: { file: loaded.file, sha256: loaded.sha256, rows: loaded.rows },
-    inputs: {
+    ...statsHead('cfa', loaded, {
       model: modelFile,
       factors: Object.fromEntries(model.factors.map((f) => [f.name, f.items])),
       residualCovariances: model.residualCovariances ?? [],
@@ -255,7 +251,7 @@ export function cfaJson(
       missing: 'listwise',
       missingCodes: loaded.missingCodes,
       group: out.groupColumn,
-    },
+    }),
     n: fit.n,
     missing: { method: 'listwise', respondents: out.respondents, dropped: out.dropped },
     chiSquare: fit.chiSquare,

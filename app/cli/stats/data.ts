@@ -1,6 +1,7 @@
 import type { MissingMethod } from '../../engine/item-stats.ts';
 import { byItem, type ResponseColumns, responseRows } from '../../engine/responses.ts';
 import { DEFAULT_SEED } from '../../engine/rng.ts';
+import { ENGINE_VERSION } from '../../engine/version.ts';
 import type { ResponseMatrix, ScaleBounds } from '../../engine/scoring.ts';
 import { chooseDecimalMark } from '../../import/dataset.ts';
 import type { DecimalMark } from '../../import/numbers.ts';
@@ -77,6 +78,30 @@ export interface LoadedItems {
   missingCodes: string[];
   /** Notes from reading the file (delimiter guesses, skipped blank rows, decimal commas). */
   warnings: string[];
+}
+
+/**
+ * The head of every `stats` JSON object that reads a data file: the analysis, the engine version, the
+ * file read (as given, its SHA-256 and its data rows) and the inputs, as the analysis states them.
+ */
+export function statsHead(analysis: string, loaded: LoadedItems, inputs: Record<string, unknown>) {
+  return {
+    analysis,
+    engineVersion: ENGINE_VERSION,
+    data: { file: loaded.file, sha256: loaded.sha256, rows: loaded.rows },
+    inputs,
+  };
+}
+
+/** The inputs every analysis of items states first: the items, reverse keys, bounds and missing data. */
+export function itemInputs(loaded: LoadedItems) {
+  return {
+    items: loaded.names,
+    reverse: loaded.reverse,
+    bounds: loaded.bounds,
+    missing: loaded.missing,
+    missingCodes: loaded.missingCodes,
+  };
 }
 
 /** How an analysis names its columns (most use --items; some use another option such as --columns). */

@@ -1,9 +1,8 @@
-import { ENGINE_VERSION } from '../../engine/version.ts';
 import { EngineError } from '../../engine/errors.ts';
 import { type CorrelationInput, type CorrelationKind, correlationInput } from '../../engine/factor/input.ts';
 import { DataError, type OptionValues, UsageError } from '../types.ts';
 import type { OptionSpecs } from '../command.ts';
-import { COMMON_STATS_OPTIONS, type LoadedItems } from './data.ts';
+import { COMMON_STATS_OPTIONS, itemInputs, type LoadedItems, statsHead } from './data.ts';
 
 /** Widest a command-line table may be. */
 export const TABLE_WIDTH = 100;
@@ -100,18 +99,5 @@ export function analysisHead(
   input: CorrelationInput,
   settings: Record<string, unknown>,
 ) {
-  return {
-    analysis,
-    engineVersion: ENGINE_VERSION,
-    data: { file: loaded.file, sha256: loaded.sha256, rows: loaded.rows },
-    inputs: {
-      items: loaded.names,
-      reverse: loaded.reverse,
-      bounds: loaded.bounds,
-      missing: loaded.missing,
-      missingCodes: loaded.missingCodes,
-      correlation: input.kind,
-      ...settings,
-    },
-  };
+  return statsHead(analysis, loaded, { ...itemInputs(loaded), correlation: input.kind, ...settings });
 }

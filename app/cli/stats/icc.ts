@@ -9,10 +9,9 @@ import {
 } from '../../engine/icc.ts';
 import { methodsField } from '../../engine/methods/index.ts';
 import type { MeasurementError } from '../../engine/reliability/sem.ts';
-import { ENGINE_VERSION } from '../../engine/version.ts';
 import { formatTable } from '../table.ts';
 import { DataError, type StatsAnalysis, UsageError } from '../types.ts';
-import { commonStatsOptionsExcept, type LoadedItems, loadItemData, numberOption } from './data.ts';
+import { commonStatsOptionsExcept, type LoadedItems, loadItemData, numberOption, statsHead } from './data.ts';
 
 /** The form whose SEM and MDC are reported: two-way random, absolute agreement, single measure. */
 const SEM_FORM = 'ICC(2,1)';
@@ -44,16 +43,13 @@ interface IccOutput {
 export function iccJson(loaded: LoadedItems, out: IccOutput): Record<string, unknown> {
   const { result } = out;
   return {
-    analysis: 'icc',
-    engineVersion: ENGINE_VERSION,
-    data: { file: loaded.file, sha256: loaded.sha256, rows: loaded.rows },
-    inputs: {
+    ...statsHead('icc', loaded, {
       columns: loaded.names,
       bounds: loaded.bounds,
       missing: 'listwise',
       missingCodes: loaded.missingCodes,
       ciLevel: result.level,
-    },
+    }),
     n: result.n,
     k: result.k,
     missing: { method: 'listwise', targets: loaded.data.length, dropped: out.dropped },

@@ -1,9 +1,8 @@
 import { correlationInput } from '../../engine/factor/input.ts';
 import { methodsField } from '../../engine/methods/index.ts';
-import { ENGINE_VERSION } from '../../engine/version.ts';
 import { formatTable } from '../table.ts';
 import { type StatsAnalysis, UsageError } from '../types.ts';
-import { loadItemData } from './data.ts';
+import { itemInputs, loadItemData, statsHead } from './data.ts';
 import { bounded, unbounded } from '../../api/format.ts';
 import { columnBlocks, cut, engineStep, factorSpec } from './factor-common.ts';
 
@@ -25,16 +24,7 @@ export const polychoric: StatsAnalysis = {
     );
     const thresholds = input.thresholds ?? [];
     const json = {
-      analysis: 'polychoric',
-      engineVersion: ENGINE_VERSION,
-      data: { file: loaded.file, sha256: loaded.sha256, rows: loaded.rows },
-      inputs: {
-        items: loaded.names,
-        reverse: loaded.reverse,
-        bounds: loaded.bounds,
-        missing: loaded.missing,
-        missingCodes: loaded.missingCodes,
-      },
+      ...statsHead('polychoric', loaded, itemInputs(loaded)),
       n: input.n,
       items: loaded.names,
       matrix: input.matrix,

@@ -14,10 +14,12 @@ import { DataError, type StatsAnalysis, type StatsResult, UsageError } from '../
 import {
   COMMON_STATS_OPTIONS,
   integerOption,
+  itemInputs,
   type LoadedItems,
   loadItemData,
   numberOption,
   seedOption,
+  statsHead,
 } from './data.ts';
 
 /** Most resamples `--bootstrap` accepts (about a minute on 500 × 30 with pairwise deletion). */
@@ -34,18 +36,11 @@ function versus(x: number | null | undefined): string {
 /** The JSON object of `stats reliability --json` (warnings are added by the dispatcher). */
 export function reliabilityJson(loaded: LoadedItems, a: ItemAnalysis, seed: number): Record<string, unknown> {
   return {
-    analysis: 'reliability',
-    engineVersion: a.engineVersion,
-    data: { file: loaded.file, sha256: loaded.sha256, rows: loaded.rows },
-    inputs: {
-      items: loaded.names,
-      reverse: loaded.reverse,
-      bounds: loaded.bounds,
-      missing: loaded.missing,
-      missingCodes: loaded.missingCodes,
+    ...statsHead('reliability', loaded, {
+      ...itemInputs(loaded),
       ciLevel: a.inputs.ciLevel,
       bootstrap: a.inputs.bootstrap?.resamples ?? null,
-    },
+    }),
     n: a.n,
     k: a.k,
     missing: a.missingData,
