@@ -228,7 +228,8 @@ interface Respondent {
   id?: string;
 }
 
-function poisson(rng: Rng, mean: number): number {
+/** A Poisson draw by Knuth's product of uniforms (small means only; demo data). */
+export function poisson(rng: Rng, mean: number): number {
   const limit = Math.exp(-mean);
   let k = 0;
   let p = rng.next();

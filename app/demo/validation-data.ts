@@ -1,5 +1,5 @@
 import { cholesky } from '../engine/linalg.ts';
-import { createRng, type Rng } from '../engine/rng.ts';
+import { createRng } from '../engine/rng.ts';
 import type { ColumnMapping } from '../import/mapping.ts';
 import {
   DEMO_COLUMNS,
@@ -10,6 +10,7 @@ import {
   DEMO_MISSING_CODE,
   DEMO_PILOT_SEED,
   demoAnswer,
+  poisson,
 } from './pilot.ts';
 
 /** The validation wave: a new sample of the demo population, drawn with its own seed. */
@@ -36,17 +37,6 @@ export const DEMO_TRIPS_LATER = { column: 'trips_next_4wk', reliability: 0.7 } a
 
 const MISSING_SHARE = 0.003;
 const DIARY_NOT_RETURNED = 0.12;
-
-function poisson(rng: Rng, mean: number): number {
-  const limit = Math.exp(-mean);
-  let k = 0;
-  let p = rng.next();
-  while (p > limit) {
-    k++;
-    p *= rng.next();
-  }
-  return k;
-}
 
 /** Standard deviation of the mean of the four facet factors under their correlations. */
 export function generalSd(): number {

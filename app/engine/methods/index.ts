@@ -73,16 +73,16 @@ function authorList(authors: string[]): string {
   return `${authors.slice(0, -1).join(', ')}, & ${authors[authors.length - 1]}`;
 }
 
+/** Who an in-text citation names: "Cronbach", "Polit & Beck", "Polit et al."; an organization by its name. */
+export function citedAuthors(ref: Reference): string {
+  const surnames = ref.authors.map((a) => a.split(',')[0].trim());
+  if (surnames.length === 1) return surnames[0];
+  return surnames.length === 2 ? `${surnames[0]} & ${surnames[1]}` : `${surnames[0]} et al.`;
+}
+
 /** Short in-text citation: "Cronbach (1951)", "Polit & Beck (2006)", "Polit et al. (2007)". */
 export function citation(ref: Reference): string {
-  const surnames = ref.authors.map((a) => a.split(',')[0].trim());
-  const who =
-    surnames.length === 1
-      ? surnames[0]
-      : surnames.length === 2
-        ? `${surnames[0]} & ${surnames[1]}`
-        : `${surnames[0]} et al.`;
-  return `${who} (${ref.year})`;
+  return `${citedAuthors(ref)} (${ref.year})`;
 }
 
 /** The `methods` field of an analysis's JSON: each id with its references in the one style. */

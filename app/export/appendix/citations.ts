@@ -1,4 +1,4 @@
-import { formatReference, methodEntry, type Reference } from '../../engine/methods/index.ts';
+import { citedAuthors, formatReference, methodEntry, type Reference } from '../../engine/methods/index.ts';
 import type { Inline } from './model.ts';
 
 /**
@@ -33,15 +33,14 @@ export class Citations {
 
   /**
    * Every reference behind the cited ids, once, sorted by first author and year. The same publication
-   * under two entries counts once, in its checked form when one copy was not recalled from memory.
+   * under two entries counts once (the registry gives each publication one form wherever it is cited).
    */
   references(): Reference[] {
     const byWork = new Map<string, Reference>();
     for (const id of this.used) {
       for (const ref of methodEntry(id).references) {
         const key = `${ref.authors.join(';')}|${ref.year}|${ref.title.toLowerCase()}`;
-        const seen = byWork.get(key);
-        if (!seen || (seen.fromMemory && !ref.fromMemory)) byWork.set(key, ref);
+        if (!byWork.has(key)) byWork.set(key, ref);
       }
     }
     return [...byWork.values()]
@@ -53,14 +52,7 @@ export class Citations {
 
 /** "Cronbach, 1951", "Polit & Beck, 2006", "Polit et al., 2007"; an organization by its name. */
 export function shortCitation(ref: Reference): string {
-  const surnames = ref.authors.map((a) => a.split(',')[0].trim());
-  const who =
-    surnames.length === 1
-      ? surnames[0]
-      : surnames.length === 2
-        ? `${surnames[0]} & ${surnames[1]}`
-        : `${surnames[0]} et al.`;
-  return `${who}, ${ref.year}`;
+  return `${citedAuthors(ref)}, ${ref.year}`;
 }
 
 /**
