@@ -1,4 +1,5 @@
 import { EngineError } from './errors.ts';
+import { Arena } from './kernels/index.ts';
 import { kahanSum, mean } from './numeric.ts';
 
 /**
@@ -113,195 +114,8 @@ export function listwiseCovariance(columns: Columns): ListwiseMoments {
   return { n, rows: Int32Array.from(keep), means, covariance };
 }
 
-/** Rows per block of the pairwise pass: p such column pieces stay in cache while every pair is summed. */
+/** Rows per block of the pairwise pass: p such row pieces stay in cache while every pair is summed. */
 const PAIRWISE_BLOCK_ROWS = 512;
-
-/**
- * Adds to cross[j·p + k] (k ≤ j) the sum over r < rows of block[j·B + r]·block[k·B + r]: the
- * cross-products of one block of rows. Two columns j against four columns k at a time, so that each
- * loaded value serves several products (six loads for eight multiply–adds); every pair's terms are still
- * summed in row order into a sum of their own, so the result does not depend on the blocking.
- * Cost O(rows·p²/2).
- */
-function blockCrossProducts(
-  block: Float64Array,
-  B: number,
-  rows: number,
-  p: number,
-  cross: Float64Array,
-): void {
-  const single = (j: number, k: number) => {
-    const a = j * B;
-    const b = k * B;
-    let s = 0;
-    for (let r = 0; r < rows; r++) s += block[a + r] * block[b + r];
-    cross[j * p + k] += s;
-  };
-  let j = 0;
-  for (; j + 1 < p; j += 2) {
-    const a0 = j * B;
-    const a1 = a0 + B;
-    const base0 = j * p;
-    const base1 = base0 + p;
-    let k = 0;
-    for (; k + 3 <= j; k += 4) {
-      const b0 = k * B;
-      const b1 = b0 + B;
-      const b2 = b1 + B;
-      const b3 = b2 + B;
-      let s00 = 0;
-      let s01 = 0;
-      let s02 = 0;
-      let s03 = 0;
-      let s10 = 0;
-      let s11 = 0;
-      let s12 = 0;
-      let s13 = 0;
-      for (let r = 0; r < rows; r++) {
-        const x0 = block[a0 + r];
-        const x1 = block[a1 + r];
-        const y0 = block[b0 + r];
-        const y1 = block[b1 + r];
-        const y2 = block[b2 + r];
-        const y3 = block[b3 + r];
-        s00 += x0 * y0;
-        s01 += x0 * y1;
-        s02 += x0 * y2;
-        s03 += x0 * y3;
-        s10 += x1 * y0;
-        s11 += x1 * y1;
-        s12 += x1 * y2;
-        s13 += x1 * y3;
-      }
-      cross[base0 + k] += s00;
-      cross[base0 + k + 1] += s01;
-      cross[base0 + k + 2] += s02;
-      cross[base0 + k + 3] += s03;
-      cross[base1 + k] += s10;
-      cross[base1 + k + 1] += s11;
-      cross[base1 + k + 2] += s12;
-      cross[base1 + k + 3] += s13;
-    }
-    for (; k <= j; k++) {
-      single(j, k);
-      single(j + 1, k);
-    }
-    single(j + 1, j + 1);
-  }
-  if (j < p) for (let k = 0; k <= j; k++) single(j, k);
-}
-
-/**
- * The first pass of pairwiseMoments over one column: its present count, the mean of its present
- * values (the shift), its first present value and how often that value occurs; checks finiteness.
- * A function of its own so that the engine compiles it once for every column. Cost O(n).
- */
-function scanColumn(
-  column: Float64Array,
-  j: number,
-  fn: string,
-  shift: Float64Array,
-  present: Float64Array,
-  first: Float64Array,
-  atFirst: Float64Array,
-): void {
-  const n = column.length;
-  let s = 0;
-  let c = 0;
-  let f = Number.NaN;
-  let same = 0;
-  for (let i = 0; i < n; i++) {
-    const v = column[i];
-    if (!Number.isNaN(v)) {
-      if (v - v !== 0) checkFinite(v, fn, i, j);
-      if (c === 0) f = v;
-      if (v === f) same++;
-      s += v;
-      c++;
-    }
-  }
-  shift[j] = c > 0 ? s / c : 0;
-  present[j] = c;
-  first[j] = f;
-  atFirst[j] = same;
-}
-
-/**
- * Copies rows [start, start + rows) of column j into its piece of the block, shifted (a missing value
- * as 0, marked in `gap` and listed in `missingAt`), and adds the piece's Σ d and Σ d² to the column's
- * totals. Returns the block's count of missing cells so far. Cost O(rows).
- */
-function fillBlock(
-  column: Float64Array,
-  j: number,
-  start: number,
-  rows: number,
-  B: number,
-  shift: Float64Array,
-  total: Float64Array,
-  squares: Float64Array,
-  block: Float64Array,
-  gap: Uint8Array,
-  missingAt: Int32Array,
-  missingSoFar: number,
-): number {
-  const s = shift[j];
-  const offset = j * B;
-  let missing = missingSoFar;
-  let t = 0;
-  let q = 0;
-  for (let r = 0; r < rows; r++) {
-    const v = column[start + r];
-    if (!Number.isNaN(v)) {
-      const d = v - s;
-      block[offset + r] = d;
-      gap[offset + r] = 0;
-      t += d;
-      q += d * d;
-    } else {
-      block[offset + r] = 0;
-      gap[offset + r] = 1;
-      missingAt[2 * missing] = r;
-      missingAt[2 * missing + 1] = j;
-      missing++;
-    }
-  }
-  total[j] += t;
-  squares[j] += q;
-  return missing;
-}
-
-/**
- * For each missing cell (row r, column k) of the block: every other column's value in that row is
- * not shared with k, so it goes to lostSum and lostSquares at (j, k), or, missing too, to bothMissing.
- * Cost O(missing · p).
- */
-function correctForMissing(
-  missingAt: Int32Array,
-  missing: number,
-  block: Float64Array,
-  gap: Uint8Array,
-  B: number,
-  p: number,
-  lostSum: Float64Array,
-  lostSquares: Float64Array,
-  bothMissing: Float64Array,
-): void {
-  for (let m = 0; m < missing; m++) {
-    const r = missingAt[2 * m];
-    const k = missingAt[2 * m + 1];
-    for (let j = 0; j < p; j++) {
-      const at = j * p + k;
-      if (gap[j * B + r] === 1) {
-        bothMissing[at]++;
-      } else {
-        const d = block[j * B + r];
-        lostSum[at] += d;
-        lostSquares[at] += d * d;
-      }
-    }
-  }
-}
 
 /**
  * Pairwise-deletion moments from the missing masks: each value is shifted by its column's mean over
@@ -325,48 +139,71 @@ function correctForMissing(
 export function pairwiseMoments(columns: Columns): PairwiseMoments {
   const fn = 'pairwise correlation';
   const { n, p } = checkColumns(columns, fn, true);
-  const shift = new Float64Array(p);
+  // The block holds rows of P values (p rounded up to the kernel's eight lanes, the rest zero).
+  const P = Math.ceil(p / 8) * 8;
+  const B = PAIRWISE_BLOCK_ROWS;
+  const arena = new Arena();
+  const at = {
+    cols: arena.f64(n * p, true),
+    scan: arena.f64(4),
+    shift: arena.f64(p),
+    // total[j]/squares[j]: Σ dⱼ and Σ dⱼ² over every present case of j. lostSum[j·p + k],
+    // lostSquares[j·p + k]: the same over the cases where k is missing (and j present); bothMissing
+    // counts the rows where both are missing. cross[j·P + k] (k ≤ j): Σ dⱼdₖ over the shared cases.
+    total: arena.f64(p),
+    squares: arena.f64(p),
+    lostSum: arena.f64(p * p),
+    lostSquares: arena.f64(p * p),
+    bothMissing: arena.f64(p * p),
+    cross: arena.f64(P * P),
+    block: arena.f64(P * B),
+    gap: arena.u8(P * B),
+    // Block row and column of each missing cell of the block.
+    missingAt: arena.i32(2 * p * B),
+  };
+  const memory = arena.ready();
+  const { scanColumn, pairwiseBlock } = arena.k;
+  const data = new Float64Array(memory, at.cols, n * p);
+  const scan = new Float64Array(memory, at.scan, 4);
+  const shift = new Float64Array(memory, at.shift, p);
   const present = new Float64Array(p);
   const first = new Float64Array(p);
   const atFirst = new Float64Array(p);
-  for (let j = 0; j < p; j++) scanColumn(columns[j], j, fn, shift, present, first, atFirst);
-  const size = p * p;
-  // total[j]/squares[j]: Σ dⱼ and Σ dⱼ² over every present case of j. lostSum[j·p + k],
-  // lostSquares[j·p + k]: the same over the cases where k is missing (and j present); bothMissing
-  // counts the rows where both are missing. cross[j·p + k] (k ≤ j): Σ dⱼdₖ over the shared cases.
-  const total = new Float64Array(p);
-  const squares = new Float64Array(p);
-  const lostSum = new Float64Array(size);
-  const lostSquares = new Float64Array(size);
-  const bothMissing = new Float64Array(size);
-  const cross = new Float64Array(size);
-  const B = PAIRWISE_BLOCK_ROWS;
-  const block = new Float64Array(p * B);
-  const gap = new Uint8Array(p * B);
-  // missingAt[2m], missingAt[2m + 1]: block row and column of the block's m-th missing cell.
-  const missingAt = new Int32Array(2 * p * B);
+  for (let j = 0; j < p; j++) {
+    data.set(columns[j], j * n);
+    const infinite = scanColumn(at.cols + j * n * 8, n, at.scan);
+    if (infinite >= 0) checkFinite(columns[j][infinite], fn, infinite, j);
+    [shift[j], present[j], first[j], atFirst[j]] = scan;
+  }
   for (let start = 0; start < n; start += B) {
     const rows = Math.min(B, n - start);
-    let missing = 0;
-    for (let j = 0; j < p; j++) {
-      missing = fillBlock(
-        columns[j],
-        j,
-        start,
-        rows,
-        B,
-        shift,
-        total,
-        squares,
-        block,
-        gap,
-        missingAt,
-        missing,
-      );
-    }
-    blockCrossProducts(block, B, rows, p, cross);
-    correctForMissing(missingAt, missing, block, gap, B, p, lostSum, lostSquares, bothMissing);
+    pairwiseBlock(
+      at.cols,
+      n,
+      p,
+      P,
+      start,
+      rows,
+      at.shift,
+      at.total,
+      at.squares,
+      at.block,
+      at.gap,
+      at.missingAt,
+      at.cross,
+      at.lostSum,
+      at.lostSquares,
+      at.bothMissing,
+    );
   }
+  const total = Float64Array.from(new Float64Array(memory, at.total, p));
+  const squares = Float64Array.from(new Float64Array(memory, at.squares, p));
+  const lostSum = Float64Array.from(new Float64Array(memory, at.lostSum, p * p));
+  const lostSquares = Float64Array.from(new Float64Array(memory, at.lostSquares, p * p));
+  const bothMissing = Float64Array.from(new Float64Array(memory, at.bothMissing, p * p));
+  const crossP = new Float64Array(memory, at.cross, P * P);
+  const cross = new Float64Array(p * p);
+  for (let j = 0; j < p; j++) cross.set(crossP.subarray(j * P, j * P + p), j * p);
   const square = <T>(fill: T) => Array.from({ length: p }, () => new Array<T>(p).fill(fill));
   const counts = square(0);
   const covariance = square(Number.NaN);

@@ -1,7 +1,8 @@
 import { EngineError } from './errors.ts';
 import { clampCorrelation, pairwiseMoments } from './covariance.ts';
 import { covarianceMatrix } from './linalg.ts';
-import { EPSILON, mean, meanAndVariance } from './numeric.ts';
+import { Arena } from './kernels/index.ts';
+import { EPSILON, mean } from './numeric.ts';
 import { itemColumns, type Responses, respondentCount, responseRows } from './responses.ts';
 import type { ResponseMatrix, ScaleBounds } from './scoring.ts';
 
@@ -51,55 +52,78 @@ export function itemDescriptives(names: string[], data: Responses, bounds?: Scal
   return descriptivesOfColumns(names, itemColumns(names, data), bounds);
 }
 
-/** The present (non-NaN) values of a column, in row order. */
-function presentValues(column: Float64Array): Float64Array {
-  let count = 0;
-  for (let i = 0; i < column.length; i++) if (!Number.isNaN(column[i])) count++;
-  if (count === column.length) return column;
-  const values = new Float64Array(count);
-  let at = 0;
-  for (let i = 0; i < column.length; i++) {
-    const v = column[i];
-    if (!Number.isNaN(v)) values[at++] = v;
-  }
-  return values;
-}
-
-/** One column's answered values (in row order) with their mean and variance, as meanAndVariance gives them. */
+/** One column's answered values: how many, their mean and variance, and their central moments. */
 export interface ColumnSummary {
-  values: Float64Array;
+  n: number;
   mean: number;
+  /** Variance with divisor n − 1. */
   variance: number;
+  /** Second, third and fourth central moments, divisor n. */
+  m2: number;
+  m3: number;
+  m4: number;
 }
 
 /**
- * The second, third and fourth central moments (divisor n) about m, each a compensated sum as
- * kahanSum gives it, the three summed together in one pass.
+ * Summaries of columns (NaN for a missing answer) by the describeColumn kernel: over each column's
+ * answered values in row order, the mean and variance as meanAndVariance computes them and the
+ * central moments, every sum compensated. With `bounds`, also how many answers lie at each bound
+ * (within BOUND_TOLERANCE). Cost O(n·k).
+ * Throws EngineError, through `tooFew`, for a column with fewer than two answered values, and for a
+ * value that is not finite.
  */
-function centralMoments(values: Float64Array, m: number): { m2: number; m3: number; m4: number } {
-  const n = values.length;
-  let s2 = 0;
-  let c2 = 0;
-  let s3 = 0;
-  let c3 = 0;
-  let s4 = 0;
-  let c4 = 0;
-  for (let i = 0; i < n; i++) {
-    const d = values[i] - m;
-    const d2 = d * d;
-    const d3 = d2 * d;
-    const d4 = d2 * d2;
-    const t2 = s2 + d2;
-    c2 += Math.abs(s2) >= Math.abs(d2) ? s2 - t2 + d2 : d2 - t2 + s2;
-    s2 = t2;
-    const t3 = s3 + d3;
-    c3 += Math.abs(s3) >= Math.abs(d3) ? s3 - t3 + d3 : d3 - t3 + s3;
-    s3 = t3;
-    const t4 = s4 + d4;
-    c4 += Math.abs(s4) >= Math.abs(d4) ? s4 - t4 + d4 : d4 - t4 + s4;
-    s4 = t4;
+export function summarizeColumns(
+  columns: readonly Float64Array[],
+  tooFew: (column: number, answered: number) => EngineError,
+  bounds?: ScaleBounds,
+): { summaries: ColumnSummary[]; atFloor: number[]; atCeiling: number[] } {
+  const n = columns[0]?.length ?? 0;
+  const arena = new Arena();
+  const col = arena.f64(n, true);
+  const scratch = arena.f64(n, true);
+  const out = arena.f64(7, true);
+  const memory = arena.ready();
+  const { describeColumn, countNear } = arena.k;
+  const column = new Float64Array(memory, col, n);
+  const result = new Float64Array(memory, out, 7);
+  const summaries: ColumnSummary[] = [];
+  const atFloor: number[] = [];
+  const atCeiling: number[] = [];
+  columns.forEach((values, c) => {
+    column.set(values);
+    const status = describeColumn(col, n, scratch, out);
+    if (status === -2) throw tooFew(c, result[0]);
+    if (status >= 0) {
+      throw new EngineError(`mean requires finite numbers; the value at index ${status} is ${result[6]}`);
+    }
+    const [count, mean, variance, m2, m3, m4] = result;
+    summaries.push({ n: count, mean, variance, m2, m3, m4 });
+    if (bounds) {
+      atFloor.push(countNear(col, n, bounds.min, BOUND_TOLERANCE));
+      atCeiling.push(countNear(col, n, bounds.max, BOUND_TOLERANCE));
+    }
+  });
+  return { summaries, atFloor, atCeiling };
+}
+
+/** How many answers of each column lie at the declared minimum and maximum (within BOUND_TOLERANCE). */
+function countsAtBounds(
+  columns: readonly Float64Array[],
+  bounds: ScaleBounds,
+): { atFloor: number[]; atCeiling: number[] } {
+  const n = columns[0]?.length ?? 0;
+  const arena = new Arena();
+  const col = arena.f64(n, true);
+  const column = new Float64Array(arena.ready(), col, n);
+  const { countNear } = arena.k;
+  const atFloor: number[] = [];
+  const atCeiling: number[] = [];
+  for (const values of columns) {
+    column.set(values);
+    atFloor.push(countNear(col, n, bounds.min, BOUND_TOLERANCE));
+    atCeiling.push(countNear(col, n, bounds.max, BOUND_TOLERANCE));
   }
-  return { m2: (s2 + c2) / n, m3: (s3 + c3) / n, m4: (s4 + c4) / n };
+  return { atFloor, atCeiling };
 }
 
 /**
@@ -114,36 +138,21 @@ export function descriptivesOfColumns(
   bounds?: ScaleBounds,
   summaries?: readonly ColumnSummary[],
 ): ItemDescriptives[] {
+  const tooFew = (c: number, n: number) =>
+    new EngineError(`item "${names[c]}" has ${n} answered value(s); item statistics require at least two`);
+  const described = summarizeColumns(summaries ? [] : columns, tooFew, bounds);
+  const counted = summaries && bounds ? countsAtBounds(columns, bounds) : described;
   return names.map((name, c) => {
-    const given = summaries?.[c];
-    const values = given?.values ?? presentValues(columns[c]);
-    const n = values.length;
+    const { n, mean: m, variance: v, m2, m3, m4 } = summaries?.[c] ?? described.summaries[c];
     const missing = columns[c].length - n;
-    if (n < 2) {
-      throw new EngineError(
-        `item "${name}" has ${n} answered value(s); item statistics require at least two`,
-      );
-    }
-    const { mean: m, variance: v } = given ?? meanAndVariance(values);
+    if (n < 2) throw tooFew(c, n);
     const sd = Math.sqrt(v);
-    const { m2, m3, m4 } = centralMoments(values, m);
     const varies = sd > ZERO_VARIANCE;
     const skewness = varies && n >= 3 ? ((Math.sqrt(n * (n - 1)) / (n - 2)) * m3) / m2 ** 1.5 : null;
     const kurtosis =
       varies && n >= 4 ? ((n - 1) / ((n - 2) * (n - 3))) * ((n + 1) * (m4 / (m2 * m2) - 3) + 6) : null;
-    let floorShare: number | null = null;
-    let ceilingShare: number | null = null;
-    if (bounds) {
-      let atFloor = 0;
-      let atCeiling = 0;
-      for (let i = 0; i < n; i++) {
-        const x = values[i];
-        if (Math.abs(x - bounds.min) <= BOUND_TOLERANCE) atFloor++;
-        if (Math.abs(x - bounds.max) <= BOUND_TOLERANCE) atCeiling++;
-      }
-      floorShare = atFloor / n;
-      ceilingShare = atCeiling / n;
-    }
+    const floorShare = bounds ? counted.atFloor[c] / n : null;
+    const ceilingShare = bounds ? counted.atCeiling[c] / n : null;
     return { name, n, missing, mean: m, sd, skewness, kurtosis, floorShare, ceilingShare };
   });
 }
@@ -172,7 +181,7 @@ export interface ItemMoments {
   missingAll: number[];
   /** The analysed rows as one column per item, NaN for a missing answer. */
   columns: Float64Array[];
-  /** Pairwise: each column's answered values with the mean and variance its SD came from. */
+  /** Pairwise: each column's answered values summarized (the mean and variance its SD came from). */
   summaries?: ColumnSummary[];
   means: number[];
   sds: number[];
@@ -264,15 +273,9 @@ export function itemMoments(names: string[], data: Responses, method: MissingMet
       minPairN: n,
     };
   }
-  const answered = columns.map((column) => presentValues(column));
-  answered.forEach((values, c) => {
-    if (values.length < 2) {
-      throw new EngineError(
-        `item "${names[c]}" has ${values.length} answered value(s); at least two are required`,
-      );
-    }
-  });
-  const summaries = answered.map((values): ColumnSummary => ({ values, ...meanAndVariance(values) }));
+  const tooFew = (c: number, answered: number) =>
+    new EngineError(`item "${names[c]}" has ${answered} answered value(s); at least two are required`);
+  const { summaries } = summarizeColumns(columns, tooFew);
   const means = summaries.map((s) => s.mean);
   const sds = summaries.map((s) => Math.sqrt(s.variance));
   const varies = sds.map((s) => s > ZERO_VARIANCE);

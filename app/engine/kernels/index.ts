@@ -1,0 +1,106 @@
+import { KERNELS_WASM_BASE64 } from './binary.ts';
+
+/**
+ * The engine's compiled kernels (assembly/index.ts, built by build.mjs into binary.ts): the inner
+ * loops of the pairwise moments and of the column descriptives, as WebAssembly. Each kernel performs
+ * the same double-precision operations in the same order as the TypeScript it replaced, so its results
+ * are the same to the last bit; it runs compiled from its first call instead of waiting for the
+ * JavaScript engine to warm up, and sums two products per instruction where the order allows it.
+ *
+ * One instance per thread, made on first use. Callers lay out their arrays in its memory with an
+ * Arena, copy their inputs in, call the kernels, and copy the results out before the next call.
+ */
+export interface KernelExports {
+  memory: WebAssembly.Memory;
+  heapBase(): number;
+  scanColumn(col: number, n: number, out: number): number;
+  pairwiseBlock(
+    cols: number,
+    n: number,
+    p: number,
+    P: number,
+    start: number,
+    rows: number,
+    shift: number,
+    total: number,
+    squares: number,
+    block: number,
+    gap: number,
+    missingAt: number,
+    cross: number,
+    lostSum: number,
+    lostSquares: number,
+    bothMissing: number,
+  ): void;
+  describeColumn(col: number, n: number, scratch: number, out: number): number;
+  countNear(col: number, n: number, value: number, tolerance: number): number;
+  symmetricEigen(n: number, v: number, d: number, e: number): void;
+  luFactor(n: number, lu: number, pivot: number, column: number): void;
+  luSolve(n: number, m: number, lu: number, x: number): void;
+}
+
+let instance: KernelExports | undefined;
+
+/** The kernels of this thread, compiled and instantiated on first use. */
+export function kernels(): KernelExports {
+  if (instance === undefined) {
+    const text = atob(KERNELS_WASM_BASE64);
+    const bytes = new Uint8Array(text.length);
+    for (let i = 0; i < text.length; i++) bytes[i] = text.charCodeAt(i);
+    instance = new WebAssembly.Instance(new WebAssembly.Module(bytes)).exports as unknown as KernelExports;
+  }
+  return instance;
+}
+
+const WASM_PAGE = 65_536;
+
+/**
+ * Places arrays in the kernels' memory one after another (each on a 16-byte boundary), from the end
+ * of the module's own data; `ready` grows the memory to hold them. Every Arena starts at the same
+ * place: one layout is in use at a time (the kernels run synchronously and do not call back).
+ */
+export class Arena {
+  readonly k = kernels();
+  private top: number;
+
+  constructor() {
+    this.top = align(this.k.heapBase());
+  }
+
+  private readonly zeroed: [number, number][] = [];
+
+  /** Room for `count` doubles, zero unless `filled` (the caller writes every one); the byte offset. */
+  f64(count: number, filled = false): number {
+    return this.take(count * 8, filled);
+  }
+
+  /** Room for `count` bytes, zero; returns the byte offset. */
+  u8(count: number): number {
+    return this.take(count, false);
+  }
+
+  /** Room for `count` 32-bit integers, zero; returns the byte offset. */
+  i32(count: number): number {
+    return this.take(count * 4, false);
+  }
+
+  /** Grows the memory to hold everything placed, zeroes what must start at zero, returns the buffer. */
+  ready(): ArrayBuffer {
+    const { memory } = this.k;
+    const short = this.top - memory.buffer.byteLength;
+    if (short > 0) memory.grow(Math.ceil(short / WASM_PAGE));
+    for (const [at, bytes] of this.zeroed) new Uint8Array(memory.buffer, at, bytes).fill(0);
+    return memory.buffer;
+  }
+
+  private take(bytes: number, filled: boolean): number {
+    const at = this.top;
+    this.top = align(at + bytes);
+    if (!filled) this.zeroed.push([at, this.top - at]);
+    return at;
+  }
+}
+
+function align(offset: number): number {
+  return Math.ceil(offset / 16) * 16;
+}
