@@ -14,6 +14,7 @@ import {
 } from './numbers.ts';
 import { DECIMAL_MARK_ROWS } from './limits.ts';
 import type { ParsedTable } from './parse-table.ts';
+import type { GatheredDigits } from './plain-records.ts';
 import { TableError } from './table-error.ts';
 
 export type {
@@ -87,9 +88,9 @@ interface NumericSlot {
  * w entries from digits[i · w]: the field's value when it is a single digit, FIELD_EMPTY when it has
  * no bytes at all, else FIELD_OTHER.
  */
-/** FieldRows.digits of a field that has no bytes at all (a missing value). */
+/** FieldRows.digits of a field that has no bytes at all (a missing value); the splitLines kernel's value. */
 export const FIELD_EMPTY = -2;
-/** FieldRows.digits of a field that is neither a single digit nor empty. */
+/** FieldRows.digits of a field that is neither a single digit nor empty; the splitLines kernel's value. */
 export const FIELD_OTHER = -1;
 
 export interface FieldRows {
@@ -101,6 +102,12 @@ export interface FieldRows {
   digits: Int8Array;
   /** The bytes from `from` up to `to` (exclusive) as text. */
   text(from: number, to: number): string;
+  /**
+   * The records' single digits in the given header columns (at most the header's width), read by a
+   * compiled kernel: digit d is table[d] where known[d] is 1, an empty field NaN, every other cell
+   * listed for the caller (see PlainRecords.gather). Only while the call that was given the rows runs.
+   */
+  gather?(columns: readonly number[], table: Float64Array, known: Uint8Array): GatheredDigits;
 }
 
 /**

@@ -8,12 +8,11 @@ import {
   DatasetAssembler,
   type DatasetOptions,
   type EncodedDataset,
-  FIELD_EMPTY,
-  FIELD_OTHER,
   type FieldRows,
   numericColumns,
 } from './dataset.ts';
 import { sniffRecords } from './detect-format.ts';
+import { PlainRecords } from './plain-records.ts';
 import { DEFAULT_MAX_BYTES, MAX_LISTED_ROWS, SNIFF_BYTES } from './limits.ts';
 import type { ColumnMapping } from './mapping.ts';
 import {
@@ -153,14 +152,8 @@ const CARRIAGE_RETURN = 0x0d;
 const DOUBLE_QUOTE = 0x22;
 const SINGLE_QUOTE = 0x27;
 const UTF8_BOM = [0xef, 0xbb, 0xbf];
-const DIGIT_ZERO = 0x30;
-const DIGIT_NINE = 0x39;
 /** First byte that is not ASCII. */
 const NON_ASCII = 0x80;
-
-/** The ASCII bytes String.prototype.trim removes, apart from line breaks: tab, VT, FF and space. */
-const TRIMMED_BYTES = new Uint8Array(256);
-for (const b of [0x09, 0x0b, 0x0c, 0x20]) TRIMMED_BYTES[b] = 1;
 
 function asBuffer(bytes: Uint8Array): Buffer {
   return Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength);
@@ -202,57 +195,6 @@ function joinBytes(tail: Uint8Array, chunk: Uint8Array): Uint8Array {
  * cells in about half the time that a whole 256 KiB piece, some 2,000 records, took).
  */
 const FIELD_ROWS_BATCH = 256;
-
-/**
- * Splits the plain line bytes[at, end) at the delimiter into record `row` of `starts` and `digits`
- * (see FieldRows): a field that is one digit followed by the delimiter or the line end is taken in one
- * step, any other field byte by byte. Returns the number of fields, negated when all are blank.
- * Cost O(end − at).
- */
-function splitLine(
-  bytes: Uint8Array,
-  at: number,
-  end: number,
-  delimiter: number,
-  width: number,
-  row: number,
-  starts: Int32Array,
-  digits: Int8Array,
-): number {
-  const base = row * (width + 1);
-  const digitBase = row * width;
-  let p = at;
-  let fields = 0;
-  let content = false;
-  for (;;) {
-    if (fields <= width) starts[base + fields] = p;
-    let q = p;
-    const b = bytes[p];
-    if (
-      p < end &&
-      b >= DIGIT_ZERO &&
-      b <= DIGIT_NINE &&
-      b !== delimiter &&
-      (p + 1 === end || bytes[p + 1] === delimiter)
-    ) {
-      if (fields < width) digits[digitBase + fields] = b - DIGIT_ZERO;
-      content = true;
-      q = p + 1;
-    } else {
-      for (; q < end; q++) {
-        const c = bytes[q];
-        if (c === delimiter) break;
-        if (!content && TRIMMED_BYTES[c] === 0) content = true;
-      }
-      if (fields < width) digits[digitBase + fields] = q === p ? FIELD_EMPTY : FIELD_OTHER;
-    }
-    fields++;
-    if (q >= end) break;
-    p = q + 1;
-  }
-  if (fields === width) starts[base + width] = end + 1;
-  return content ? fields : -fields;
-}
 
 function isBlankFields(fields: readonly string[]): boolean {
   return fields.length === 1 ? fields[0].trim() === '' : fields.every((f) => f.trim() === '');
@@ -433,9 +375,8 @@ export async function streamRecords<S extends RecordSink>(
       });
     });
 
-  /** Field offsets and single digits of up to FIELD_ROWS_BATCH records (see FieldRows), reused. */
-  let starts = new Int32Array(0);
-  let digits = new Int8Array(0);
+  /** The field table of up to FIELD_ROWS_BATCH records (see FieldRows), made when the header is read. */
+  let table: PlainRecords | undefined;
   /**
    * Splits the lines of a piece of plain text (see isPlainText) as papaparse would: each line feed
    * ends a record, each delimiter a field. The unfinished last line counts only when `final`. Data
@@ -446,56 +387,67 @@ export async function streamRecords<S extends RecordSink>(
     let rowNumbers: number[] = [];
     let n = 0;
     const flush = () => {
-      if (n === 0) return;
+      if (n === 0 || !table) return;
       assembler?.addFieldRows({
         n,
         rowNumbers,
-        starts,
-        digits,
+        starts: table.starts,
+        digits: table.digits,
         text: (from, to) => bytes.toString('latin1', from, to),
+        gather: table.gather.bind(table, n),
       });
       n = 0;
       rowNumbers = [];
     };
     let at = 0;
-    while (at < bytes.length) {
+    while (at < bytes.length && !header) {
       let end = bytes.indexOf(LINE_FEED, at);
       if (end < 0) {
         if (!final) break;
         end = bytes.length;
       }
       record++;
-      if (!header) {
-        const fields = bytes.toString('latin1', at, end).split(format.delimiter);
-        if (isBlankFields(fields)) leadingBlank++;
-        else startTable(fields, record);
-        at = end + 1;
-        continue;
-      }
-      const width = header.length;
-      if (digits.length !== FIELD_ROWS_BATCH * width) {
-        starts = new Int32Array(FIELD_ROWS_BATCH * (width + 1));
-        digits = new Int8Array(FIELD_ROWS_BATCH * width);
-      }
-      const split = splitLine(bytes, at, end, delimiter, width, n, starts, digits);
-      if (split < 0) {
-        pendingBlank.push(record);
-        at = end + 1;
-        continue;
-      }
-      if (pendingBlank.length > 0) {
+      const fields = bytes.toString('latin1', at, end).split(format.delimiter);
+      if (isBlankFields(fields)) leadingBlank++;
+      else startTable(fields, record);
+      at = end + 1;
+    }
+    if (!header || at >= bytes.length) return Math.min(at, bytes.length);
+    const width = header.length;
+    table ??= new PlainRecords(width, FIELD_ROWS_BATCH);
+    table.load(bytes);
+    for (;;) {
+      const split = table.split(at, final, delimiter, n);
+      if (split.count > 0 && pendingBlank.length > 0) {
         blankInside.push(...pendingBlank);
         pendingBlank = [];
       }
-      if (split !== width) {
-        // Throws unless the fields beyond the header are empty; those are then left out.
-        fitRecord(bytes.toString('latin1', at, end).split(format.delimiter), header, record);
-        if (split > rawWidth) trimmed++;
+      for (let r = 0; r < split.count; r++) rowNumbers.push(++record);
+      n += split.count;
+      at = split.at;
+      if (n === FIELD_ROWS_BATCH) {
+        flush();
+        continue;
       }
-      rowNumbers.push(record);
-      n++;
-      if (n === FIELD_ROWS_BATCH) flush();
-      at = end + 1;
+      if (!split.stopped) break;
+      // A line that is not a plain data record: blank, or with more or fewer fields than the header.
+      record++;
+      const { fields, next } = split.stopped;
+      if (fields < 0) {
+        pendingBlank.push(record);
+      } else {
+        if (pendingBlank.length > 0) {
+          blankInside.push(...pendingBlank);
+          pendingBlank = [];
+        }
+        // Throws unless the fields beyond the header are empty; those are then left out.
+        fitRecord(bytes.toString('latin1', at, next - 1).split(format.delimiter), header, record);
+        if (fields > rawWidth) trimmed++;
+        rowNumbers.push(record);
+        n++;
+        if (n === FIELD_ROWS_BATCH) flush();
+      }
+      at = next;
     }
     flush();
     return Math.min(at, bytes.length);

@@ -11,6 +11,8 @@ import type { RecordSink } from '../../import/stream-dataset.ts';
 import type { ScaleBounds } from '../../engine/scoring.ts';
 import { DataError } from '../types.ts';
 
+const DIGIT_ZERO = 0x30;
+
 /** Distinct cell texts whose reading is remembered (bounds the memory on a file of measurements). */
 const DISTINCT_CELLS_KEPT = 10_000;
 
@@ -54,6 +56,9 @@ export class ItemColumnsSink implements RecordSink {
   /** One-character cells (a Likert answer) by character code; longer ones by text. */
   private readonly byCode: (Reading | undefined)[] = new Array(128);
   private readonly known = new Map<string, Reading>();
+  /** The readings of the ten digits handed to the field table's kernel: value, and whether known. */
+  private readonly table = new Float64Array(10);
+  private readonly knownDigits = new Uint8Array(10);
   private rounded: { where: string; cell: string; value: number } | undefined;
   private roundedCount = 0;
 
@@ -89,28 +94,46 @@ export class ItemColumnsSink implements RecordSink {
 
   addFieldRows(rows: FieldRows): void {
     const { columns, header } = this.rules;
-    const width = header.length;
-    for (let i = 0; i < rows.n; i++) {
-      const row = rows.rowNumbers[i];
-      const at = this.nextRow(row);
-      for (let j = 0; j < columns.length; j++) {
-        const c = columns[j];
-        const digit = rows.digits[i * width + c];
-        let value: number;
-        if (digit >= 0) {
-          const code = 0x30 + digit;
-          const got = this.byCode[code] ?? this.first(String.fromCharCode(code), row, c, code);
-          if (got.rounded) this.roundedCount++;
-          value = got.value ?? Number.NaN;
-        } else if (digit === FIELD_EMPTY) {
-          value = this.readText('', row, c);
-        } else {
-          const base = i * (width + 1);
-          value = this.readText(rows.text(rows.starts[base + c], rows.starts[base + c + 1] - 1), row, c);
-        }
-        this.values[j][at] = value;
+    if (rows.gather === undefined || columns.length > header.length) {
+      for (let i = 0; i < rows.n; i++) {
+        const at = this.nextRow(rows.rowNumbers[i]);
+        for (let j = 0; j < columns.length; j++) this.values[j][at] = this.fieldValue(rows, i, columns[j]);
       }
+      return;
     }
+    // The single digits whose reading is known go through the kernel; the rest, in file order, here.
+    for (let d = 0; d < 10; d++) {
+      const got = this.byCode[DIGIT_ZERO + d];
+      this.knownDigits[d] = got !== undefined && !got.rounded ? 1 : 0;
+      this.table[d] = got?.value ?? Number.NaN;
+    }
+    const { values, capacity, slow, listed } = rows.gather(columns, this.table, this.knownDigits);
+    const first = this.count;
+    for (let i = 0; i < rows.n; i++) this.nextRow(rows.rowNumbers[i]);
+    for (let j = 0; j < columns.length; j++) {
+      this.values[j].set(values.subarray(j * capacity, j * capacity + rows.n), first);
+    }
+    for (let s = 0; s < listed; s++) {
+      const i = slow[2 * s];
+      const j = slow[2 * s + 1];
+      this.values[j][first + i] = this.fieldValue(rows, i, columns[j]);
+    }
+  }
+
+  /** The value of record i's field in header column c (NaN = missing), read from the field table. */
+  private fieldValue(rows: FieldRows, i: number, c: number): number {
+    const width = this.rules.header.length;
+    const row = rows.rowNumbers[i];
+    const digit = rows.digits[i * width + c];
+    if (digit >= 0) {
+      const code = DIGIT_ZERO + digit;
+      const got = this.byCode[code] ?? this.first(String.fromCharCode(code), row, c, code);
+      if (got.rounded) this.roundedCount++;
+      return got.value ?? Number.NaN;
+    }
+    if (digit === FIELD_EMPTY) return this.readText('', row, c);
+    const base = i * (width + 1);
+    return this.readText(rows.text(rows.starts[base + c], rows.starts[base + c + 1] - 1), row, c);
   }
 
   /** The columns, one per item, and the file row of each respondent, once every record is in. */

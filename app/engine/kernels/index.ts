@@ -37,33 +37,66 @@ export interface KernelExports {
   symmetricEigen(n: number, v: number, d: number, e: number): void;
   luFactor(n: number, lu: number, pivot: number, column: number): void;
   luSolve(n: number, m: number, lu: number, x: number): void;
+  splitLines(
+    bytes: number,
+    from: number,
+    len: number,
+    final: boolean,
+    delimiter: number,
+    width: number,
+    slot: number,
+    capacity: number,
+    starts: number,
+    digits: number,
+    out: number,
+  ): number;
+  gatherDigits(
+    digits: number,
+    n: number,
+    width: number,
+    columns: number,
+    k: number,
+    table: number,
+    known: number,
+    capacity: number,
+    values: number,
+    slow: number,
+  ): number;
 }
 
-let instance: KernelExports | undefined;
+let compiled: WebAssembly.Module | undefined;
+let shared: KernelExports | undefined;
 
-/** The kernels of this thread, compiled and instantiated on first use. */
-export function kernels(): KernelExports {
-  if (instance === undefined) {
+/** A new instance of the kernels, with a memory of its own (the module is compiled once per thread). */
+export function ownKernels(): KernelExports {
+  if (compiled === undefined) {
     const text = atob(KERNELS_WASM_BASE64);
     const bytes = new Uint8Array(text.length);
     for (let i = 0; i < text.length; i++) bytes[i] = text.charCodeAt(i);
-    instance = new WebAssembly.Instance(new WebAssembly.Module(bytes)).exports as unknown as KernelExports;
+    compiled = new WebAssembly.Module(bytes);
   }
-  return instance;
+  return new WebAssembly.Instance(compiled).exports as unknown as KernelExports;
+}
+
+/** This thread's shared instance of the kernels, made on first use. */
+export function kernels(): KernelExports {
+  shared ??= ownKernels();
+  return shared;
 }
 
 const WASM_PAGE = 65_536;
 
 /**
  * Places arrays in the kernels' memory one after another (each on a 16-byte boundary), from the end
- * of the module's own data; `ready` grows the memory to hold them. Every Arena starts at the same
- * place: one layout is in use at a time (the kernels run synchronously and do not call back).
+ * of the module's own data; `ready` grows the memory to hold them. Every Arena on the shared instance
+ * starts at the same place, so one such layout is in use at a time: right for a computation that runs
+ * to its end without yielding (the kernels run synchronously and do not call back). A layout that must
+ * live across awaits (a reader going through a file) is made in an instance of its own (ownKernels).
  */
 export class Arena {
-  readonly k = kernels();
   private top: number;
 
-  constructor() {
+  constructor(readonly k: KernelExports = kernels()) {
     this.top = align(this.k.heapBase());
   }
 
@@ -74,9 +107,9 @@ export class Arena {
     return this.take(count * 8, filled);
   }
 
-  /** Room for `count` bytes, zero; returns the byte offset. */
-  u8(count: number): number {
-    return this.take(count, false);
+  /** Room for `count` bytes, zero unless `filled`; returns the byte offset. */
+  u8(count: number, filled = false): number {
+    return this.take(count, filled);
   }
 
   /** Room for `count` 32-bit integers, zero; returns the byte offset. */

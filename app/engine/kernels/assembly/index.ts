@@ -589,10 +589,14 @@ function trimmed(c: i32): bool {
 /**
  * Splits the lines of bytes[0, len), from `from`, into records slot, slot + 1, … of starts (width + 1
  * byte offsets each) and digits (width entries each: the single digit, FIELD_EMPTY or FIELD_OTHER):
- * each line feed ends a record, each delimiter a field; a last line without a line feed only when
- * `final`. Stops before a line that is not a plain data record (fields other than `width`, or all
- * blank), before an unfinished line, and once `capacity` records are filled. Returns the records
- * split; out[0] (i32) receives the offset where the lines not split begin.
+ * each line feed ends a record, each delimiter a field; a last line without a line feed counts only
+ * when `final`. A field that is one digit followed by the delimiter or the line end is taken in one
+ * step, any other byte by byte. Goes on while the lines are plain data records (`width` fields, not all
+ * blank) and fewer than `capacity` records are filled; returns how many it split. In out (i32): [0]
+ * the offset of the first line not counted; [3] 1 when that line is complete but not a plain data
+ * record, 0 when it is unfinished or there is none or no room. With [3] = 1 the line is split into the
+ * next record all the same, [1] holds its field count (negated when all fields are blank) and [2] the
+ * offset after its line feed.
  */
 export function splitLines(
   bytes: usize,
@@ -645,11 +649,19 @@ export function splitLines(
       }
       p = q + 1;
     }
-    if (end < 0 || fields != width || !content) break;
+    if (end < 0) break;
+    if (fields != width || !content) {
+      store<i32>(out, content ? fields : -fields, 4);
+      store<i32>(out, end + 1, 8);
+      store<i32>(out, 1, 12);
+      store<i32>(out, line);
+      return count;
+    }
     store<i32>(base + (<usize>width << 2), end + 1);
     count++;
     line = end + 1;
   }
+  store<i32>(out, 0, 12);
   store<i32>(out, min(line, len));
   return count;
 }

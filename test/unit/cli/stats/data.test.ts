@@ -126,6 +126,18 @@ describe('loadItemData reads plain and quoted files alike', () => {
   };
 
   type Outcome = 'reads' | 'refuses';
+  /** 700 rows (several batches of records): digits, gaps, wider numbers, codes, blank lines; `late` ends it. */
+  const long = (late: string) => {
+    const lines = ['id,a,b,c,d'];
+    for (let i = 1; i <= 700; i++) {
+      const cells = [`p${i}`, String(1 + (i % 5)), i % 7 === 0 ? '' : String(1 + ((i * 3) % 5))];
+      cells.push(i % 11 === 0 ? '-99' : i % 13 === 0 ? '4.5' : String(1 + ((i * 7) % 4)));
+      cells.push(i % 17 === 0 ? ' 3' : i % 19 === 0 ? 'NA' : String(2 + (i % 3)));
+      lines.push(cells.join(','));
+      if (i % 250 === 0) lines.push('');
+    }
+    return `${lines.join('\n')}\n${late}`;
+  };
   const cases: [string, string, Record<string, string>, Outcome][] = [
     ['likert with gaps', 'id,a,b,c\np1,1,,5\np2,2,3,\n\np3,4,4,4\np4,,5,1\n', { items: 'a,b,c' }, 'reads'],
     [
@@ -144,6 +156,13 @@ describe('loadItemData reads plain and quoted files alike', () => {
     ['reverse keys', 'id,a,b\np1,1,2\np2,5,\n', { items: 'a,b', reverse: 'b', min: '1', max: '5' }, 'reads'],
     ['trailing delimiters and padded cells', 'id,a,b,\np1, 2 ,3,\np2,4,5,\n', { items: 'b,a' }, 'reads'],
     ['a ragged row', 'id,a,b\np1,1,2\np2,3\n', { items: 'a,b' }, 'refuses'],
+    ['a long file', long('p701,5,4,3,2'), { items: 'd,b,a,c', 'missing-codes': '-99,NA' }, 'reads'],
+    [
+      'a long file whose last row holds the first 6',
+      long('p701,6,4,3,2\n'),
+      { items: 'a,b,c,d', 'missing-codes': '-99,NA', min: '1', max: '5' },
+      'refuses',
+    ],
   ];
   it.each(cases)('%s', async (name, text, options, outcome) => {
     const { plain, other } = await both(name.replace(/\W+/g, '-'), text, options);
