@@ -3,7 +3,7 @@ import { clampCorrelation, pairwiseMoments } from './covariance.ts';
 import { covarianceMatrix } from './linalg.ts';
 import { Arena } from './kernels/index.ts';
 import { EPSILON, mean } from './numeric.ts';
-import { itemColumns, type Responses, respondentCount, responseRows } from './responses.ts';
+import { itemColumns, type Responses, respondentCount, responseRows, tallyAnswers } from './responses.ts';
 import type { ResponseMatrix, ScaleBounds } from './scoring.ts';
 
 /** Descriptive statistics of one item over its answered values. */
@@ -65,12 +65,12 @@ export interface ColumnSummary {
 }
 
 /**
- * Summaries of columns (NaN for a missing answer) by the describeColumn kernel: over each column's
- * answered values in row order, the mean and variance as meanAndVariance computes them and the
- * central moments, every sum compensated. With `bounds`, also how many answers lie at each bound
- * (within BOUND_TOLERANCE). Cost O(n·k).
+ * Summaries of columns (NaN for a missing answer) by the describePair kernel, two columns at a time:
+ * over each column's answered values in row order, the mean and variance as meanAndVariance computes
+ * them and the central moments, every sum compensated. With `bounds`, also how many answers lie at
+ * each bound (within BOUND_TOLERANCE). Cost O(n·k).
  * Throws EngineError, through `tooFew`, for a column with fewer than two answered values, and for a
- * value that is not finite.
+ * value that is not finite; the first column in order with either is named.
  */
 export function summarizeColumns(
   columns: readonly Float64Array[],
@@ -79,30 +79,41 @@ export function summarizeColumns(
 ): { summaries: ColumnSummary[]; atFloor: number[]; atCeiling: number[] } {
   const n = columns[0]?.length ?? 0;
   const arena = new Arena();
-  const col = arena.f64(n, true);
-  const scratch = arena.f64(n, true);
-  const out = arena.f64(7, true);
+  const at = {
+    a: arena.f64(n, true),
+    b: arena.f64(n, true),
+    scratchA: arena.f64(n, true),
+    scratchB: arena.f64(n, true),
+    out: arena.f64(16, true),
+  };
   const memory = arena.ready();
-  const { describeColumn, countNear } = arena.k;
-  const column = new Float64Array(memory, col, n);
-  const result = new Float64Array(memory, out, 7);
+  const { describePair, countNear } = arena.k;
+  const a = new Float64Array(memory, at.a, n);
+  const b = new Float64Array(memory, at.b, n);
+  const result = new Float64Array(memory, at.out, 16);
   const summaries: ColumnSummary[] = [];
   const atFloor: number[] = [];
   const atCeiling: number[] = [];
-  columns.forEach((values, c) => {
-    column.set(values);
-    const status = describeColumn(col, n, scratch, out);
-    if (status === -2) throw tooFew(c, result[0]);
+  const take = (c: number, offset: number, col: number) => {
+    const [status, count, mean, variance, m2, m3, m4, bad] = result.subarray(offset, offset + 8);
+    if (status === -2) throw tooFew(c, count);
     if (status >= 0) {
-      throw new EngineError(`mean requires finite numbers; the value at index ${status} is ${result[6]}`);
+      throw new EngineError(`mean requires finite numbers; the value at index ${status} is ${bad}`);
     }
-    const [count, mean, variance, m2, m3, m4] = result;
     summaries.push({ n: count, mean, variance, m2, m3, m4 });
     if (bounds) {
       atFloor.push(countNear(col, n, bounds.min, BOUND_TOLERANCE));
       atCeiling.push(countNear(col, n, bounds.max, BOUND_TOLERANCE));
     }
-  });
+  };
+  for (let c = 0; c < columns.length; c += 2) {
+    const second = c + 1 < columns.length;
+    a.set(columns[c]);
+    if (second) b.set(columns[c + 1]);
+    describePair(at.a, second ? at.b : 0, n, at.scratchA, at.scratchB, at.out);
+    take(c, 0, at.a);
+    if (second) take(c + 1, 8, at.b);
+  }
   return { summaries, atFloor, atCeiling };
 }
 
@@ -212,17 +223,8 @@ export interface ItemMoments {
 export function itemMoments(names: string[], data: Responses, method: MissingMethod): ItemMoments {
   const k = names.length;
   const total = respondentCount(data);
-  const all = itemColumns(names, data);
   // answers[r]: the answers respondent r gave; listwise keeps those with all k, pairwise those with any.
-  const answers = new Int32Array(total);
-  const missingAll = all.map((column) => {
-    let missing = 0;
-    for (let r = 0; r < total; r++) {
-      if (!Number.isNaN(column[r])) answers[r]++;
-      else missing++;
-    }
-    return missing;
-  });
+  const { columns: all, answered: answers, missing: missingAll } = tallyAnswers(names, data);
   const keep: number[] = [];
   for (let r = 0; r < total; r++) {
     if (method === 'listwise' ? answers[r] === k : answers[r] > 0) keep.push(r);

@@ -1,4 +1,5 @@
 import { EngineError } from './errors.ts';
+import { Arena } from './kernels/index.ts';
 import type { ResponseMatrix } from './scoring.ts';
 
 /**
@@ -42,6 +43,56 @@ export function respondentCount(data: Responses): number {
   return isByItem(data) ? data.n : data.length;
 }
 
+/** The answers by item, with how many items each respondent answered and how many each item lacks. */
+export interface AnswerTally {
+  columns: Float64Array[];
+  /** answered[r]: the items respondent r answered. */
+  answered: Int32Array;
+  /** missing[c]: the respondents who left item c unanswered. */
+  missing: number[];
+}
+
+/**
+ * itemColumns, with the answers counted by respondent and the gaps by item (the tallyColumn kernel
+ * for answers held by item). Cost: O(n·k). Throws as itemColumns.
+ */
+export function tallyAnswers(names: readonly string[], data: Responses): AnswerTally {
+  const k = names.length;
+  if (!isByItem(data)) {
+    const columns = itemColumns(names, data);
+    const answered = new Int32Array(data.length);
+    const missing = columns.map((column) => {
+      let gaps = 0;
+      for (let r = 0; r < column.length; r++) {
+        if (Number.isNaN(column[r])) gaps++;
+        else answered[r]++;
+      }
+      return gaps;
+    });
+    return { columns, answered, missing };
+  }
+  if (data.columns.length !== k) {
+    throw new EngineError(`the answers hold ${data.columns.length} items but ${k} are named`, 'shape');
+  }
+  const n = data.n;
+  const arena = new Arena();
+  const at = { col: arena.f64(n, true), answered: arena.i32(n) };
+  const memory = arena.ready();
+  const col = new Float64Array(memory, at.col, n);
+  const missing = data.columns.map((column, c) => {
+    col.set(column);
+    const result = arena.k.tallyColumn(at.col, n, at.answered);
+    if (result >= 0) {
+      throw new EngineError(
+        `respondent ${result + 1}, item "${names[c]}": the value ${column[result]} is not a finite number`,
+      );
+    }
+    return -result - 1;
+  });
+  const answered = new Int32Array(memory, at.answered, n).slice();
+  return { columns: data.columns.slice(), answered, missing };
+}
+
 /**
  * The answers as one column per item (NaN for a missing answer), checking that every respondent has
  * one answer per item and every answer is a finite number. Columns given are returned as they are
@@ -51,22 +102,7 @@ export function respondentCount(data: Responses): number {
  */
 export function itemColumns(names: readonly string[], data: Responses): Float64Array[] {
   const k = names.length;
-  if (isByItem(data)) {
-    if (data.columns.length !== k) {
-      throw new EngineError(`the answers hold ${data.columns.length} items but ${k} are named`, 'shape');
-    }
-    data.columns.forEach((column, c) => {
-      for (let r = 0; r < column.length; r++) {
-        const x = column[r];
-        if (x - x !== 0 && !Number.isNaN(x)) {
-          throw new EngineError(
-            `respondent ${r + 1}, item "${names[c]}": the value ${x} is not a finite number`,
-          );
-        }
-      }
-    });
-    return data.columns.slice();
-  }
+  if (isByItem(data)) return tallyAnswers(names, data).columns;
   const n = data.length;
   const columns = Array.from({ length: k }, () => new Float64Array(n));
   for (let r = 0; r < n; r++) {

@@ -32,8 +32,9 @@ export interface KernelExports {
     lostSquares: number,
     bothMissing: number,
   ): void;
-  describeColumn(col: number, n: number, scratch: number, out: number): number;
+  describePair(a: number, b: number, n: number, scratchA: number, scratchB: number, out: number): void;
   countNear(col: number, n: number, value: number, tolerance: number): number;
+  tallyColumn(col: number, n: number, answered: number): number;
   symmetricEigen(n: number, v: number, d: number, e: number): void;
   luFactor(n: number, lu: number, pivot: number, column: number): void;
   luSolve(n: number, m: number, lu: number, x: number): void;

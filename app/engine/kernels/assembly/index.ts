@@ -29,7 +29,7 @@ export function scanColumn(col: usize, n: i32, out: usize): i32 {
     if (v == v) {
       if (v - v != 0) return i;
       if (c == 0) f = v;
-      if (v == f) same++;
+      same += f64(v == f);
       s += v;
       c++;
     }
@@ -226,58 +226,188 @@ function lost(s: f64, v: f64, t: f64): f64 {
   return abs(s) >= abs(v) ? s - t + v : v - t + s;
 }
 
-/**
- * One column's present (non-NaN) values, copied in row order to scratch, and their moments, each sum
- * compensated (Neumaier): the mean (a first mean corrected by the mean deviation from it), the
- * variance (divisor n − 1, corrected for the deviations' sum), and the second, third and fourth
- * central moments (divisor n) about the mean. Writes count, mean, variance, m2, m3, m4 to out[0..5].
- * Returns -1, or -2 below two present values (nothing else written), or the index among the present
- * values of the first one that is infinite (its value in out[6]).
- */
-export function describeColumn(col: usize, n: i32, scratch: usize, out: usize): i32 {
+/** Neumaier's compensation term for two lanes at once (each lane as `lost`). */
+// @ts-ignore: decorator
+@inline
+function lost2(s: v128, v: v128, t: v128): v128 {
+  const first = f64x2.add(f64x2.sub(s, t), v);
+  const second = f64x2.add(f64x2.sub(v, t), s);
+  return v128.bitselect(first, second, f64x2.ge(f64x2.abs(s), f64x2.abs(v)));
+}
+
+// @ts-ignore: decorator
+@inline
+function pair(a: f64, b: f64): v128 {
+  return f64x2.replace_lane(f64x2.splat(a), 1, b);
+}
+
+/** Copies the present (non-NaN) values of col[0, n) in row order to scratch; returns their count. */
+function compact(col: usize, n: i32, scratch: usize): i32 {
   let count = 0;
   for (let i = 0; i < n; i++) {
     const v = load<f64>(col + (<usize>i << 3));
-    if (v == v) {
-      store<f64>(scratch + (<usize>count << 3), v);
-      count++;
+    store<f64>(scratch + (<usize>count << 3), v);
+    count += i32(v == v);
+  }
+  return count;
+}
+
+/**
+ * The present (non-NaN) values of two columns of n values (b may be 0: none), copied in row order to
+ * scratchA and scratchB, and their moments, each sum compensated (Neumaier): the mean (a first mean
+ * corrected by the mean deviation from it), the variance (divisor count − 1, corrected for the
+ * deviations' sum), and the second, third and fourth central moments (divisor count) about the mean.
+ * The two columns' sums run in the two lanes of one vector while both have values, then on their own;
+ * each sum is the same sequence of operations as for one column alone. Writes, per column, eight
+ * doubles (a's at out, b's at out + 64): status (−1 done, −2 below two values, else the index among
+ * the present values of the first infinite one), count, mean, variance, m2, m3, m4, the infinite value.
+ */
+export function describePair(a: usize, b: usize, n: i32, scratchA: usize, scratchB: usize, out: usize): void {
+  const na = compact(a, n, scratchA);
+  const nb = b == 0 ? 0 : compact(b, n, scratchB);
+  const both = min(na, nb);
+  const outB = out + 64;
+  store<f64>(out, na, 8);
+  store<f64>(outB, nb, 8);
+  let statusA: f64 = na < 2 ? -2 : -1;
+  let statusB: f64 = nb < 2 ? -2 : -1;
+  // Pass 1: the sums, and the first infinite value.
+  let s = f64x2.splat(0);
+  let c = f64x2.splat(0);
+  for (let i = 0; i < both; i++) {
+    const x = load<f64>(scratchA + (<usize>i << 3));
+    const y = load<f64>(scratchB + (<usize>i << 3));
+    if (x - x != 0 && statusA == -1) {
+      statusA = i;
+      store<f64>(out, x, 56);
     }
-  }
-  store<f64>(out, <f64>count);
-  if (count < 2) return -2;
-  const c = <f64>count;
-  let sum: f64 = 0;
-  let comp: f64 = 0;
-  for (let i = 0; i < count; i++) {
-    const v = load<f64>(scratch + (<usize>i << 3));
-    if (v - v != 0) {
-      store<f64>(out, v, 48);
-      return i;
+    if (y - y != 0 && statusB == -1) {
+      statusB = i;
+      store<f64>(outB, y, 56);
     }
-    const t = sum + v;
-    comp += lost(sum, v, t);
-    sum = t;
+    const v = pair(x, y);
+    const t = f64x2.add(s, v);
+    c = f64x2.add(c, lost2(s, v, t));
+    s = t;
   }
-  const first = (sum + comp) / c;
-  sum = 0;
-  comp = 0;
-  for (let i = 0; i < count; i++) {
-    const v = load<f64>(scratch + (<usize>i << 3)) - first;
-    const t = sum + v;
-    comp += lost(sum, v, t);
-    sum = t;
+  let sa = f64x2.extract_lane(s, 0);
+  let ca = f64x2.extract_lane(c, 0);
+  let sb = f64x2.extract_lane(s, 1);
+  let cb = f64x2.extract_lane(c, 1);
+  for (let i = both; i < na; i++) {
+    const v = load<f64>(scratchA + (<usize>i << 3));
+    if (v - v != 0 && statusA == -1) {
+      statusA = i;
+      store<f64>(out, v, 56);
+    }
+    const t = sa + v;
+    ca += lost(sa, v, t);
+    sa = t;
   }
-  const m = first + (sum + comp) / c;
-  let ds: f64 = 0;
-  let dc: f64 = 0;
-  let s2: f64 = 0;
-  let c2: f64 = 0;
-  let s3: f64 = 0;
-  let c3: f64 = 0;
-  let s4: f64 = 0;
-  let c4: f64 = 0;
-  for (let i = 0; i < count; i++) {
-    const d = load<f64>(scratch + (<usize>i << 3)) - m;
+  for (let i = both; i < nb; i++) {
+    const v = load<f64>(scratchB + (<usize>i << 3));
+    if (v - v != 0 && statusB == -1) {
+      statusB = i;
+      store<f64>(outB, v, 56);
+    }
+    const t = sb + v;
+    cb += lost(sb, v, t);
+    sb = t;
+  }
+  store<f64>(out, statusA);
+  store<f64>(outB, statusB);
+  const firstA = (sa + ca) / <f64>na;
+  const firstB = (sb + cb) / <f64>nb;
+  // Pass 2: the deviations from the first means.
+  const first = pair(firstA, firstB);
+  s = f64x2.splat(0);
+  c = f64x2.splat(0);
+  for (let i = 0; i < both; i++) {
+    const v = f64x2.sub(pair(load<f64>(scratchA + (<usize>i << 3)), load<f64>(scratchB + (<usize>i << 3))), first);
+    const t = f64x2.add(s, v);
+    c = f64x2.add(c, lost2(s, v, t));
+    s = t;
+  }
+  sa = f64x2.extract_lane(s, 0);
+  ca = f64x2.extract_lane(c, 0);
+  sb = f64x2.extract_lane(s, 1);
+  cb = f64x2.extract_lane(c, 1);
+  for (let i = both; i < na; i++) {
+    const v = load<f64>(scratchA + (<usize>i << 3)) - firstA;
+    const t = sa + v;
+    ca += lost(sa, v, t);
+    sa = t;
+  }
+  for (let i = both; i < nb; i++) {
+    const v = load<f64>(scratchB + (<usize>i << 3)) - firstB;
+    const t = sb + v;
+    cb += lost(sb, v, t);
+    sb = t;
+  }
+  const meanA = firstA + (sa + ca) / <f64>na;
+  const meanB = firstB + (sb + cb) / <f64>nb;
+  // Pass 3: the deviations from the means, and their squares, cubes and fourth powers.
+  const m = pair(meanA, meanB);
+  let ds = f64x2.splat(0);
+  let dc = f64x2.splat(0);
+  let s2 = f64x2.splat(0);
+  let c2 = f64x2.splat(0);
+  let s3 = f64x2.splat(0);
+  let c3 = f64x2.splat(0);
+  let s4 = f64x2.splat(0);
+  let c4 = f64x2.splat(0);
+  for (let i = 0; i < both; i++) {
+    const d = f64x2.sub(pair(load<f64>(scratchA + (<usize>i << 3)), load<f64>(scratchB + (<usize>i << 3))), m);
+    const d2 = f64x2.mul(d, d);
+    const d3 = f64x2.mul(d2, d);
+    const d4 = f64x2.mul(d2, d2);
+    const t = f64x2.add(ds, d);
+    dc = f64x2.add(dc, lost2(ds, d, t));
+    ds = t;
+    const t2 = f64x2.add(s2, d2);
+    c2 = f64x2.add(c2, lost2(s2, d2, t2));
+    s2 = t2;
+    const t3 = f64x2.add(s3, d3);
+    c3 = f64x2.add(c3, lost2(s3, d3, t3));
+    s3 = t3;
+    const t4 = f64x2.add(s4, d4);
+    c4 = f64x2.add(c4, lost2(s4, d4, t4));
+    s4 = t4;
+  }
+  centralTail(scratchA, both, na, meanA, ds, dc, s2, c2, s3, c3, s4, c4, 0, out);
+  centralTail(scratchB, both, nb, meanB, ds, dc, s2, c2, s3, c3, s4, c4, 1, outB);
+}
+
+/**
+ * Pass 3 of describePair for one column: its lane of the vector sums, continued over values
+ * [from, count) alone; writes mean, variance, m2, m3, m4 to out[2..6].
+ */
+function centralTail(
+  values: usize,
+  from: i32,
+  count: i32,
+  m: f64,
+  dsv: v128,
+  dcv: v128,
+  s2v: v128,
+  c2v: v128,
+  s3v: v128,
+  c3v: v128,
+  s4v: v128,
+  c4v: v128,
+  lane: i32,
+  out: usize,
+): void {
+  let ds = lane == 0 ? f64x2.extract_lane(dsv, 0) : f64x2.extract_lane(dsv, 1);
+  let dc = lane == 0 ? f64x2.extract_lane(dcv, 0) : f64x2.extract_lane(dcv, 1);
+  let s2 = lane == 0 ? f64x2.extract_lane(s2v, 0) : f64x2.extract_lane(s2v, 1);
+  let c2 = lane == 0 ? f64x2.extract_lane(c2v, 0) : f64x2.extract_lane(c2v, 1);
+  let s3 = lane == 0 ? f64x2.extract_lane(s3v, 0) : f64x2.extract_lane(s3v, 1);
+  let c3 = lane == 0 ? f64x2.extract_lane(c3v, 0) : f64x2.extract_lane(c3v, 1);
+  let s4 = lane == 0 ? f64x2.extract_lane(s4v, 0) : f64x2.extract_lane(s4v, 1);
+  let c4 = lane == 0 ? f64x2.extract_lane(c4v, 0) : f64x2.extract_lane(c4v, 1);
+  for (let i = from; i < count; i++) {
+    const d = load<f64>(values + (<usize>i << 3)) - m;
     const d2 = d * d;
     const d3 = d2 * d;
     const d4 = d2 * d2;
@@ -294,13 +424,13 @@ export function describeColumn(col: usize, n: i32, scratch: usize, out: usize): 
     c4 += lost(s4, d4, t4);
     s4 = t4;
   }
+  const c = <f64>count;
   const s = ds + dc;
-  store<f64>(out, m, 8);
-  store<f64>(out, max<f64>(0, (s2 + c2 - (s * s) / c) / (c - 1)), 16);
-  store<f64>(out, (s2 + c2) / c, 24);
-  store<f64>(out, (s3 + c3) / c, 32);
-  store<f64>(out, (s4 + c4) / c, 40);
-  return -1;
+  store<f64>(out, m, 16);
+  store<f64>(out, max<f64>(0, (s2 + c2 - (s * s) / c) / (c - 1)), 24);
+  store<f64>(out, (s2 + c2) / c, 32);
+  store<f64>(out, (s3 + c3) / c, 40);
+  store<f64>(out, (s4 + c4) / c, 48);
 }
 
 /** How many of a column's n values lie within `tolerance` of `value` (a NaN never does). */
@@ -702,4 +832,31 @@ export function gatherDigits(
     }
   }
   return listed;
+}
+
+// ---------------------------------------------------------------------------------------------------
+// Answers by item (app/engine/responses.ts)
+
+/**
+ * One item's answers col[0, n) (NaN for a missing one): adds 1 to answered[r] (i32) for each answer
+ * given. Returns the row of the first infinite value, else −(missing + 1).
+ */
+export function tallyColumn(col: usize, n: i32, answered: usize): i32 {
+  let missing = 0;
+  let infinite = false;
+  for (let r = 0; r < n; r++) {
+    const v = load<f64>(col + (<usize>r << 3));
+    const present = i32(v == v);
+    infinite |= v - v != 0 && v == v;
+    const a = answered + (<usize>r << 2);
+    store<i32>(a, load<i32>(a) + present);
+    missing += 1 - present;
+  }
+  if (infinite) {
+    for (let r = 0; r < n; r++) {
+      const v = load<f64>(col + (<usize>r << 3));
+      if (v - v != 0 && v == v) return r;
+    }
+  }
+  return -(missing + 1);
 }
