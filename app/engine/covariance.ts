@@ -1,5 +1,5 @@
 import { EngineError } from './errors.ts';
-import { Arena } from './kernels/index.ts';
+import { asResident, type ResidentColumns } from './kernels/index.ts';
 import { kahanSum, mean } from './numeric.ts';
 
 /**
@@ -136,15 +136,17 @@ const PAIRWISE_BLOCK_ROWS = 512;
  *
  * @example pairwiseMoments([Float64Array.of(1, 2, 3, 4), Float64Array.of(2, NaN, 3, 5)]).n // [[4, 3], [3, 3]]
  */
-export function pairwiseMoments(columns: Columns): PairwiseMoments {
+export function pairwiseMoments(given: Columns | ResidentColumns): PairwiseMoments {
   const fn = 'pairwise correlation';
+  const columns = 'base' in given ? given.source : given;
   const { n, p } = checkColumns(columns, fn, true);
+  const resident = asResident(given);
   // The block holds rows of P values (p rounded up to the kernel's eight lanes, the rest zero).
   const P = Math.ceil(p / 8) * 8;
   const B = PAIRWISE_BLOCK_ROWS;
-  const arena = new Arena();
+  const { arena } = resident;
   const at = {
-    cols: arena.f64(n * p, true),
+    cols: resident.base,
     scan: arena.f64(4),
     shift: arena.f64(p),
     // total[j]/squares[j]: Σ dⱼ and Σ dⱼ² over every present case of j. lostSum[j·p + k],
@@ -163,14 +165,12 @@ export function pairwiseMoments(columns: Columns): PairwiseMoments {
   };
   const memory = arena.ready();
   const { scanColumn, pairwiseBlock } = arena.k;
-  const data = new Float64Array(memory, at.cols, n * p);
   const scan = new Float64Array(memory, at.scan, 4);
   const shift = new Float64Array(memory, at.shift, p);
   const present = new Float64Array(p);
   const first = new Float64Array(p);
   const atFirst = new Float64Array(p);
   for (let j = 0; j < p; j++) {
-    data.set(columns[j], j * n);
     const infinite = scanColumn(at.cols + j * n * 8, n, at.scan);
     if (infinite >= 0) checkFinite(columns[j][infinite], fn, infinite, j);
     [shift[j], present[j], first[j], atFirst[j]] = scan;

@@ -1,7 +1,7 @@
 import { EngineError } from './errors.ts';
 import { clampCorrelation, pairwiseMoments } from './covariance.ts';
 import { covarianceMatrix } from './linalg.ts';
-import { Arena } from './kernels/index.ts';
+import { Arena, asResident, type ResidentColumns } from './kernels/index.ts';
 import { EPSILON, mean } from './numeric.ts';
 import { itemColumns, type Responses, respondentCount, responseRows, tallyAnswers } from './responses.ts';
 import type { ResponseMatrix, ScaleBounds } from './scoring.ts';
@@ -73,23 +73,20 @@ export interface ColumnSummary {
  * value that is not finite; the first column in order with either is named.
  */
 export function summarizeColumns(
-  columns: readonly Float64Array[],
+  given: readonly Float64Array[] | ResidentColumns,
   tooFew: (column: number, answered: number) => EngineError,
   bounds?: ScaleBounds,
 ): { summaries: ColumnSummary[]; atFloor: number[]; atCeiling: number[] } {
-  const n = columns[0]?.length ?? 0;
-  const arena = new Arena();
+  const resident = asResident(given);
+  const { arena, n, source: columns } = resident;
   const at = {
-    a: arena.f64(n, true),
-    b: arena.f64(n, true),
     scratchA: arena.f64(n, true),
     scratchB: arena.f64(n, true),
     out: arena.f64(16, true),
   };
   const memory = arena.ready();
   const { describePair, countNear } = arena.k;
-  const a = new Float64Array(memory, at.a, n);
-  const b = new Float64Array(memory, at.b, n);
+  const column = (c: number) => resident.base + c * n * 8;
   const result = new Float64Array(memory, at.out, 16);
   const summaries: ColumnSummary[] = [];
   const atFloor: number[] = [];
@@ -108,11 +105,9 @@ export function summarizeColumns(
   };
   for (let c = 0; c < columns.length; c += 2) {
     const second = c + 1 < columns.length;
-    a.set(columns[c]);
-    if (second) b.set(columns[c + 1]);
-    describePair(at.a, second ? at.b : 0, n, at.scratchA, at.scratchB, at.out);
-    take(c, 0, at.a);
-    if (second) take(c + 1, 8, at.b);
+    describePair(column(c), second ? column(c + 1) : 0, n, at.scratchA, at.scratchB, at.out);
+    take(c, 0, column(c));
+    if (second) take(c + 1, 8, column(c + 1));
   }
   return { summaries, atFloor, atCeiling };
 }
@@ -224,7 +219,7 @@ export function itemMoments(names: string[], data: Responses, method: MissingMet
   const k = names.length;
   const total = respondentCount(data);
   // answers[r]: the answers respondent r gave; listwise keeps those with all k, pairwise those with any.
-  const { columns: all, answered: answers, missing: missingAll } = tallyAnswers(names, data);
+  const { columns: all, answered: answers, missing: missingAll, resident } = tallyAnswers(names, data);
   const keep: number[] = [];
   for (let r = 0; r < total; r++) {
     if (method === 'listwise' ? answers[r] === k : answers[r] > 0) keep.push(r);
@@ -277,12 +272,14 @@ export function itemMoments(names: string[], data: Responses, method: MissingMet
   }
   const tooFew = (c: number, answered: number) =>
     new EngineError(`item "${names[c]}" has ${answered} answered value(s); at least two are required`);
-  const { summaries } = summarizeColumns(columns, tooFew);
+  // The columns counted in the kernels' memory are summarized and paired there, unless rows were left out.
+  const inKernels = resident && n === total ? resident : columns;
+  const { summaries } = summarizeColumns(inKernels, tooFew);
   const means = summaries.map((s) => s.mean);
   const sds = summaries.map((s) => Math.sqrt(s.variance));
   const varies = sds.map((s) => s > ZERO_VARIANCE);
   const varying = names.map((_, c) => c).filter((c) => varies[c]);
-  const moments = pairwiseMoments(columns);
+  const moments = pairwiseMoments(inKernels);
   const pairN = moments.n;
   let minPairN = k > 1 ? Number.POSITIVE_INFINITY : n;
   for (let i = 0; i < k; i++) {

@@ -1,5 +1,5 @@
 import { EngineError } from './errors.ts';
-import { Arena } from './kernels/index.ts';
+import { type ResidentColumns, residentColumns } from './kernels/index.ts';
 import type { ResponseMatrix } from './scoring.ts';
 
 /**
@@ -50,6 +50,8 @@ export interface AnswerTally {
   answered: Int32Array;
   /** missing[c]: the respondents who left item c unanswered. */
   missing: number[];
+  /** The columns in the kernels' memory, when they were counted there. */
+  resident?: ResidentColumns;
 }
 
 /**
@@ -75,13 +77,12 @@ export function tallyAnswers(names: readonly string[], data: Responses): AnswerT
     throw new EngineError(`the answers hold ${data.columns.length} items but ${k} are named`, 'shape');
   }
   const n = data.n;
-  const arena = new Arena();
-  const at = { col: arena.f64(n, true), answered: arena.i32(n) };
+  const resident = residentColumns(data.columns);
+  const { arena } = resident;
+  const at = arena.i32(n);
   const memory = arena.ready();
-  const col = new Float64Array(memory, at.col, n);
   const missing = data.columns.map((column, c) => {
-    col.set(column);
-    const result = arena.k.tallyColumn(at.col, n, at.answered);
+    const result = arena.k.tallyColumn(resident.base + c * n * 8, n, at);
     if (result >= 0) {
       throw new EngineError(
         `respondent ${result + 1}, item "${names[c]}": the value ${column[result]} is not a finite number`,
@@ -89,8 +90,8 @@ export function tallyAnswers(names: readonly string[], data: Responses): AnswerT
     }
     return -result - 1;
   });
-  const answered = new Int32Array(memory, at.answered, n).slice();
-  return { columns: data.columns.slice(), answered, missing };
+  const answered = new Int32Array(memory, at, n).slice();
+  return { columns: data.columns.slice(), answered, missing, resident };
 }
 
 /**

@@ -9,6 +9,7 @@ export const CANDIDATE_DELIMITERS = [',', ';', '\t', '|'] as const;
  * Blank records are dropped. Cost O(length of the sniffed part).
  */
 export function sniffRecords(text: string, delimiter: string, quote: string, maxRecords: number): string[][] {
+  if (!text.includes(quote)) return unquotedRecords(text, delimiter, maxRecords);
   const records: string[][] = [];
   let fields: string[] = [];
   let field = '';
@@ -52,6 +53,20 @@ export function sniffRecords(text: string, delimiter: string, quote: string, max
     }
   }
   if (records.length < maxRecords && (field !== '' || fields.length > 0)) endRecord();
+  return records;
+}
+
+/**
+ * sniffRecords of a text without the quote character: each line break (CRLF, LF or CR) ends a record
+ * and each delimiter a field, so the records are the lines split at the delimiter. Cost O(length).
+ */
+function unquotedRecords(text: string, delimiter: string, maxRecords: number): string[][] {
+  const records: string[][] = [];
+  for (const line of text.split(/\r\n|\n|\r/)) {
+    if (records.length >= maxRecords) break;
+    const fields = line.split(delimiter);
+    if (!(fields.length === 1 && fields[0].trim() === '')) records.push(fields);
+  }
   return records;
 }
 

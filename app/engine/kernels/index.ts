@@ -87,18 +87,31 @@ export function kernels(): KernelExports {
 
 const WASM_PAGE = 65_536;
 
+/** The newest Arena of each instance, by number: an older one's memory may since have been reused. */
+const epochs = new WeakMap<KernelExports, number>();
+
 /**
  * Places arrays in the kernels' memory one after another (each on a 16-byte boundary), from the end
- * of the module's own data; `ready` grows the memory to hold them. Every Arena on the shared instance
- * starts at the same place, so one such layout is in use at a time: right for a computation that runs
- * to its end without yielding (the kernels run synchronously and do not call back). A layout that must
- * live across awaits (a reader going through a file) is made in an instance of its own (ownKernels).
+ * of the module's own data; `ready` grows the memory to hold them (after it, views made before may be
+ * stale: make them again). More may be placed after a `ready`, and readied in turn. Every Arena on the
+ * shared instance starts at the same place, so one such layout is in use at a time: right for a
+ * computation that runs to its end without yielding (the kernels run synchronously and do not call
+ * back). A layout that must live across awaits (a reader going through a file) is made in an instance
+ * of its own (ownKernels).
  */
 export class Arena {
   private top: number;
+  private readonly epoch: number;
 
   constructor(readonly k: KernelExports = kernels()) {
     this.top = align(this.k.heapBase());
+    this.epoch = (epochs.get(k) ?? 0) + 1;
+    epochs.set(k, this.epoch);
+  }
+
+  /** Whether no later Arena has been laid out over this one (its arrays still hold what was put there). */
+  get current(): boolean {
+    return epochs.get(this.k) === this.epoch;
   }
 
   private readonly zeroed: [number, number][] = [];
@@ -124,6 +137,7 @@ export class Arena {
     const short = this.top - memory.buffer.byteLength;
     if (short > 0) memory.grow(Math.ceil(short / WASM_PAGE));
     for (const [at, bytes] of this.zeroed) new Uint8Array(memory.buffer, at, bytes).fill(0);
+    this.zeroed.length = 0;
     return memory.buffer;
   }
 
@@ -137,4 +151,35 @@ export class Arena {
 
 function align(offset: number): number {
   return Math.ceil(offset / 16) * 16;
+}
+
+/**
+ * Columns of equal length copied once into an Arena, so that several kernels in a row read them where
+ * they are; `source` keeps the columns as given. Later layouts of the same computation go on in `arena`.
+ */
+export interface ResidentColumns {
+  readonly arena: Arena;
+  /** Values per column. */
+  readonly n: number;
+  readonly source: readonly Float64Array[];
+  /** Byte offset of column j: base + j·n·8. */
+  readonly base: number;
+}
+
+/** Copies columns (each of columns[0]'s length) into a new Arena on the shared instance. Cost O(n·p). */
+export function residentColumns(columns: readonly Float64Array[]): ResidentColumns {
+  const arena = new Arena();
+  const n = columns[0]?.length ?? 0;
+  const base = arena.f64(n * columns.length, true);
+  const all = new Float64Array(arena.ready(), base, n * columns.length);
+  columns.forEach((column, j) => {
+    all.set(column, j * n);
+  });
+  return { arena, n, source: columns, base };
+}
+
+/** Columns already resident, if their Arena is still the current one; else copied in (residentColumns). */
+export function asResident(columns: readonly Float64Array[] | ResidentColumns): ResidentColumns {
+  if (!('base' in columns)) return residentColumns(columns);
+  return columns.arena.current ? columns : residentColumns(columns.source);
 }
