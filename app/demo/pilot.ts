@@ -1,5 +1,5 @@
 import type { Study } from '../../db/study.ts';
-import { cholesky } from '../engine/linalg.ts';
+import { cholesky } from '../engine/dense.ts';
 import { createRng, type Rng } from '../engine/rng.ts';
 import type { ColumnMapping } from '../import/mapping.ts';
 import { signOffPhase } from '../phases/index.ts';

@@ -1,4 +1,4 @@
-import { cholesky } from '../engine/linalg.ts';
+import { cholesky } from '../engine/dense.ts';
 import { createRng } from '../engine/rng.ts';
 import type { ColumnMapping } from '../import/mapping.ts';
 import {

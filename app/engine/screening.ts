@@ -1,6 +1,7 @@
 import { chiSquareSf } from './distributions.ts';
 import { EngineError } from './errors.ts';
-import { cholesky, covarianceMatrix } from './linalg.ts';
+import { covarianceMatrix } from './linalg.ts';
+import { cholesky } from './dense.ts';
 import { ruleThreshold } from './methods/index.ts';
 import { EPSILON, kahanSum } from './numeric.ts';
 

@@ -13,7 +13,7 @@ import {
   precisionWarning,
 } from './numbers.ts';
 import { DECIMAL_MARK_ROWS } from './limits.ts';
-import type { ParsedTable } from './parse-table.ts';
+import type { ParsedTable } from './table-rules.ts';
 import type { GatheredDigits } from './plain-records.ts';
 import { TableError } from './table-error.ts';
 

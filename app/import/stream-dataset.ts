@@ -1,7 +1,7 @@
 import { isAscii } from 'node:buffer';
 import { createHash } from 'node:crypto';
 import { Readable } from 'node:stream';
-import Papa from 'papaparse';
+import type Papa from 'papaparse';
 import { assertTextual, chooseEncoding, type Encoding, makeDecoder, undecodableMessage } from './decode.ts';
 import {
   chooseDecimalMark,
@@ -21,7 +21,7 @@ import {
   columnLabel,
   fitRecord,
   quoteErrorMessage,
-} from './parse-table.ts';
+} from './table-rules.ts';
 import { TableError } from './table-error.ts';
 
 /**
@@ -343,10 +343,12 @@ export async function streamRecords<S extends RecordSink>(
     if (batch.length > 0) assembler?.addRows(batch, batchRows);
   };
 
-  const readWithPapaparse = () =>
-    new Promise<void>((resolve, reject) => {
+  const readWithPapaparse = async () => {
+    // Loaded only for a file that is not plain text: a plain one never needs it.
+    const { default: papa } = await import('papaparse');
+    return new Promise<void>((resolve, reject) => {
       const readable = Readable.from(text(), { objectMode: true });
-      Papa.parse(readable, {
+      papa.parse(readable, {
         delimiter: format.delimiter,
         quoteChar: format.quoteChar,
         header: false,
@@ -374,6 +376,7 @@ export async function streamRecords<S extends RecordSink>(
         },
       });
     });
+  };
 
   /** The field table of up to FIELD_ROWS_BATCH records (see FieldRows), made when the header is read. */
   let table: PlainRecords | undefined;

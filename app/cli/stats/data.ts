@@ -5,7 +5,7 @@ import { ENGINE_VERSION } from '../../engine/version.ts';
 import type { ResponseMatrix, ScaleBounds } from '../../engine/scoring.ts';
 import { chooseDecimalMark } from '../../import/dataset.ts';
 import type { DecimalMark } from '../../import/numbers.ts';
-import { TableError } from '../../import/parse-table.ts';
+import { TableError } from '../../import/table-error.ts';
 import { bytePieces, isPlainText, type StreamedRecords, streamRecords } from '../../import/stream-dataset.ts';
 import type { OptionSpecs } from '../command.ts';
 import { readUserFile } from '../files.ts';

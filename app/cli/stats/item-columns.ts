@@ -6,7 +6,7 @@ import {
   parseNumber,
   precisionWarning,
 } from '../../import/numbers.ts';
-import { columnLabel } from '../../import/parse-table.ts';
+import { columnLabel } from '../../import/table-rules.ts';
 import type { RecordSink } from '../../import/stream-dataset.ts';
 import type { ScaleBounds } from '../../engine/scoring.ts';
 import { DataError } from '../types.ts';

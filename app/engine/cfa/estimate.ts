@@ -1,5 +1,6 @@
 import { EngineError } from '../errors.ts';
-import { cholesky, symmetricEigen } from '../linalg.ts';
+import { symmetricEigen } from '../linalg.ts';
+import { cholesky } from '../dense.ts';
 import {
   type GroupMatrices,
   type GroupMoments,

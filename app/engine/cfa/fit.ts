@@ -1,5 +1,6 @@
 import { EngineError } from '../errors.ts';
-import { logDeterminant, symmetricEigen } from '../linalg.ts';
+import { symmetricEigen } from '../linalg.ts';
+import { logDeterminant } from '../dense.ts';
 import {
   type Estimate,
   impliedMoments,

@@ -1,5 +1,6 @@
 import { EngineError } from '../errors.ts';
-import { covarianceMatrix, logDeterminant } from '../linalg.ts';
+import { covarianceMatrix } from '../linalg.ts';
+import { logDeterminant } from '../dense.ts';
 import { kahanSum } from '../numeric.ts';
 
 /**

@@ -1,5 +1,6 @@
 import { EngineError } from '../errors.ts';
-import { inverse, isPositiveDefinite, smoothToPositiveDefinite } from '../linalg.ts';
+import { inverse } from '../linalg.ts';
+import { isPositiveDefinite, smoothToPositiveDefinite } from '../dense.ts';
 
 /** |rᵢⱼ − rⱼᵢ| and |rᵢᵢ − 1| tolerated in a correlation matrix handed to the factor engine. */
 export const CORRELATION_TOL = 1e-8;

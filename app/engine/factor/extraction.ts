@@ -1,6 +1,7 @@
 import { chiSquareSf, noncentralChiSquareCdf } from '../distributions.ts';
 import { EngineError } from '../errors.ts';
-import { logDeterminant, symmetricEigen } from '../linalg.ts';
+import { symmetricEigen } from '../linalg.ts';
+import { logDeterminant } from '../dense.ts';
 import {
   checkCorrelationMatrix,
   positiveDefiniteCorrelation,

@@ -1,6 +1,7 @@
 import { chiSquareSf } from '../distributions.ts';
 import { EngineError } from '../errors.ts';
-import { inverse, logDeterminant } from '../linalg.ts';
+import { inverse } from '../linalg.ts';
+import { logDeterminant } from '../dense.ts';
 import { checkCorrelationMatrix, positiveDefiniteCorrelation } from './common.ts';
 
 /** Kaiser's (1974) labels for KMO and MSA, lowest bound first. */

@@ -1,6 +1,6 @@
 import { EngineError } from '../errors.ts';
 import { normalCdf, normalQuantile } from '../distributions.ts';
-import { smoothToPositiveDefinite, isPositiveDefinite } from '../linalg.ts';
+import { smoothToPositiveDefinite, isPositiveDefinite } from '../dense.ts';
 
 /** Most distinct values an item may have to be treated as ordinal. */
 export const MAX_CATEGORIES = 10;

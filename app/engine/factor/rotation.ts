@@ -1,5 +1,6 @@
 import { EngineError } from '../errors.ts';
-import { inverse, matMul, symmetricEigen, transpose } from '../linalg.ts';
+import { inverse, symmetricEigen } from '../linalg.ts';
+import { matMul, transpose } from '../dense.ts';
 import { createRng } from '../rng.ts';
 import { identity } from './common.ts';
 

@@ -115,7 +115,7 @@ describe('the compiled command line', () => {
     expect(value.files.map((f) => f.name)).toContain('questionnaire.pdf');
   });
 
-  it('starts a command with its own code only: the dispatcher loads no command, and stats reliability no study file, export or pdfkit', () => {
+  it('starts a command with its own code only: the dispatcher loads no command, and stats reliability no study file, export, pdfkit, papaparse or ml-matrix', () => {
     const dispatcher = staticClosure('main.mjs');
     const text = (files: Set<string>) =>
       [...files].map((f) => readFileSync(path.join(DIST, f), 'utf8')).join('\n');
@@ -133,6 +133,9 @@ describe('the compiled command line', () => {
       '"pdfkit"',
       '"docx"',
       'node_modules/zod/',
+      // A plain-text file is split without papaparse, and the item analysis needs no ml-matrix routine.
+      'node_modules/papaparse/',
+      'node_modules/ml-matrix/',
     ]) {
       expect(reliability, absent).not.toContain(absent);
     }

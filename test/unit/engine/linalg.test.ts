@@ -1,22 +1,24 @@
 import { describe, expect, it } from 'vitest';
 import { EngineError } from '../../../app/engine/errors.ts';
 import {
-  cholesky,
-  choleskySolve,
-  conditionNumber,
   constantColumns,
   correlationMatrix,
   covarianceMatrix,
   inverse,
+  pairwiseCorrelation,
+  solve,
+  symmetricEigen,
+} from '../../../app/engine/linalg.ts';
+import {
+  cholesky,
+  choleskySolve,
+  conditionNumber,
   isPositiveDefinite,
   logDeterminant,
   matMul,
-  pairwiseCorrelation,
   smoothToPositiveDefinite,
-  solve,
-  symmetricEigen,
   transpose,
-} from '../../../app/engine/linalg.ts';
+} from '../../../app/engine/dense.ts';
 import fixture from '../../reference/fixtures/linalg.json' with { type: 'json' };
 
 /*

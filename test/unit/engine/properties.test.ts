@@ -2,15 +2,13 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { correlationFromCovariance, listwiseCovariance } from '../../../app/engine/covariance.ts';
 import {
-  choleskySolve,
   correlationMatrix,
   covarianceMatrix,
   inverse,
-  matMul,
   solve,
   symmetricEigen,
-  transpose,
 } from '../../../app/engine/linalg.ts';
+import { choleskySolve, matMul, transpose } from '../../../app/engine/dense.ts';
 import { cronbachAlpha, standardizedAlpha } from '../../../app/engine/reliability/alpha.ts';
 import { meanScores, reverseScore, sumScores } from '../../../app/engine/scoring.ts';
 

@@ -3,7 +3,7 @@ import { analyzeDimensionality } from '../../../../app/engine/factor/dimensional
 import { exploratoryFactorAnalysis } from '../../../../app/engine/factor/efa.ts';
 import { correlationInput } from '../../../../app/engine/factor/input.ts';
 import { polychoricMatrix } from '../../../../app/engine/factor/polychoric.ts';
-import { isPositiveDefinite } from '../../../../app/engine/linalg.ts';
+import { isPositiveDefinite } from '../../../../app/engine/dense.ts';
 import { createRng } from '../../../../app/engine/rng.ts';
 
 const finite = (values: (number | null)[]) => values.every((v) => v === null || Number.isFinite(v));
