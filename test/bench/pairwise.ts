@@ -8,7 +8,8 @@
  *      SCALEWRIGHT_PYTHON) imports numpy.
  *   2. One purification round (the `purification.round` job: the scale and four facets) on
  *      5,000 × 60 with pairwise deletion, in this process (no target).
- * One untimed warm-up of each command, then REPEATS alternating timed runs; medians printed.
+ * One untimed warm-up of each command, then REPEATS alternating timed runs; medians printed (five: the
+ * machine's noise moves single runs by a tenth or more).
  *
  *     npx tsx test/bench/pairwise.ts [respondents]
  */
@@ -26,7 +27,7 @@ const PYTHON = process.env.SCALEWRIGHT_PYTHON ?? '/usr/bin/python3';
 const RESPONDENTS = Number(process.argv[2] ?? 50_000);
 const ITEMS = 60;
 const MISSING_SHARE = 0.02;
-const REPEATS = 3;
+const REPEATS = 5;
 const TARGET = 1.5;
 /** Fixed seed of the linear congruential generator that fills the file (bench data only). */
 const DATA_SEED = 20261202;
