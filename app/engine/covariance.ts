@@ -196,14 +196,13 @@ export function pairwiseMoments(given: Columns | ResidentColumns): PairwiseMomen
       at.bothMissing,
     );
   }
-  const total = Float64Array.from(new Float64Array(memory, at.total, p));
-  const squares = Float64Array.from(new Float64Array(memory, at.squares, p));
-  const lostSum = Float64Array.from(new Float64Array(memory, at.lostSum, p * p));
-  const lostSquares = Float64Array.from(new Float64Array(memory, at.lostSquares, p * p));
-  const bothMissing = Float64Array.from(new Float64Array(memory, at.bothMissing, p * p));
-  const crossP = new Float64Array(memory, at.cross, P * P);
-  const cross = new Float64Array(p * p);
-  for (let j = 0; j < p; j++) cross.set(crossP.subarray(j * P, j * P + p), j * p);
+  // Read where the kernel left them: nothing below lays out the kernels' memory again.
+  const total = new Float64Array(memory, at.total, p);
+  const squares = new Float64Array(memory, at.squares, p);
+  const lostSum = new Float64Array(memory, at.lostSum, p * p);
+  const lostSquares = new Float64Array(memory, at.lostSquares, p * p);
+  const bothMissing = new Float64Array(memory, at.bothMissing, p * p);
+  const cross = new Float64Array(memory, at.cross, P * P);
   const square = <T>(fill: T) => Array.from({ length: p }, () => new Array<T>(p).fill(fill));
   const counts = square(0);
   const covariance = square(Number.NaN);
@@ -244,7 +243,7 @@ export function pairwiseMoments(given: Columns | ResidentColumns): PairwiseMomen
       const syy = squares[k] - lostSquares[k * p + j];
       const ssx = Math.max(0, sxx - (sx * sx) / c);
       const ssy = Math.max(0, syy - (sy * sy) / c);
-      const productSum = cross[j * p + k] - (sx * sy) / c;
+      const productSum = cross[j * P + k] - (sx * sy) / c;
       const cov = productSum / (c - 1);
       covariance[j][k] = cov;
       covariance[k][j] = cov;
