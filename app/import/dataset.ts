@@ -98,8 +98,8 @@ export interface FieldRows {
   n: number;
   /** File row of each record (header = row 1). */
   rowNumbers: readonly number[];
-  starts: Int32Array;
-  digits: Int8Array;
+  readonly starts: Int32Array;
+  readonly digits: Int8Array;
   /** The bytes from `from` up to `to` (exclusive) as text. */
   text(from: number, to: number): string;
   /**

@@ -36,6 +36,8 @@ export class PlainRecords {
   private readonly k = ownKernels();
   private at = { bytes: 0, starts: 0, digits: 0, out: 0, columns: 0, table: 0, known: 0, values: 0, slow: 0 };
   private byteCapacity = -1;
+  /** Items the gathering regions hold room for (sized at the first gather, by its item count). */
+  private items = 0;
   private length = 0;
 
   constructor(
@@ -78,6 +80,7 @@ export class PlainRecords {
    * digit d is table[d] where known[d] is 1; an empty field is NaN; every other cell is listed.
    */
   gather(n: number, columns: readonly number[], table: Float64Array, known: Uint8Array): GatheredDigits {
+    if (columns.length > this.items) this.layOut(this.byteCapacity, columns.length);
     const { at, width, capacity } = this;
     const buffer = this.k.memory.buffer;
     new Int32Array(buffer, at.columns, columns.length).set(columns);
@@ -103,23 +106,28 @@ export class PlainRecords {
     };
   }
 
-  /** Places the tables and room for `bytes` bytes of the file; the records held are not kept. */
-  private layOut(bytes: number): void {
+  /**
+   * Places the tables, room for `bytes` bytes of the file and the gathering of `items` items. Every
+   * region is written before it is read, so none is cleared: with the same `bytes`, the regions up to
+   * the file's bytes keep their places and contents (a gather may widen its regions in mid-batch).
+   */
+  private layOut(bytes: number, items = this.items): void {
     const { width, capacity } = this;
     const arena = new Arena(this.k);
     this.at = {
-      starts: arena.i32(capacity * (width + 1)),
-      digits: arena.u8(capacity * width),
-      out: arena.i32(4),
-      columns: arena.i32(width),
-      table: arena.f64(10),
-      known: arena.u8(10),
-      values: arena.f64(capacity * width, true),
-      slow: arena.i32(2 * capacity * width),
+      starts: arena.i32(capacity * (width + 1), true),
+      digits: arena.u8(capacity * width, true),
+      out: arena.i32(4, true),
+      columns: arena.i32(width, true),
+      table: arena.f64(10, true),
+      known: arena.u8(10, true),
       bytes: arena.u8(bytes, true),
+      values: arena.f64(capacity * items, true),
+      slow: arena.i32(2 * capacity * items, true),
     };
     const buffer = arena.ready();
     this.byteCapacity = bytes;
+    this.items = items;
     this.starts = new Int32Array(buffer, this.at.starts, capacity * (width + 1));
     this.digits = new Int8Array(buffer, this.at.digits, capacity * width);
   }

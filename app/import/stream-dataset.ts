@@ -390,14 +390,20 @@ export async function streamRecords<S extends RecordSink>(
     let rowNumbers: number[] = [];
     let n = 0;
     const flush = () => {
-      if (n === 0 || !table) return;
+      const records = table;
+      if (n === 0 || !records) return;
       assembler?.addFieldRows({
         n,
         rowNumbers,
-        starts: table.starts,
-        digits: table.digits,
+        // Views of the kernels' memory: read afresh, since a gather may make room and move them.
+        get starts() {
+          return records.starts;
+        },
+        get digits() {
+          return records.digits;
+        },
         text: (from, to) => bytes.toString('latin1', from, to),
-        gather: table.gather.bind(table, n),
+        gather: records.gather.bind(records, n),
       });
       n = 0;
       rowNumbers = [];

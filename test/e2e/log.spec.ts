@@ -10,6 +10,8 @@ test('the decision log shows its head with a copy button, and searches, filters,
 }) => {
   await context.grantPermissions(['clipboard-read', 'clipboard-write']);
   await page.goto(app.url);
+  // The overview first: a click before the app has started can be lost on a busy machine.
+  await expect(page.getByRole('heading', { level: 1 })).toBeVisible();
   await page.locator('.sidebar a[href="#/log"]').click();
 
   const head = page.locator('.log-head-value');

@@ -126,9 +126,9 @@ export class Arena {
     return this.take(count, filled);
   }
 
-  /** Room for `count` 32-bit integers, zero; returns the byte offset. */
-  i32(count: number): number {
-    return this.take(count * 4, false);
+  /** Room for `count` 32-bit integers, zero unless `filled`; returns the byte offset. */
+  i32(count: number, filled = false): number {
+    return this.take(count * 4, filled);
   }
 
   /** Grows the memory to hold everything placed, zeroes what must start at zero, returns the buffer. */
