@@ -162,6 +162,7 @@ export function pairwiseMoments(given: Columns | ResidentColumns): PairwiseMomen
     gap: arena.u8(P * B),
     // Block row and column of each missing cell of the block.
     missingAt: arena.i32(2 * p * B),
+    layout: arena.i32(14),
   };
   const memory = arena.ready();
   const { scanColumn, pairwiseBlock } = arena.k;
@@ -175,27 +176,24 @@ export function pairwiseMoments(given: Columns | ResidentColumns): PairwiseMomen
     if (infinite >= 0) checkFinite(columns[j][infinite], fn, infinite, j);
     [shift[j], present[j], first[j], atFirst[j]] = scan;
   }
-  for (let start = 0; start < n; start += B) {
-    const rows = Math.min(B, n - start);
-    pairwiseBlock(
-      at.cols,
-      n,
-      p,
-      P,
-      start,
-      rows,
-      at.shift,
-      at.total,
-      at.squares,
-      at.block,
-      at.gap,
-      at.missingAt,
-      at.cross,
-      at.lostSum,
-      at.lostSquares,
-      at.bothMissing,
-    );
-  }
+  // The pass's arrays, as fourteen 32-bit integers in the order the kernel reads them.
+  new Int32Array(memory, at.layout, 14).set([
+    at.cols,
+    n,
+    p,
+    P,
+    at.shift,
+    at.total,
+    at.squares,
+    at.block,
+    at.gap,
+    at.missingAt,
+    at.cross,
+    at.lostSum,
+    at.lostSquares,
+    at.bothMissing,
+  ]);
+  for (let start = 0; start < n; start += B) pairwiseBlock(at.layout, start, Math.min(B, n - start));
   // Read where the kernel left them: nothing below lays out the kernels' memory again.
   const total = new Float64Array(memory, at.total, p);
   const squares = new Float64Array(memory, at.squares, p);

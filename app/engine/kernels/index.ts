@@ -14,24 +14,8 @@ export interface KernelExports {
   memory: WebAssembly.Memory;
   heapBase(): number;
   scanColumn(col: number, n: number, out: number): number;
-  pairwiseBlock(
-    cols: number,
-    n: number,
-    p: number,
-    P: number,
-    start: number,
-    rows: number,
-    shift: number,
-    total: number,
-    squares: number,
-    block: number,
-    gap: number,
-    missingAt: number,
-    cross: number,
-    lostSum: number,
-    lostSquares: number,
-    bothMissing: number,
-  ): void;
+  /** One block of rows of the pairwise pass; `layout` as pairwiseLayout writes it. */
+  pairwiseBlock(layout: number, start: number, rows: number): void;
   describePair(a: number, b: number, n: number, scratchA: number, scratchB: number, out: number): void;
   countNear(col: number, n: number, value: number, tolerance: number): number;
   tallyColumn(col: number, n: number, answered: number): number;

@@ -42,53 +42,52 @@ export function scanColumn(col: usize, n: i32, out: usize): i32 {
 }
 
 /**
+ * Where the pairwise pass finds its arrays: the columns (column j at cols + j·n·8), their count p and
+ * length n, the block's row width P (p rounded up to 8), and the pass's arrays. Laid out by the caller
+ * as fourteen 32-bit integers in this order.
+ */
+@unmanaged
+class PairwiseLayout {
+  cols: usize;
+  n: i32;
+  p: i32;
+  P: i32;
+  shift: usize;
+  total: usize;
+  squares: usize;
+  block: usize;
+  gap: usize;
+  missingAt: usize;
+  cross: usize;
+  lostSum: usize;
+  lostSquares: usize;
+  bothMissing: usize;
+}
+
+/**
  * One block of rows [start, start + rows) of the pairwise pass: copies each column's piece into the
  * row-major block (row r at block + r·P·8; a missing value as 0, marked in gap and listed in missingAt)
  * and adds its Σd and Σd² to total and squares; sums every pair's cross-products over the block into
  * cross (row stride P); then, for each missing cell, moves the other columns' values in that row to
  * lostSum/lostSquares, or counts them in bothMissing (all p × p).
  */
-export function pairwiseBlock(
-  cols: usize,
-  n: i32,
-  p: i32,
-  P: i32,
-  start: i32,
-  rows: i32,
-  shift: usize,
-  total: usize,
-  squares: usize,
-  block: usize,
-  gap: usize,
-  missingAt: usize,
-  cross: usize,
-  lostSum: usize,
-  lostSquares: usize,
-  bothMissing: usize,
-): void {
-  const missing = fillBlock(cols, n, p, P, start, rows, shift, total, squares, block, gap, missingAt);
-  crossProducts(block, p, P, rows, cross);
-  correctForMissing(missingAt, missing, block, gap, p, P, lostSum, lostSquares, bothMissing);
+export function pairwiseBlock(layout: usize, start: i32, rows: i32): void {
+  const l = changetype<PairwiseLayout>(layout);
+  const missing = fillBlock(l, start, rows);
+  crossProducts(l.block, l.p, l.P, rows, l.cross);
+  correctForMissing(l, missing);
 }
 
-function fillBlock(
-  cols: usize,
-  n: i32,
-  p: i32,
-  P: i32,
-  start: i32,
-  rows: i32,
-  shift: usize,
-  total: usize,
-  squares: usize,
-  block: usize,
-  gap: usize,
-  missingAt: usize,
-): i32 {
+function fillBlock(l: PairwiseLayout, start: i32, rows: i32): i32 {
+  const p = l.p;
+  const P = l.P;
+  const block = l.block;
+  const gap = l.gap;
+  const missingAt = l.missingAt;
   let missing = 0;
   for (let j = 0; j < p; j++) {
-    const s = load<f64>(shift + (<usize>j << 3));
-    const col = cols + ((<usize>j * <usize>n + <usize>start) << 3);
+    const s = load<f64>(l.shift + (<usize>j << 3));
+    const col = l.cols + ((<usize>j * <usize>l.n + <usize>start) << 3);
     let t: f64 = 0;
     let q: f64 = 0;
     for (let r = 0; r < rows; r++) {
@@ -108,9 +107,9 @@ function fillBlock(
         missing++;
       }
     }
-    const tj = total + (<usize>j << 3);
+    const tj = l.total + (<usize>j << 3);
     store<f64>(tj, load<f64>(tj) + t);
-    const qj = squares + (<usize>j << 3);
+    const qj = l.squares + (<usize>j << 3);
     store<f64>(qj, load<f64>(qj) + q);
   }
   return missing;
@@ -188,29 +187,21 @@ function crossProducts(block: usize, p: i32, P: i32, rows: i32, cross: usize): v
   }
 }
 
-function correctForMissing(
-  missingAt: usize,
-  missing: i32,
-  block: usize,
-  gap: usize,
-  p: i32,
-  P: i32,
-  lostSum: usize,
-  lostSquares: usize,
-  bothMissing: usize,
-): void {
+function correctForMissing(l: PairwiseLayout, missing: i32): void {
+  const p = l.p;
+  const P = l.P;
   for (let m = 0; m < missing; m++) {
-    const r = load<i32>(missingAt + (<usize>m << 3));
-    const k = load<i32>(missingAt + (<usize>m << 3), 4);
+    const r = load<i32>(l.missingAt + (<usize>m << 3));
+    const k = load<i32>(l.missingAt + (<usize>m << 3), 4);
     const row = <usize>r * <usize>P;
     for (let j = 0; j < p; j++) {
       const at = (<usize>j * <usize>p + <usize>k) << 3;
-      if (load<u8>(gap + row + <usize>j) == 1) {
-        store<f64>(bothMissing + at, load<f64>(bothMissing + at) + 1);
+      if (load<u8>(l.gap + row + <usize>j) == 1) {
+        store<f64>(l.bothMissing + at, load<f64>(l.bothMissing + at) + 1);
       } else {
-        const d = load<f64>(block + ((row + <usize>j) << 3));
-        store<f64>(lostSum + at, load<f64>(lostSum + at) + d);
-        store<f64>(lostSquares + at, load<f64>(lostSquares + at) + d * d);
+        const d = load<f64>(l.block + ((row + <usize>j) << 3));
+        store<f64>(l.lostSum + at, load<f64>(l.lostSum + at) + d);
+        store<f64>(l.lostSquares + at, load<f64>(l.lostSquares + at) + d * d);
       }
     }
   }
@@ -252,6 +243,71 @@ function compact(col: usize, n: i32, scratch: usize): i32 {
   return count;
 }
 
+/** The index of the first infinite one of count values, its value in out[7]; −1 when all are finite. */
+function firstInfinite(values: usize, count: i32, out: usize): f64 {
+  for (let i = 0; i < count; i++) {
+    const v = load<f64>(values + (<usize>i << 3));
+    if (v - v != 0) {
+      store<f64>(out, v, 56);
+      return i;
+    }
+  }
+  return -1;
+}
+
+/** The compensated sums of describePair's two lanes as pairSums and sumTail leave them: sum, compensation. */
+const lanes = memory.data(32, 16);
+
+// @ts-ignore: decorator
+@inline
+function laneSum(lane: i32): f64 {
+  return load<f64>(lanes + (<usize>lane << 4));
+}
+
+// @ts-ignore: decorator
+@inline
+function laneComp(lane: i32): f64 {
+  return load<f64>(lanes + (<usize>lane << 4), 8);
+}
+
+// @ts-ignore: decorator
+@inline
+function setLane(lane: i32, sum: f64, comp: f64): void {
+  store<f64>(lanes + (<usize>lane << 4), sum);
+  store<f64>(lanes + (<usize>lane << 4), comp, 8);
+}
+
+/**
+ * Compensated (Neumaier) sums of a[i] − shiftA and b[i] − shiftB over i < count, side by side in the
+ * two lanes of a vector; into laneSum and laneComp.
+ */
+function pairSums(a: usize, b: usize, count: i32, shiftA: f64, shiftB: f64): void {
+  const shift = pair(shiftA, shiftB);
+  let s = f64x2.splat(0);
+  let c = f64x2.splat(0);
+  for (let i = 0; i < count; i++) {
+    const v = f64x2.sub(pair(load<f64>(a + (<usize>i << 3)), load<f64>(b + (<usize>i << 3))), shift);
+    const t = f64x2.add(s, v);
+    c = f64x2.add(c, lost2(s, v, t));
+    s = t;
+  }
+  setLane(0, f64x2.extract_lane(s, 0), f64x2.extract_lane(c, 0));
+  setLane(1, f64x2.extract_lane(s, 1), f64x2.extract_lane(c, 1));
+}
+
+/** Continues one lane's compensated sum over values[from, count) − shift, alone. */
+function sumTail(values: usize, from: i32, count: i32, shift: f64, lane: i32): void {
+  let s = laneSum(lane);
+  let c = laneComp(lane);
+  for (let i = from; i < count; i++) {
+    const v = load<f64>(values + (<usize>i << 3)) - shift;
+    const t = s + v;
+    c += lost(s, v, t);
+    s = t;
+  }
+  setLane(lane, s, c);
+}
+
 /**
  * The present (non-NaN) values of two columns of n values (b may be 0: none), copied in row order to
  * scratchA and scratchB, and their moments, each sum compensated (Neumaier): the mean (a first mean
@@ -269,83 +325,19 @@ export function describePair(a: usize, b: usize, n: i32, scratchA: usize, scratc
   const outB = out + 64;
   store<f64>(out, na, 8);
   store<f64>(outB, nb, 8);
-  let statusA: f64 = na < 2 ? -2 : -1;
-  let statusB: f64 = nb < 2 ? -2 : -1;
-  // Pass 1: the sums, and the first infinite value.
-  let s = f64x2.splat(0);
-  let c = f64x2.splat(0);
-  for (let i = 0; i < both; i++) {
-    const x = load<f64>(scratchA + (<usize>i << 3));
-    const y = load<f64>(scratchB + (<usize>i << 3));
-    if (x - x != 0 && statusA == -1) {
-      statusA = i;
-      store<f64>(out, x, 56);
-    }
-    if (y - y != 0 && statusB == -1) {
-      statusB = i;
-      store<f64>(outB, y, 56);
-    }
-    const v = pair(x, y);
-    const t = f64x2.add(s, v);
-    c = f64x2.add(c, lost2(s, v, t));
-    s = t;
-  }
-  let sa = f64x2.extract_lane(s, 0);
-  let ca = f64x2.extract_lane(c, 0);
-  let sb = f64x2.extract_lane(s, 1);
-  let cb = f64x2.extract_lane(c, 1);
-  for (let i = both; i < na; i++) {
-    const v = load<f64>(scratchA + (<usize>i << 3));
-    if (v - v != 0 && statusA == -1) {
-      statusA = i;
-      store<f64>(out, v, 56);
-    }
-    const t = sa + v;
-    ca += lost(sa, v, t);
-    sa = t;
-  }
-  for (let i = both; i < nb; i++) {
-    const v = load<f64>(scratchB + (<usize>i << 3));
-    if (v - v != 0 && statusB == -1) {
-      statusB = i;
-      store<f64>(outB, v, 56);
-    }
-    const t = sb + v;
-    cb += lost(sb, v, t);
-    sb = t;
-  }
-  store<f64>(out, statusA);
-  store<f64>(outB, statusB);
-  const firstA = (sa + ca) / <f64>na;
-  const firstB = (sb + cb) / <f64>nb;
-  // Pass 2: the deviations from the first means.
-  const first = pair(firstA, firstB);
-  s = f64x2.splat(0);
-  c = f64x2.splat(0);
-  for (let i = 0; i < both; i++) {
-    const v = f64x2.sub(pair(load<f64>(scratchA + (<usize>i << 3)), load<f64>(scratchB + (<usize>i << 3))), first);
-    const t = f64x2.add(s, v);
-    c = f64x2.add(c, lost2(s, v, t));
-    s = t;
-  }
-  sa = f64x2.extract_lane(s, 0);
-  ca = f64x2.extract_lane(c, 0);
-  sb = f64x2.extract_lane(s, 1);
-  cb = f64x2.extract_lane(c, 1);
-  for (let i = both; i < na; i++) {
-    const v = load<f64>(scratchA + (<usize>i << 3)) - firstA;
-    const t = sa + v;
-    ca += lost(sa, v, t);
-    sa = t;
-  }
-  for (let i = both; i < nb; i++) {
-    const v = load<f64>(scratchB + (<usize>i << 3)) - firstB;
-    const t = sb + v;
-    cb += lost(sb, v, t);
-    sb = t;
-  }
-  const meanA = firstA + (sa + ca) / <f64>na;
-  const meanB = firstB + (sb + cb) / <f64>nb;
+  store<f64>(out, na < 2 ? -2 : firstInfinite(scratchA, na, out));
+  store<f64>(outB, nb < 2 ? -2 : firstInfinite(scratchB, nb, outB));
+  // Pass 1: the sums (deviations from 0); pass 2: the deviations from the first means.
+  pairSums(scratchA, scratchB, both, 0, 0);
+  sumTail(scratchA, both, na, 0, 0);
+  sumTail(scratchB, both, nb, 0, 1);
+  const firstA = (laneSum(0) + laneComp(0)) / <f64>na;
+  const firstB = (laneSum(1) + laneComp(1)) / <f64>nb;
+  pairSums(scratchA, scratchB, both, firstA, firstB);
+  sumTail(scratchA, both, na, firstA, 0);
+  sumTail(scratchB, both, nb, firstB, 1);
+  const meanA = firstA + (laneSum(0) + laneComp(0)) / <f64>na;
+  const meanB = firstB + (laneSum(1) + laneComp(1)) / <f64>nb;
   // Pass 3: the deviations from the means, and their squares, cubes and fourth powers.
   const m = pair(meanA, meanB);
   let ds = f64x2.splat(0);
