@@ -745,21 +745,32 @@ export function splitLines(
     let end = -1;
     for (;;) {
       if (fields <= width) store<i32>(base + (<usize>fields << 2), p);
-      let q = p;
       const b: i32 = p < len ? <i32>load<u8>(bytes + <usize>p) : -1;
       const next: i32 = p + 1 < len ? <i32>load<u8>(bytes + <usize>p + 1) : -1;
-      if (b >= DIGIT_ZERO && b <= DIGIT_NINE && b != delimiter && (next == delimiter || next == LINE_FEED || (next < 0 && final))) {
-        if (fields < width) store<i8>(digitBase + <usize>fields, <i8>(b - DIGIT_ZERO));
-        content = true;
-        q = p + 1;
-      } else {
-        for (; q < len; q++) {
-          const c = <i32>load<u8>(bytes + <usize>q);
-          if (c == delimiter || c == LINE_FEED) break;
-          if (!content && !trimmed(c)) content = true;
+      if (b >= DIGIT_ZERO && b <= DIGIT_NINE && b != delimiter) {
+        // One digit and then the field's end: taken in one step, its end read once.
+        if (next == delimiter) {
+          if (fields < width) store<i8>(digitBase + <usize>fields, <i8>(b - DIGIT_ZERO));
+          content = true;
+          fields++;
+          p += 2;
+          continue;
         }
-        if (fields < width) store<i8>(digitBase + <usize>fields, q == p ? FIELD_EMPTY : FIELD_OTHER);
+        if (next == LINE_FEED || (next < 0 && final)) {
+          if (fields < width) store<i8>(digitBase + <usize>fields, <i8>(b - DIGIT_ZERO));
+          content = true;
+          fields++;
+          end = p + 1;
+          break;
+        }
       }
+      let q = p;
+      for (; q < len; q++) {
+        const c = <i32>load<u8>(bytes + <usize>q);
+        if (c == delimiter || c == LINE_FEED) break;
+        if (!content && !trimmed(c)) content = true;
+      }
+      if (fields < width) store<i8>(digitBase + <usize>fields, q == p ? FIELD_EMPTY : FIELD_OTHER);
       fields++;
       if (q >= len) {
         if (final) end = len;
