@@ -108,8 +108,8 @@ export class ItemColumnsSink implements RecordSink {
       this.table[d] = got?.value ?? Number.NaN;
     }
     const { values, capacity, slow, listed } = rows.gather(columns, this.table, this.knownDigits);
-    const first = this.count;
-    for (let i = 0; i < rows.n; i++) this.nextRow(rows.rowNumbers[i]);
+    const first = this.reserve(rows.n);
+    this.rows.set(rows.rowNumbers, first);
     for (let j = 0; j < columns.length; j++) {
       this.values[j].set(values.subarray(j * capacity, j * capacity + rows.n), first);
     }
@@ -150,19 +150,28 @@ export class ItemColumnsSink implements RecordSink {
     };
   }
 
-  /** Makes room for one more respondent and returns its index. */
+  /** Makes room for one more respondent, numbered `rowNumber` in the file, and returns its index. */
   private nextRow(rowNumber: number): number {
-    if (this.count === this.rows.length) {
+    const at = this.reserve(1);
+    this.rows[at] = rowNumber;
+    return at;
+  }
+
+  /** Makes room for `n` more respondents (their rows to be filled in) and returns the first's index. */
+  private reserve(n: number): number {
+    const first = this.count;
+    if (first + n > this.rows.length) {
+      const size = Math.max(2 * this.rows.length, first + n);
       const grow = <T extends Float64Array | Int32Array>(a: T, make: (n: number) => T): T => {
-        const bigger = make(a.length * 2);
+        const bigger = make(size);
         bigger.set(a);
         return bigger;
       };
-      this.rows = grow(this.rows, (n) => new Int32Array(n));
-      this.values = this.values.map((v) => grow(v, (n) => new Float64Array(n)));
+      this.rows = grow(this.rows, (k) => new Int32Array(k));
+      this.values = this.values.map((v) => grow(v, (k) => new Float64Array(k)));
     }
-    this.rows[this.count] = rowNumber;
-    return this.count++;
+    this.count += n;
+    return first;
   }
 
   /** The value of a cell given as text (NaN = missing), read once per distinct text. */

@@ -157,6 +157,13 @@ describe('loadItemData reads plain and quoted files alike', () => {
     ['trailing delimiters and padded cells', 'id,a,b,\np1, 2 ,3,\np2,4,5,\n', { items: 'b,a' }, 'reads'],
     ['a ragged row', 'id,a,b\np1,1,2\np2,3\n', { items: 'a,b' }, 'refuses'],
     ['a long file', long('p701,5,4,3,2'), { items: 'd,b,a,c', 'missing-codes': '-99,NA' }, 'reads'],
+    // Long first rows make the first bytes promise few respondents: the columns must grow.
+    [
+      'a file whose first rows are long',
+      long('p701,5,4,3,2').replace(/\np(\d),/g, (_, d) => `\np${d}${'x'.repeat(9000)},`),
+      { items: 'a,b,c,d', 'missing-codes': '-99,NA' },
+      'reads',
+    ],
     [
       'a long file whose last row holds the first 6',
       long('p701,6,4,3,2\n'),
