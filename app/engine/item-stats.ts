@@ -220,16 +220,17 @@ export function itemMoments(names: string[], data: Responses, method: MissingMet
   const total = respondentCount(data);
   // answers[r]: the answers respondent r gave; listwise keeps those with all k, pairwise those with any.
   const { columns: all, answered: answers, missing: missingAll, resident } = tallyAnswers(names, data);
-  const keep: number[] = [];
-  for (let r = 0; r < total; r++) {
-    if (method === 'listwise' ? answers[r] === k : answers[r] > 0) keep.push(r);
-  }
-  const n = keep.length;
+  const kept = (r: number) => (method === 'listwise' ? answers[r] === k : answers[r] > 0);
+  let n = 0;
+  for (let r = 0; r < total; r++) if (kept(r)) n++;
+  // The rows kept, listed only when some are left out.
+  const keep = new Int32Array(n === total ? 0 : n);
+  if (n < total) for (let r = 0, at = 0; r < total; r++) if (kept(r)) keep[at++] = r;
   let rowsKept: ResponseMatrix | undefined;
   const rows = (): ResponseMatrix => {
     if (rowsKept === undefined) {
       const matrix = responseRows(data);
-      rowsKept = n === total ? matrix : keep.map((r) => matrix[r]);
+      rowsKept = n === total ? matrix : Array.from(keep, (r) => matrix[r]);
     }
     return rowsKept;
   };
