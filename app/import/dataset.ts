@@ -96,8 +96,8 @@ export const FIELD_OTHER = -1;
 export interface FieldRows {
   /** Number of records. */
   n: number;
-  /** File row of each record (header = row 1). */
-  rowNumbers: readonly number[];
+  /** File row of each record (header = row 1); only while the call that was given the rows runs. */
+  rowNumbers: ArrayLike<number>;
   readonly starts: Int32Array;
   readonly digits: Int8Array;
   /** The bytes from `from` up to `to` (exclusive) as text. */
@@ -321,7 +321,7 @@ export class DatasetAssembler {
    */
   private addBatch(
     n: number,
-    rowNumbers: readonly number[],
+    rowNumbers: ArrayLike<number>,
     cell: (record: number, column: number) => string,
     fill: (block: Int8Array, slow: Int32Array, empty: Int32Array) => number,
   ): void {

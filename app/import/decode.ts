@@ -52,6 +52,8 @@ export function detectBom(bytes: Uint8Array): { encoding: Encoding; length: numb
 export function detectUtf16ByNuls(bytes: Uint8Array): Encoding | undefined {
   const n = Math.min(bytes.length, SNIFF_BYTES) & ~1;
   if (n < 4) return undefined;
+  const nul = bytes.indexOf(0);
+  if (nul < 0 || nul >= n) return undefined;
   let evenNuls = 0;
   let oddNuls = 0;
   for (let i = 0; i < n; i += 2) {
@@ -70,12 +72,17 @@ function looksLikeZip(bytes: Uint8Array): boolean {
   );
 }
 
+/** A NUL or a control character that text tables do not hold (tab, line feed and return they do). */
+// biome-ignore lint/suspicious/noControlCharactersInRegex: control characters are what it looks for
+const CONTROL = /[\u0000-\u0008\u000b\u000c\u000e-\u001f\u007f-\u009f]/;
+
 /**
  * Refuses text that is really binary content: any NUL character, or more than BINARY_CONTROL_SHARE
  * control characters (tab, CR and LF excepted) in the first SNIFF_BYTES characters.
  */
 export function assertTextual(text: string, fileLabel: string): void {
   const n = Math.min(text.length, SNIFF_BYTES);
+  if (!CONTROL.test(text.slice(0, n))) return;
   let controls = 0;
   for (let i = 0; i < n; i++) {
     const c = text.charCodeAt(i);

@@ -387,14 +387,15 @@ export async function streamRecords<S extends RecordSink>(
    */
   const splitPlain = (bytes: Buffer, final: boolean): number => {
     const delimiter = format.delimiter.charCodeAt(0);
-    let rowNumbers: number[] = [];
+    // File rows of the batch's records (reused: a sink copies what it keeps).
+    const rowNumbers = new Int32Array(FIELD_ROWS_BATCH);
     let n = 0;
     const flush = () => {
       const records = table;
       if (n === 0 || !records) return;
       assembler?.addFieldRows({
         n,
-        rowNumbers,
+        rowNumbers: rowNumbers.subarray(0, n),
         // Views of the kernels' memory: read afresh, since a gather may make room and move them.
         get starts() {
           return records.starts;
@@ -406,7 +407,6 @@ export async function streamRecords<S extends RecordSink>(
         gather: records.gather.bind(records, n),
       });
       n = 0;
-      rowNumbers = [];
     };
     let at = 0;
     while (at < bytes.length && !header) {
@@ -431,7 +431,7 @@ export async function streamRecords<S extends RecordSink>(
         blankInside.push(...pendingBlank);
         pendingBlank = [];
       }
-      for (let r = 0; r < split.count; r++) rowNumbers.push(++record);
+      for (let r = 0; r < split.count; r++) rowNumbers[n + r] = ++record;
       n += split.count;
       at = split.at;
       if (n === FIELD_ROWS_BATCH) {
@@ -452,7 +452,7 @@ export async function streamRecords<S extends RecordSink>(
         // Throws unless the fields beyond the header are empty; those are then left out.
         fitRecord(bytes.toString('latin1', at, next - 1).split(format.delimiter), header, record);
         if (fields > rawWidth) trimmed++;
-        rowNumbers.push(record);
+        rowNumbers[n] = record;
         n++;
         if (n === FIELD_ROWS_BATCH) flush();
       }

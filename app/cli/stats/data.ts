@@ -202,7 +202,7 @@ const ESTIMATE_BYTES = 64 * 1024;
 function estimatedRecords(bytes: Uint8Array): number {
   const sample = Math.min(bytes.length, ESTIMATE_BYTES);
   let lines = 0;
-  for (let i = 0; i < sample; i++) if (bytes[i] === 0x0a) lines++;
+  for (let at = bytes.indexOf(0x0a); at >= 0 && at < sample; at = bytes.indexOf(0x0a, at + 1)) lines++;
   return sample === 0 ? 0 : (bytes.length * Math.max(1, lines)) / sample + 16;
 }
 
