@@ -26,9 +26,9 @@ async function* chunked(bytes: Uint8Array, sizes: number[]): AsyncGenerator<Uint
 interface Setup {
   /** Given when it is not one the reader detects (a digit). */
   delimiter?: string;
-  items: string[];
-  missingCodes: string[];
-  bounds: { min: number; max: number } | null;
+  items: readonly string[];
+  missingCodes: readonly string[];
+  bounds: { readonly min: number; readonly max: number } | null;
 }
 
 type Outcome =
