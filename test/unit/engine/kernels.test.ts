@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { pairwiseMoments } from '../../../app/engine/covariance.ts';
-import { summarizeColumns } from '../../../app/engine/item-stats.ts';
-import { Arena, kernels } from '../../../app/engine/kernels/index.ts';
+import { descriptivesOfColumns, summarizeColumns } from '../../../app/engine/item-stats.ts';
+import { Arena, kernels, residentColumns } from '../../../app/engine/kernels/index.ts';
 import { EngineError } from '../../../app/engine/errors.ts';
 import { createRng } from '../../../app/engine/rng.ts';
 // @ts-expect-error: plain JavaScript build script without type declarations
@@ -80,5 +80,22 @@ describe('compiled kernels', () => {
     expect(() =>
       summarizeColumns([Float64Array.of(1, Number.NaN, Number.POSITIVE_INFINITY)], tooFew),
     ).toThrow('the value at index 1 is Infinity');
+  });
+
+  // The columns are laid out end to end, n = the first column's length apart: a shorter column would
+  // leave its tail to whatever an earlier computation left in the kernels' memory, and a longer one
+  // would run into the next column's place.
+  it('columns of unequal length are refused, not read from or written over memory they do not own', () => {
+    // Leave other values in the kernels' memory first, where the columns below will be placed.
+    residentColumns([Float64Array.from({ length: 64 }, (_, i) => 100 + i)]);
+    const shorter = [Float64Array.of(1, 2, 3, 4, 5), Float64Array.of(1, 2, 3)];
+    const longer = [Float64Array.of(1, 2, 3), Float64Array.of(5, 4, 3, 2, 1), Float64Array.of(2, 2, 3)];
+    for (const columns of [shorter, longer]) {
+      expect(() => residentColumns(columns)).toThrow(EngineError);
+      expect(() => residentColumns(columns)).toThrow(/column index 1 has \d values, column index 0 has \d/);
+      expect(() => descriptivesOfColumns(['a', 'b', 'c'].slice(0, columns.length), columns)).toThrow(
+        EngineError,
+      );
+    }
   });
 });
