@@ -1,3 +1,4 @@
+import { EngineError } from '../errors.ts';
 import { KERNELS_WASM_BASE64 } from './binary.ts';
 
 /**
@@ -150,10 +151,22 @@ export interface ResidentColumns {
   readonly base: number;
 }
 
-/** Copies columns (each of columns[0]'s length) into a new Arena on the shared instance. Cost O(n·p). */
+/**
+ * Copies columns (each of columns[0]'s length) into a new Arena on the shared instance. Cost O(n·p).
+ * Throws EngineError ('shape') for a column of another length: it would leave part of its place to
+ * what the memory held before, or run into the next column's place.
+ */
 export function residentColumns(columns: readonly Float64Array[]): ResidentColumns {
-  const arena = new Arena();
   const n = columns[0]?.length ?? 0;
+  columns.forEach((column, j) => {
+    if (column.length !== n) {
+      throw new EngineError(
+        `columns must be of equal length; column index ${j} has ${column.length} values, column index 0 has ${n}`,
+        'shape',
+      );
+    }
+  });
+  const arena = new Arena();
   const base = arena.f64(n * columns.length, true);
   const all = new Float64Array(arena.ready(), base, n * columns.length);
   columns.forEach((column, j) => {
