@@ -97,5 +97,10 @@ describe('compiled kernels', () => {
         EngineError,
       );
     }
+    // With the summaries given, only the answers at the bounds are counted in the kernels' memory.
+    const tooFew = () => new EngineError('too few');
+    const given = shorter.map((column) => summarizeColumns([column], tooFew).summaries[0]);
+    residentColumns([Float64Array.from({ length: 64 }, () => 5)]);
+    expect(() => descriptivesOfColumns(['a', 'b'], shorter, { min: 1, max: 5 }, given)).toThrow(EngineError);
   });
 });
