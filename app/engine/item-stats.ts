@@ -112,8 +112,12 @@ export function summarizeColumns(
   return { summaries, atFloor, atCeiling };
 }
 
-/** How many answers of each column lie at the declared minimum and maximum (within BOUND_TOLERANCE). */
+/**
+ * How many answers of each column lie at the declared minimum and maximum (within BOUND_TOLERANCE).
+ * Throws EngineError ('shape') for a column of another length than the first.
+ */
 function countsAtBounds(
+  names: readonly string[],
   columns: readonly Float64Array[],
   bounds: ScaleBounds,
 ): { atFloor: number[]; atCeiling: number[] } {
@@ -124,11 +128,18 @@ function countsAtBounds(
   const { countNear } = arena.k;
   const atFloor: number[] = [];
   const atCeiling: number[] = [];
-  for (const values of columns) {
+  columns.forEach((values, c) => {
+    // A shorter column would be counted with the rest of the one before it.
+    if (values.length !== n) {
+      throw new EngineError(
+        `item "${names[c]}" has ${values.length} values but item "${names[0]}" has ${n}; items must be of equal length`,
+        'shape',
+      );
+    }
     column.set(values);
     atFloor.push(countNear(col, n, bounds.min, BOUND_TOLERANCE));
     atCeiling.push(countNear(col, n, bounds.max, BOUND_TOLERANCE));
-  }
+  });
   return { atFloor, atCeiling };
 }
 
@@ -147,7 +158,7 @@ export function descriptivesOfColumns(
   const tooFew = (c: number, n: number) =>
     new EngineError(`item "${names[c]}" has ${n} answered value(s); item statistics require at least two`);
   const described = summarizeColumns(summaries ? [] : columns, tooFew, bounds);
-  const counted = summaries && bounds ? countsAtBounds(columns, bounds) : described;
+  const counted = summaries && bounds ? countsAtBounds(names, columns, bounds) : described;
   return names.map((name, c) => {
     const { n, mean: m, variance: v, m2, m3, m4 } = summaries?.[c] ?? described.summaries[c];
     const missing = columns[c].length - n;
