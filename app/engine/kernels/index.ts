@@ -3,13 +3,14 @@ import { KERNELS_WASM_BASE64 } from './binary.ts';
 
 /**
  * The engine's compiled kernels (assembly/index.ts, built by build.mjs into binary.ts): the inner
- * loops of the pairwise moments and of the column descriptives, as WebAssembly. Each kernel performs
+ * loops of the pairwise moments, column summaries, answer tally, eigen and LU decompositions and the
+ * splitting of plain-text records, as WebAssembly. Each kernel performs
  * the same double-precision operations in the same order as the TypeScript it replaced, so its results
  * are the same to the last bit; it runs compiled from its first call instead of waiting for the
  * JavaScript engine to warm up, and sums two products per instruction where the order allows it.
  *
- * One instance per thread, made on first use. Callers lay out their arrays in its memory with an
- * Arena, copy their inputs in, call the kernels, and copy the results out before the next call.
+ * One shared instance per thread, made on first use. Callers lay out their arrays in its memory with
+ * an Arena, copy their inputs in, call the kernels, and read the results before the next layout.
  */
 export interface KernelExports {
   memory: WebAssembly.Memory;

@@ -7,6 +7,7 @@
 import type { DatasetOptions } from '../../../app/import/dataset.ts';
 import type { ColumnMapping } from '../../../app/import/mapping.ts';
 import type { ParseTableOptions } from '../../../app/import/parse-table.ts';
+import { utf8 } from '../../helpers/bytes.ts';
 
 export interface CorpusEntry {
   name: string;
@@ -19,7 +20,6 @@ export interface CorpusEntry {
     | { warnings?: RegExp[]; problems?: { row: number; column: string; message: RegExp }[] };
 }
 
-const utf8 = (s: string) => new TextEncoder().encode(s);
 const utf16le = (s: string) => new Uint8Array(Buffer.from(s, 'utf16le'));
 const utf16be = (s: string) => new Uint8Array(Buffer.from(s, 'utf16le').swap16());
 const item = (code: string) => ({ role: 'item', itemCode: code }) as const;

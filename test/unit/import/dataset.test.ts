@@ -2,8 +2,8 @@ import { describe, expect, it } from 'vitest';
 import { buildDataset, DEFAULT_MAX_PROBLEMS } from '../../../app/import/dataset.ts';
 import type { ColumnMapping } from '../../../app/import/mapping.ts';
 import { parseTable } from '../../../app/import/parse-table.ts';
+import { utf8 } from '../../helpers/bytes.ts';
 
-const utf8 = (s: string) => new TextEncoder().encode(s);
 const item = (code: string) => ({ role: 'item', itemCode: code }) as const;
 
 describe('buildDataset', () => {

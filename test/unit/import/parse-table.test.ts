@@ -2,8 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { buildDataset } from '../../../app/import/dataset.ts';
 import { parseTable, TableError } from '../../../app/import/parse-table.ts';
 import { CORPUS, type CorpusEntry } from './broken-corpus.ts';
-
-const utf8 = (s: string) => new TextEncoder().encode(s);
+import { utf8 } from '../../helpers/bytes.ts';
 
 /** Runs one corpus entry the way the import does: parse, then (when asked) build the dataset. */
 function run(entry: CorpusEntry) {

@@ -10,6 +10,7 @@ import {
   streamDataset,
 } from '../../../app/import/stream-dataset.ts';
 import { CORPUS } from './broken-corpus.ts';
+import { chunked, utf8 } from '../../helpers/bytes.ts';
 
 /**
  * The plain-text reading (streamDataset with plainText) splits records from the bytes itself; the
@@ -17,18 +18,6 @@ import { CORPUS } from './broken-corpus.ts';
  * very same dataset (values in the same column layout, ids, row numbers, problems with row and column,
  * warnings) or the very same error (message, row, column) on every plain file.
  */
-
-const utf8 = (s: string) => new TextEncoder().encode(s);
-
-async function* chunked(bytes: Uint8Array, sizes: number[]): AsyncGenerator<Uint8Array> {
-  let at = 0;
-  let i = 0;
-  while (at < bytes.length) {
-    const size = Math.max(1, sizes[i++ % sizes.length]);
-    yield bytes.subarray(at, at + size);
-    at += size;
-  }
-}
 
 type Outcome =
   | { dataset: StreamedDataset }

@@ -22,8 +22,8 @@ import { createStudyWithPool } from '../../helpers/study-data.ts';
 import { tempDir } from '../../helpers/tmp.ts';
 import { CORPUS } from './broken-corpus.ts';
 import { makeWorkbook } from './xlsx-writer.ts';
+import { utf8 } from '../../helpers/bytes.ts';
 
-const utf8 = (s: string) => new TextEncoder().encode(s);
 const POOL = ['tc1', 'tc2', 'q1', 'q2'];
 const BOUNDS = { min: 1, max: 5 };
 

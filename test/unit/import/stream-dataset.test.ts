@@ -7,18 +7,7 @@ import type { ColumnMapping } from '../../../app/import/mapping.ts';
 import { parseTable, TableError } from '../../../app/import/parse-table.ts';
 import { type StreamedDataset, streamDataset } from '../../../app/import/stream-dataset.ts';
 import { CORPUS } from './broken-corpus.ts';
-
-const utf8 = (s: string) => new TextEncoder().encode(s);
-
-async function* chunked(bytes: Uint8Array, sizes: number[]): AsyncGenerator<Uint8Array> {
-  let at = 0;
-  let i = 0;
-  while (at < bytes.length) {
-    const size = Math.max(1, sizes.length > 0 ? sizes[i++ % sizes.length] : bytes.length);
-    yield bytes.subarray(at, at + size);
-    at += size;
-  }
-}
+import { chunked, utf8 } from '../../helpers/bytes.ts';
 
 function sameValues(a: ArrayLike<number>, b: ArrayLike<number>): boolean {
   if (a.length !== b.length) return false;

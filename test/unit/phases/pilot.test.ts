@@ -53,8 +53,7 @@ import { getPhaseStatus, setPhaseStatus } from '../../../db/repos/phase-state.ts
 import { Study } from '../../../db/study.ts';
 import { createStudyWithPool } from '../../helpers/study-data.ts';
 import { TEST_ACTOR, tempDir } from '../../helpers/tmp.ts';
-
-const utf8 = (s: string) => new TextEncoder().encode(s);
+import { utf8 } from '../../helpers/bytes.ts';
 
 /** Agreement with numpy/scipy: the same formulas in double precision (the inverse computed differently). */
 const FIXTURE_TOL = 1e-9;

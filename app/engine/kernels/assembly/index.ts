@@ -1,6 +1,7 @@
-// The engine's compiled kernels, in AssemblyScript: the loops of the pairwise moments and the column
-// descriptives that dominate an item analysis of a large file, compiled to WebAssembly so that they
-// run at full speed from their first call. Each computes the same IEEE double operations in the same
+// The engine's compiled kernels, in AssemblyScript: the loops that dominate an analysis of a large
+// file (pairwise moments, column summaries, the answer tally, the symmetric eigendecomposition, LU,
+// and the splitting of plain-text records), compiled to WebAssembly so that they run at full speed
+// from their first call. Each computes the same IEEE double operations in the same
 // order as the TypeScript it replaced, so the results are the same to the last bit.
 //
 // Memory is laid out by the caller (app/engine/kernels/index.ts): every pointer is a byte offset into

@@ -2,6 +2,7 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { type CellRules, ItemColumnsSink } from '../../../../app/cli/stats/item-columns.ts';
 import { streamRecords } from '../../../../app/import/stream-dataset.ts';
+import { chunked, utf8 } from '../../../helpers/bytes.ts';
 
 /**
  * The command line's item columns (ItemColumnsSink) read from a plain file by the compiled splitting
@@ -10,18 +11,6 @@ import { streamRecords } from '../../../../app/import/stream-dataset.ts';
  * error. Files span several batches of records and arrive in odd-sized chunks, so that a batch ends
  * mid-line, a line outgrows one chunk, and the gathering regions are laid out while a batch is read.
  */
-
-const utf8 = (s: string) => new TextEncoder().encode(s);
-
-async function* chunked(bytes: Uint8Array, sizes: number[]): AsyncGenerator<Uint8Array> {
-  let at = 0;
-  let i = 0;
-  while (at < bytes.length) {
-    const size = Math.max(1, sizes[i++ % sizes.length]);
-    yield bytes.subarray(at, at + size);
-    at += size;
-  }
-}
 
 interface Setup {
   /** Given when it is not one the reader detects (a digit). */
